@@ -1,0 +1,18 @@
+"""hasten: least-cost schedule acceleration for construction projects.
+
+The library core: :mod:`hasten.model` (dataclasses), :mod:`hasten.network` (CPM),
+:mod:`hasten.optimise` (the LP builder), :mod:`hasten.crashing` (the questions),
+:mod:`hasten.checks` (independent plan checks).
+"""
+
+from .crashing import Plan, Study
+from .errors import HastenError, InputError
+from .model import Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType, Project
+from .network import Schedule, schedule
+
+__all__ = [
+    "Activity", "Calendar", "Contract", "Costs", "CrashStep", "Link", "LinkType", "Project",
+    "Schedule", "schedule", "Study", "Plan", "HastenError", "InputError",
+]
+
+__version__ = "0.1.0"

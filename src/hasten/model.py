@@ -1,0 +1,160 @@
+"""The shared vocabulary: plain frozen dataclasses for a project and its parts.
+
+Durations, lags and offsets are whole working days. Day 0 is the project's first
+working day; an activity with early start 0 and duration 5 has early finish 5
+(offsets count the start of a day, so it is worked on days 0..4).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from datetime import date
+from enum import Enum
+
+__all__ = [
+    "LinkType",
+    "Link",
+    "CrashStep",
+    "Activity",
+    "Calendar",
+    "Costs",
+    "Contract",
+    "Project",
+    "WEEKDAY_NAMES",
+]
+
+WEEKDAY_NAMES = ("mon", "tue", "wed", "thu", "fri", "sat", "sun")
+
+
+class LinkType(str, Enum):
+    """The four precedence relationships of the precedence diagramming method."""
+
+    FS = "FS"  # successor starts after predecessor finishes
+    SS = "SS"  # successor starts after predecessor starts
+    FF = "FF"  # successor finishes after predecessor finishes
+    SF = "SF"  # successor finishes after predecessor starts
+
+    def __str__(self) -> str:  # pragma: no cover - trivial
+        return self.value
+
+
+@dataclass(frozen=True)
+class Link:
+    """``pred`` -TYPE+lag-> ``succ``; a negative lag is a lead."""
+
+    pred: str
+    succ: str
+    type: LinkType = LinkType.FS
+    lag: int = 0
+
+    def text(self) -> str:
+        """The predecessor shorthand as written in activities.csv (``A``, ``A:SS+2``)."""
+        if self.type is LinkType.FS and self.lag == 0:
+            return self.pred
+        if self.lag == 0:
+            return f"{self.pred}:{self.type.value}"
+        return f"{self.pred}:{self.type.value}{self.lag:+d}"
+
+
+@dataclass(frozen=True)
+class CrashStep:
+    """Up to ``days`` working days of shortening at ``cost_per_day`` each."""
+
+    days: int
+    cost_per_day: float
+
+
+@dataclass(frozen=True)
+class Activity:
+    """One activity. ``crash_duration`` equal to ``duration`` means it cannot be shortened.
+
+    ``steps`` is empty for the default linear cost between (duration, cost) and
+    (crash_duration, crash_cost); otherwise it lists the stepped crash costs in order of use.
+    """
+
+    id: str
+    duration: int
+    name: str = ""
+    trade: str = ""
+    crash_duration: int | None = None
+    cost: float = 0.0
+    crash_cost: float | None = None
+    steps: tuple[CrashStep, ...] = ()
+
+    @property
+    def shortest(self) -> int:
+        """Shortest possible duration in working days."""
+        if self.steps:
+            return self.duration - sum(s.days for s in self.steps)
+        return self.duration if self.crash_duration is None else self.crash_duration
+
+    @property
+    def max_shortening(self) -> int:
+        return self.duration - self.shortest
+
+    @property
+    def is_milestone(self) -> bool:
+        return self.duration == 0
+
+    def segments(self) -> tuple[CrashStep, ...]:
+        """The crash cost as steps in order of use (one step for a linear cost)."""
+        if self.steps:
+            return self.steps
+        days = self.max_shortening
+        if days <= 0:
+            return ()
+        extra = (self.crash_cost if self.crash_cost is not None else self.cost) - self.cost
+        return (CrashStep(days, extra / days),)
+
+
+@dataclass(frozen=True)
+class Calendar:
+    """Working weekdays (0 = Monday) and non-working holiday dates."""
+
+    workdays: tuple[int, ...] = (0, 1, 2, 3, 4)
+    holidays: tuple[date, ...] = ()
+    name: str = "mon-fri"
+
+    @property
+    def weekmask(self) -> str:
+        """numpy busday weekmask, e.g. ``'1111100'``."""
+        return "".join("1" if d in self.workdays else "0" for d in range(7))
+
+
+@dataclass(frozen=True)
+class Costs:
+    """Time-related (indirect) cost per working day of project duration."""
+
+    indirect_per_day: float = 0.0
+
+
+@dataclass(frozen=True)
+class Contract:
+    """Contract completion terms. Damages and bonus run per calendar day."""
+
+    finish: date | None = None
+    damages_per_day: float = 0.0
+    bonus_per_day: float = 0.0
+    bonus_cap_days: int | None = None
+
+
+@dataclass(frozen=True)
+class Project:
+    name: str
+    start: date
+    activities: tuple[Activity, ...]
+    links: tuple[Link, ...] = ()
+    calendar: Calendar = field(default_factory=Calendar)
+    currency: str = ""
+    costs: Costs = field(default_factory=Costs)
+    contract: Contract = field(default_factory=Contract)
+
+    def activity(self, activity_id: str) -> Activity:
+        for a in self.activities:
+            if a.id == activity_id:
+                return a
+        raise KeyError(activity_id)
+
+    @property
+    def normal_direct_cost(self) -> float:
+        return sum(a.cost for a in self.activities)
