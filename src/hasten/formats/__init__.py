@@ -1,0 +1,23 @@
+"""File formats: a project as a folder (TOML + CSV), an .xlsx workbook or a .json file.
+
+All three hold the same fields and convert into each other without loss. Every form is
+read into :class:`Tables` and validated by the one pure :func:`parse_tables`; bad input
+raises :class:`hasten.errors.InputError` naming file, row, column, value and the fix.
+"""
+
+from hasten.formats.api import convert, read_project, write_project
+from hasten.formats.parse import parse_tables
+from hasten.formats.predecessors import parse_predecessors
+from hasten.formats.tables import Row, Settings, Table, Tables
+
+__all__ = [
+    "read_project",
+    "write_project",
+    "convert",
+    "parse_predecessors",
+    "parse_tables",
+    "Tables",
+    "Table",
+    "Row",
+    "Settings",
+]

@@ -1,0 +1,110 @@
+"""Reading, writing and converting projects in any of the three forms.
+
+The form follows the path: an existing folder or a path without suffix is the folder form,
+``.xlsx`` the workbook form, ``.json`` the JSON form. All forms are parsed by the same
+:func:`~hasten.formats.parse.parse_tables`, and written from the same canonical
+:class:`~hasten.formats.document.Document`.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+from types import ModuleType
+
+from hasten.errors import InputError
+from hasten.formats import folder, jsonfile, workbook
+from hasten.formats.document import document_tables, first_difference, to_document
+from hasten.formats.parse import parse_tables
+from hasten.model import Project
+
+__all__ = ["read_project", "write_project", "convert"]
+
+_FORMS: dict[str, ModuleType] = {"": folder, ".xlsx": workbook, ".json": jsonfile}
+_FORMS_FIX = "use a folder (project.toml + CSV files), a .xlsx workbook or a .json file"
+
+
+def _form(path: Path) -> ModuleType:
+    """The module that reads and writes the form ``path`` stands for."""
+    if path.is_dir():
+        return folder
+    suffix = path.suffix.lower()
+    if suffix not in _FORMS:
+        raise InputError("unknown project form", file=str(path), value=path.suffix, fix=_FORMS_FIX)
+    if suffix == "" and path.exists():
+        raise InputError("expected a project folder but found a file", file=str(path),
+                         fix=_FORMS_FIX)
+    return _FORMS[suffix]
+
+
+def read_project(path: str | os.PathLike[str]) -> Project:
+    """Read and validate a project folder, ``.xlsx`` workbook or ``.json`` file.
+
+    Raises InputError (or its subclass CycleError) for anything wrong with the input;
+    the input is never modified.
+    """
+    path = Path(path)
+    if not path.exists():
+        raise InputError("not found", file=str(path),
+                         fix=f"check the path; {_FORMS_FIX}")
+    return parse_tables(_form(path).read(path))
+
+
+def _is_empty(path: Path) -> bool:
+    if path.is_dir():
+        return not any(path.iterdir())
+    return path.stat().st_size == 0
+
+
+def _check_target(path: Path, form: ModuleType, overwrite: bool) -> None:
+    """The target's folder must exist; an existing non-empty target needs ``overwrite``."""
+    if not path.parent.is_dir():
+        raise InputError("the folder to write into does not exist", file=str(path.parent),
+                         fix="create the folder first or choose another path")
+    if not path.exists():
+        return
+    if (form is folder) != path.is_dir():
+        kind = "a folder" if path.is_dir() else "a file"
+        raise InputError(f"the target exists and is {kind}", file=str(path),
+                         fix="choose another path or remove it")
+    if not overwrite and not _is_empty(path):
+        raise InputError("the target already exists and is not empty", file=str(path),
+                         fix="choose a new path, or allow overwriting")
+
+
+def _check_lossless(project: Project, document, labels: dict[str, str], path: Path) -> None:
+    """Validate the project and make sure reading the written form gives it back exactly."""
+    again = parse_tables(document_tables(document, labels))
+    difference = first_difference(project, again)
+    if difference:
+        raise InputError(f"the project cannot be saved without loss: {difference}",
+                         file=str(path),
+                         fix="use the value that would be read back (e.g. strip spaces from "
+                             "texts, give the calendar its canonical name)")
+
+
+def write_project(project: Project, path: str | os.PathLike[str], *,
+                  overwrite: bool = False) -> None:
+    """Write ``project`` whole (or not at all) in the form chosen by the path.
+
+    Refuses an existing non-empty target unless ``overwrite``; refuses a project that is
+    invalid or would not read back equal.
+    """
+    path = Path(path)
+    form = _form(path)
+    _check_target(path, form, overwrite)
+    document = to_document(project)
+    _check_lossless(project, document, form.labels(path), path)
+    try:
+        form.write(document, path)
+    except OSError as exc:
+        raise InputError(f"cannot write: {exc.strerror or exc}", file=str(path),
+                         fix="check the permissions and the free space") from None
+
+
+def convert(src: str | os.PathLike[str], dst: str | os.PathLike[str], *,
+            overwrite: bool = False) -> Project:
+    """Read ``src`` and write it to ``dst`` (any forms); returns the project."""
+    project = read_project(src)
+    write_project(project, dst, overwrite=overwrite)
+    return project

@@ -1,0 +1,162 @@
+"""Single values: reading them out of cells with located errors, and writing them as text.
+
+Every table cell reaches the parser as text; :func:`cell_text` turns the values that
+spreadsheets and JSON hold (numbers, dates, None) into that text, and :func:`number_text`
+writes numbers so that reading them back gives the very same value.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass, replace
+from datetime import date, datetime, time
+from decimal import Decimal, InvalidOperation
+
+from hasten.errors import InputError
+
+__all__ = [
+    "Where",
+    "cell_text",
+    "number_text",
+    "plain_number",
+    "clean_text",
+    "text_value",
+    "number_value",
+    "whole_value",
+    "date_value",
+]
+
+_PLAIN_NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
+_THOUSANDS = re.compile(r"[+-]?\d{1,3}(?:,\d{3})+(?:\.\d*)?")
+_DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
+_ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
+# control characters other than tab and newline cannot be stored in every form
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
+_NUMBER_FIX = "write a plain number: digits with an optional decimal point, no currency sign, e.g. 1250.50"
+
+
+@dataclass(frozen=True)
+class Where:
+    """Where a value came from, to build an :class:`InputError` that points at it."""
+
+    file: str | None
+    row: int | None = None
+    column: str | None = None
+
+    def at(self, column: str) -> Where:
+        """The same place, another column (or settings key)."""
+        return replace(self, column=column)
+
+    def error(self, problem: str, value: object = None, fix: str | None = None) -> InputError:
+        """An error located here."""
+        return InputError(problem, file=self.file, row=self.row, column=self.column,
+                          value=value, fix=fix)
+
+
+def plain_number(value: object) -> object:
+    """12000.0 -> 12000 (whole floats below 1e15 become int); anything else unchanged."""
+    if isinstance(value, float) and value.is_integer() and abs(value) < 1e15:
+        return int(value)
+    return value
+
+
+def number_text(value: int | float) -> str:
+    """Text that reads back as exactly ``value``: ``12000`` for 12000.0, shortest repr otherwise."""
+    return str(plain_number(value))
+
+
+def cell_text(value: object) -> str:
+    """The text of a spreadsheet or JSON cell value (None is an empty cell)."""
+    if value is None:
+        return ""
+    if isinstance(value, str):
+        return value
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        return number_text(value)
+    if isinstance(value, datetime):
+        if value.time() == time(0, 0):
+            return value.date().isoformat()
+        return value.isoformat(sep=" ")
+    if isinstance(value, (date, time)):
+        return value.isoformat()
+    return str(value)
+
+
+def clean_text(text: str) -> str:
+    """Strip surrounding whitespace and turn Windows/old-Mac line breaks into ``\\n``."""
+    return text.replace("\r\n", "\n").replace("\r", "\n").strip()
+
+
+def text_value(value: object, where: Where) -> str:
+    """A text setting or cell; numbers and dates in a text field are refused."""
+    if not isinstance(value, str):
+        raise where.error("expected text", value, 'put the text in quotes, e.g. "Site office"')
+    text = clean_text(value)
+    if _CONTROL.search(text):
+        raise where.error("the text contains a control character", value,
+                          "remove the invisible control character (only tab and line break are allowed)")
+    return text
+
+
+def _plain_decimal(value: object, where: Where) -> Decimal:
+    """Parse a plain number (int, float or text) exactly; refuse grouped or decorated numbers."""
+    if isinstance(value, bool) or not isinstance(value, (int, float, str)):
+        raise where.error("expected a number", value, _NUMBER_FIX)
+    if isinstance(value, (int, float)):
+        if isinstance(value, float) and not math.isfinite(value):
+            raise where.error("the number is not finite", value, _NUMBER_FIX)
+        return Decimal(value)
+    text = value.strip()
+    if _THOUSANDS.fullmatch(text):
+        raise where.error("thousands separators are not allowed", value,
+                          f"write plain numbers only: {text.replace(',', '')}")
+    if _DECIMAL_COMMA.fullmatch(text):
+        raise where.error("a decimal comma is not allowed", value,
+                          f"use a decimal point: {text.replace(',', '.')}")
+    if not _PLAIN_NUMBER.fullmatch(text):
+        raise where.error("not a plain number", value, _NUMBER_FIX)
+    try:
+        return Decimal(text)
+    except InvalidOperation:  # pragma: no cover - the pattern admits only valid decimals
+        raise where.error("not a plain number", value, _NUMBER_FIX) from None
+
+
+def number_value(value: object, where: Where, *, minimum: float | None = 0.0) -> float:
+    """A plain number (money per unit etc.), at least ``minimum`` unless that is None."""
+    number = float(_plain_decimal(value, where))
+    if not math.isfinite(number):
+        raise where.error("the number is too large", value, _NUMBER_FIX)
+    if minimum is not None and number < minimum:
+        raise where.error("must not be negative" if minimum == 0 else f"must be at least {minimum}",
+                          value, f"write {number_text(minimum)} or more")
+    return number
+
+
+def whole_value(value: object, where: Where, *, minimum: int | None = 0,
+                unit: str = "working days") -> int:
+    """A whole number (``5`` or ``5.0``), at least ``minimum`` unless that is None."""
+    exact = _plain_decimal(value, where)
+    if exact != exact.to_integral_value():
+        raise where.error(f"not a whole number of {unit}", value,
+                          f"round to whole {unit}, e.g. {int(exact.to_integral_value())}")
+    number = int(exact)
+    if minimum is not None and number < minimum:
+        raise where.error("must not be negative" if minimum == 0 else f"must be at least {minimum}",
+                          value, f"write {minimum} or more")
+    return number
+
+
+def date_value(value: object, where: Where) -> date:
+    """A calendar date: a date object or ISO text ``YYYY-MM-DD``."""
+    if isinstance(value, date) and not isinstance(value, datetime):
+        return value
+    fix = "write the date as YYYY-MM-DD, e.g. 2025-03-03"
+    if not isinstance(value, str) or not _ISO_DATE.fullmatch(value.strip()):
+        raise where.error("not a date", value, fix)
+    try:
+        return date.fromisoformat(value.strip())
+    except ValueError:
+        raise where.error("no such date", value, fix) from None

@@ -1,0 +1,111 @@
+"""The canonical written form of a Project, shared by the three writers.
+
+Canonical choices:
+
+* every optional setting that is None is left out; all other settings are written;
+* activities are written in order with all columns; a crash column that is None stays empty;
+* links go into the ``predecessors`` column (``Link.text()``, joined with ``"; "``) when the
+  project's link order is the order reading gives back (grouped by successor in activity
+  order); otherwise all links go into the links table, in order, and the column stays empty;
+* crash steps go into the crash steps table, in activity order, each activity's steps in order;
+* whole-valued money amounts are written as integers (``12000``, not ``12000.0``).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, fields, is_dataclass
+
+from hasten.formats.cells import plain_number as _plain
+from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, STEP_COLUMNS
+from hasten.formats.settings import settings_values
+from hasten.formats.tables import Settings, Tables, table_from_grid
+from hasten.model import Activity, Link, Project
+
+__all__ = ["Document", "to_document", "document_tables", "first_difference"]
+
+
+@dataclass(frozen=True)
+class Document:
+    """Plain values ready for a writer: flat settings and one list of dicts per table."""
+
+    settings: dict[str, object]
+    activities: list[dict[str, object]]
+    links: list[dict[str, object]]
+    crash_steps: list[dict[str, object]]
+
+
+def _in_reading_order(project: Project) -> bool:
+    """True when reading the predecessors column would give the links in their current order."""
+    index = {a.id: i for i, a in enumerate(project.activities)}
+    if any(link.succ not in index for link in project.links):
+        return False  # only the links table can carry (and report) such a link
+    return tuple(sorted(project.links, key=lambda link: index[link.succ])) == project.links
+
+
+def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
+    return {
+        "id": activity.id,
+        "name": activity.name,
+        "trade": activity.trade,
+        "duration": activity.duration,
+        "crash_duration": activity.crash_duration,
+        "cost": _plain(activity.cost),
+        "crash_cost": _plain(activity.crash_cost),
+        "predecessors": "; ".join(link.text() for link in links if link.succ == activity.id),
+    }
+
+
+def to_document(project: Project) -> Document:
+    """The canonical written form of ``project``."""
+    in_column = _in_reading_order(project)
+    column_links = list(project.links) if in_column else []
+    table_links = [] if in_column else [
+        {"predecessor": l.pred, "successor": l.succ, "type": l.type.value, "lag": l.lag}
+        for l in project.links]
+    settings = {k: [_plain(x) for x in v] if isinstance(v, list) else _plain(v)
+                for k, v in settings_values(project).items()}
+    return Document(
+        settings=settings,
+        activities=[_activity_row(a, column_links) for a in project.activities],
+        links=table_links,
+        crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}
+                     for a in project.activities for s in a.steps],
+    )
+
+
+def _grid(columns: tuple[str, ...], records: list[dict[str, object]]):
+    """Header on row 1, records from row 2, as a spreadsheet would have them."""
+    yield 1, columns
+    for line, record in enumerate(records, start=2):
+        yield line, [record.get(c) for c in columns]
+
+
+def document_tables(document: Document, labels: Mapping[str, str]) -> Tables:
+    """The tables a reader would build from ``document`` (for checking before writing)."""
+    def table(key, columns, records):
+        return table_from_grid(labels[key], _grid(columns, records))
+    return Tables(
+        settings=Settings(labels["settings"], document.settings),
+        activities=table("activities", ACTIVITY_COLUMNS, document.activities),
+        links=table("links", LINK_COLUMNS, document.links),
+        crash_steps=table("crash_steps", STEP_COLUMNS, document.crash_steps),
+    )
+
+
+def first_difference(expected: object, got: object, path: str = "project") -> str | None:
+    """The path of the first field where two dataclass trees differ (None if equal)."""
+    if expected == got:
+        return None
+    if is_dataclass(expected) and type(expected) is type(got):
+        for f in fields(expected):
+            found = first_difference(getattr(expected, f.name), getattr(got, f.name),
+                                     f"{path}.{f.name}")
+            if found:
+                return found
+    if isinstance(expected, tuple) and isinstance(got, tuple) and len(expected) == len(got):
+        for i, (a, b) in enumerate(zip(expected, got)):
+            found = first_difference(a, b, f"{path}[{i}]")
+            if found:
+                return found
+    return f"{path}: {expected!r} would read back as {got!r}"

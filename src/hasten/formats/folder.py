@@ -1,0 +1,139 @@
+"""The folder form: ``project.toml``, ``activities.csv`` and optional ``links.csv``, ``crash_steps.csv``.
+
+CSV files are read as UTF-8 (a byte-order mark is allowed) with any line endings; every cell
+is text. Row numbers in messages are CSV line numbers as a spreadsheet shows them: the
+header is row 1, the first data row is row 2, blank lines are skipped but counted. Files are
+written as UTF-8 without byte-order mark, with ``\\n`` line endings.
+"""
+
+from __future__ import annotations
+
+import csv
+import difflib
+import io
+import re
+import tomllib
+from collections.abc import Iterator, Sequence
+from pathlib import Path
+
+from hasten.errors import InputError
+from hasten.formats.cells import Where, cell_text
+from hasten.formats.document import Document
+from hasten.formats.files import write_folder
+from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, STEP_COLUMNS
+from hasten.formats.settings import flatten, nest
+from hasten.formats.tables import Settings, Table, Tables, table_from_grid
+from hasten.formats.tomlwrite import toml_text
+
+__all__ = ["FILES", "labels", "read", "write"]
+
+FILES = {
+    "settings": "project.toml",
+    "activities": "activities.csv",
+    "links": "links.csv",
+    "crash_steps": "crash_steps.csv",
+}
+_OPTIONAL = ("links", "crash_steps")
+_TOML_PLACE = re.compile(r"\(at line (\d+), column (\d+)\)")
+
+
+def labels(folder: Path) -> dict[str, str]:
+    """How each table is named in messages: its file path."""
+    return {key: str(folder / name) for key, name in FILES.items()}
+
+
+def _decode(path: Path) -> str:
+    """The file's text (UTF-8, optional BOM); unreadable files are input errors."""
+    try:
+        return path.read_bytes().decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise InputError("the file is not UTF-8 text", file=str(path), value=f"byte {exc.start}",
+                         fix="save it as 'CSV UTF-8' / UTF-8 text") from None
+    except OSError as exc:
+        raise InputError(f"cannot read the file: {exc.strerror}", file=str(path),
+                         fix="check the path and the file permissions") from None
+
+
+def _numbered(rows: csv.reader) -> Iterator[tuple[int, Sequence[str]]]:
+    """(line number of the record's first line, cells) for each CSV record."""
+    line = 1
+    for cells in rows:
+        yield line, cells
+        line = rows.line_num + 1
+
+
+def read_csv(path: Path) -> Table:
+    """A CSV file as a table of text cells."""
+    text = _decode(path)
+    rows = csv.reader(io.StringIO(text, newline=""))
+    try:
+        return table_from_grid(str(path), _numbered(rows))
+    except csv.Error as exc:
+        raise InputError(f"cannot read the CSV: {exc}", file=str(path), row=rows.line_num,
+                         fix="check the quotes on that line (a text with a quote inside "
+                             "is written \"like \"\"this\"\"\")") from None
+
+
+def read_toml(path: Path) -> Settings:
+    """``project.toml`` as flat settings."""
+    try:
+        nested = tomllib.loads(_decode(path))
+    except tomllib.TOMLDecodeError as exc:
+        place = _TOML_PLACE.search(str(exc))
+        problem = _TOML_PLACE.sub(lambda m: f"(column {m.group(2)})", str(exc))
+        raise InputError(f"not valid TOML: {problem}", file=str(path),
+                         row=int(place.group(1)) if place else None,
+                         fix='text needs quotes (name = "Depot"), dates do not '
+                             "(start = 2025-03-03), lists use brackets") from None
+    return Settings(str(path), flatten(nested, Where(str(path))))
+
+
+def _need(folder: Path, key: str) -> Path:
+    """The path of a table's file; a missing required file (or a misspelt optional one) is an error."""
+    path = folder / FILES[key]
+    if path.is_file():
+        return path
+    others = [p.name for p in folder.iterdir()
+              if p.is_file() and p.suffix == path.suffix and p.name not in FILES.values()]
+    close = difflib.get_close_matches(FILES[key], others, n=1, cutoff=0.8)
+    if key in _OPTIONAL and not close:
+        return path
+    hint = f"rename '{close[0]}' to '{FILES[key]}'" if close else f"create {FILES[key]}"
+    raise InputError("file not found" if not close else f"found '{close[0]}' instead",
+                     file=str(path), fix=hint)
+
+
+def read(folder: Path) -> Tables:
+    """Read a project folder into tables."""
+    paths = {key: _need(folder, key) for key in FILES}
+    optional = {key: read_csv(paths[key]) if paths[key].is_file() else None for key in _OPTIONAL}
+    return Tables(
+        settings=read_toml(paths["settings"]),
+        activities=read_csv(paths["activities"]),
+        **optional,
+    )
+
+
+def _csv_writer(columns: tuple[str, ...], records: list[dict[str, object]]):
+    """A function writing ``records`` under ``columns`` as a UTF-8 CSV file."""
+    def write(path: Path) -> None:
+        with path.open("w", encoding="utf-8", newline="") as handle:
+            out = csv.writer(handle, lineterminator="\n")
+            out.writerow(columns)
+            out.writerows([cell_text(r.get(c)) for c in columns] for r in records)
+    return write
+
+
+def write(document: Document, folder: Path) -> None:
+    """Write the folder whole: project.toml, activities.csv and the tables that have rows."""
+    text = toml_text(nest(document.settings))
+    files = {
+        FILES["settings"]: lambda path: path.write_text(text, encoding="utf-8", newline="\n"),
+        FILES["activities"]: _csv_writer(ACTIVITY_COLUMNS, document.activities),
+    }
+    for key, columns in (("links", LINK_COLUMNS), ("crash_steps", STEP_COLUMNS)):
+        records = getattr(document, key)
+        if records:
+            files[FILES[key]] = _csv_writer(columns, records)
+    stale = [FILES[key] for key in _OPTIONAL if FILES[key] not in files]
+    write_folder(folder, files, stale)

@@ -1,0 +1,108 @@
+"""The JSON form: one object with ``project``, ``activities``, ``links`` and ``crash_steps``.
+
+Layout::
+
+    {"project": {"name": ..., "start": "2025-03-03", "calendar": "mon-fri" or ["mon", ...],
+                 "holidays": ["2025-12-25"], "currency": "EUR",
+                 "costs": {"indirect_per_day": 850},
+                 "contract": {"finish": "2025-06-30", "damages_per_day": 1200, ...}},
+     "activities": [{"id": "A", "name": ..., "trade": ..., "duration": 5,
+                     "crash_duration": 3, "cost": 12000, "crash_cost": 15000,
+                     "predecessors": "B; C:SS+2"}, ...],
+     "links": [{"predecessor": "A", "successor": "B", "type": "FS", "lag": 0}, ...],
+     "crash_steps": [{"id": "A", "days": 1, "cost_per_day": 500}, ...]}
+
+``links`` and ``crash_steps`` may be left out. Dates are ISO text; an absent crash value is
+``null``. Row numbers in messages are the 1-based position of the item in its list.
+"""
+
+from __future__ import annotations
+
+import json
+from datetime import date
+from pathlib import Path
+
+from hasten.errors import InputError
+from hasten.formats.cells import Where
+from hasten.formats.document import Document
+from hasten.formats.files import write_file
+from hasten.formats.settings import flatten, nest
+from hasten.formats.tables import Settings, Tables, table_from_records
+
+__all__ = ["KEYS", "labels", "read", "write"]
+
+KEYS = {"settings": "project", "activities": "activities", "links": "links",
+        "crash_steps": "crash_steps"}
+_REQUIRED = ("project", "activities")
+
+
+def labels(path: Path) -> dict[str, str]:
+    """How each table is named in messages: the file and the key."""
+    return {key: f"{path} ({name})" for key, name in KEYS.items()}
+
+
+def _load(path: Path) -> dict:
+    """The top-level object; syntax errors name their line and column."""
+    try:
+        data = json.loads(path.read_bytes().decode("utf-8-sig"))
+    except json.JSONDecodeError as exc:
+        raise InputError(f"not valid JSON: {exc.msg} (column {exc.colno})", file=str(path),
+                         row=exc.lineno, fix="check commas, quotes and brackets on that line") from None
+    except UnicodeDecodeError:
+        raise InputError("the file is not UTF-8 text", file=str(path),
+                         fix="save it as UTF-8") from None
+    if not isinstance(data, dict):
+        raise InputError("the file must hold one JSON object", file=str(path),
+                         value=type(data).__name__, fix='write {"project": {...}, "activities": [...]}')
+    return data
+
+
+def _check_keys(data: dict, path: Path) -> None:
+    allowed = tuple(KEYS.values())
+    for key in data:
+        if key not in allowed:
+            raise Where(str(path), None, key).error(
+                "unknown key", key, f"allowed keys: {', '.join(allowed)}")
+    for key in _REQUIRED:
+        if key not in data:
+            raise Where(str(path), None, key).error(
+                f"the key '{key}' is missing", None, f'add "{key}" to the top-level object')
+
+
+def read(path: Path) -> Tables:
+    """Read a JSON project into tables."""
+    data = _load(path)
+    _check_keys(data, path)
+    names = labels(path)
+    project = data["project"]
+    if not isinstance(project, dict):
+        raise Where(names["settings"]).error("expected an object", type(project).__name__,
+                                             'write "project": {"name": ..., "start": ...}')
+    optional = {key: table_from_records(names[key], data[KEYS[key]]) if KEYS[key] in data else None
+                for key in ("links", "crash_steps")}
+    return Tables(
+        settings=Settings(names["settings"], flatten(project, Where(names["settings"]))),
+        activities=table_from_records(names["activities"], data["activities"]),
+        **optional,
+    )
+
+
+def _plain(value: object) -> object:
+    """JSON has no dates: write them as ISO text."""
+    if isinstance(value, date):
+        return value.isoformat()
+    if isinstance(value, list):
+        return [_plain(v) for v in value]
+    return value
+
+
+def write(document: Document, path: Path) -> None:
+    """Write the JSON file whole (temporary file, then rename)."""
+    data = {
+        "project": nest({k: _plain(v) for k, v in document.settings.items()}),
+        "activities": document.activities,
+        "links": document.links,
+        "crash_steps": document.crash_steps,
+    }
+    text = json.dumps(data, ensure_ascii=False, indent=2) + "\n"
+    write_file(path, lambda tmp: tmp.write_text(text, encoding="utf-8", newline="\n"))

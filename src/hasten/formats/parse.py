@@ -1,0 +1,350 @@
+"""The one validation path: tables read from any form -> :class:`~hasten.model.Project`.
+
+:func:`parse_tables` is pure: it takes :class:`~hasten.formats.tables.Tables` (text cells,
+each row with the row number the user sees) and returns a Project or raises
+:class:`~hasten.errors.InputError` (or :class:`~hasten.errors.CycleError`) naming the
+file, row, column and value, and saying how to fix it.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import re
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, replace
+
+import networkx as nx
+
+from hasten.errors import CycleError
+from hasten.formats.cells import Where, number_value, text_value, whole_value
+from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
+from hasten.formats.settings import parse_settings
+from hasten.formats.tables import Row, Table, Tables
+from hasten.model import Activity, CrashStep, Link, LinkType, Project
+
+__all__ = [
+    "ACTIVITY_COLUMNS",
+    "LINK_COLUMNS",
+    "STEP_COLUMNS",
+    "parse_tables",
+]
+
+ACTIVITY_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "crash_cost",
+                    PREDECESSORS)
+ACTIVITY_REQUIRED = ("id", "duration")
+LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
+LINK_REQUIRED = ("predecessor", "successor")
+STEP_COLUMNS = ("id", "days", "cost_per_day")
+_ID_FORBIDDEN = (";", ":", ",")
+_ID_WITH_LAG = re.compile(r"(.+?)\s*([+-]\s*\d+)")
+
+
+@dataclass(frozen=True)
+class _ActivityRow:
+    """An activity as read from one row, before crash steps are attached."""
+
+    activity: Activity
+    where: Where
+
+
+@dataclass(frozen=True)
+class _LinkSpec:
+    """A link and the cells that gave it (the successor's cell only for the links table)."""
+
+    link: Link
+    where: Where
+    text: str
+    pred_text: str
+    succ_where: Where | None = None
+
+
+@dataclass(frozen=True)
+class _StepRow:
+    """One crash step and the row it came from."""
+
+    id: str
+    step: CrashStep
+    where: Where
+
+
+def _place(where: Where) -> str:
+    """``file row N`` for naming another place in a message."""
+    return f"{where.file} row {where.row}"
+
+
+# ---------------------------------------------------------------- columns and cells
+
+def _check_columns(table: Table, allowed: Sequence[str], required: Sequence[str]) -> None:
+    """Refuse unknown columns (typos matter) and missing required ones."""
+    where = Where(table.source, table.header_line)
+    for column in table.columns:
+        if column not in allowed:
+            close = difflib.get_close_matches(column, allowed, n=1)
+            hint = f"did you mean '{close[0]}'? " if close else ""
+            raise where.at(column).error("unknown column", column,
+                                         f"{hint}allowed columns: {', '.join(allowed)}")
+    for column in required:
+        if column not in table.columns:
+            raise where.at(column).error(
+                f"the required column '{column}' is missing; columns found: "
+                f"{', '.join(table.columns) or 'none'}", column,
+                f"add a column named '{column}' (required columns: {', '.join(required)})")
+
+
+def _cell(row: Row, table: Table, column: str) -> tuple[str, Where]:
+    """The text of one cell ("" if the column is absent) and where it is."""
+    return row.cells.get(column, ""), Where(table.source, row.line, column)
+
+
+def _required(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
+              what: str) -> object:
+    """A cell that must not be empty, parsed; ``what`` says what to write there."""
+    text, where = _cell(row, table, column)
+    if not text:
+        raise where.error(f"the {column} is empty", text, f"write {what}")
+    return parse(text, where)
+
+
+def _optional(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
+              default: object = None) -> object:
+    """A cell parsed, or ``default`` when it is empty."""
+    text, where = _cell(row, table, column)
+    return parse(text, where) if text else default
+
+
+def _lag(text: str, where: Where) -> int:
+    """A lag in whole working days; negative is a lead."""
+    return whole_value(text, where, minimum=None)
+
+
+def _step_days(text: str, where: Where) -> int:
+    """The days of one crash step: a whole number, at least 1."""
+    return whole_value(text, where, minimum=1)
+
+
+def _activity_id(text: str, where: Where) -> str:
+    """An id: any text without spaces or the separators ``; : ,``."""
+    ident = text_value(text, where)
+    if any(c.isspace() for c in ident) or any(c in ident for c in _ID_FORBIDDEN):
+        raise where.error("an id cannot contain spaces, ';', ':' or ','", text,
+                          "use letters, digits, '-', '_' or '.', e.g. 'A10' or 'F-2.1'")
+    return ident
+
+
+def _unknown_id(ident: str, ids: Sequence[str], where: Where, value: str, role: str):
+    """The error for an id that names no activity, with close ids and likely slips."""
+    close = [i for i in ids if i.lower() == ident.lower() and i != ident]
+    close += [i for i in difflib.get_close_matches(ident, ids, n=3) if i not in close]
+    hints = [f"did you mean {' or '.join(repr(i) for i in close)}?"] if close else []
+    if "," in ident:
+        hints.append("separate predecessors with ';', e.g. 'A; B'")
+    lagged = _ID_WITH_LAG.fullmatch(ident)
+    if lagged and lagged.group(1) in ids:
+        hints.append(f"a lag needs a link type: write '{lagged.group(1)}:FS{lagged.group(2)}'")
+    hints.append("use the id of an activity in the activities table")
+    return where.error(f"unknown {role} id '{ident}'", value, "; ".join(hints))
+
+
+# ---------------------------------------------------------------- activities
+
+def _activity(row: Row, table: Table) -> Activity:
+    """One activity from its row, with the checks that need only this row."""
+    duration = _required(row, table, "duration", whole_value, "the normal duration in whole working days")
+    crash_duration = _optional(row, table, "crash_duration", whole_value)
+    cost = _optional(row, table, "cost", number_value, 0.0)
+    crash_cost = _optional(row, table, "crash_cost", number_value)
+    if crash_duration is not None and crash_duration > duration:
+        raise _cell(row, table, "crash_duration")[1].error(
+            f"the crash duration is longer than the duration ({duration})", row.cells["crash_duration"],
+            f"write a crash duration of {duration} or less (the shortest possible duration)")
+    if crash_cost is not None and crash_cost < cost:
+        raise _cell(row, table, "crash_cost")[1].error(
+            f"the crash cost is below the normal cost ({cost:g})", row.cells["crash_cost"],
+            "write the total direct cost at crash duration, at least the normal cost")
+    return Activity(
+        id=_required(row, table, "id", _activity_id, "a unique id for every activity"),
+        duration=duration,
+        name=_optional(row, table, "name", text_value, ""),
+        trade=_optional(row, table, "trade", text_value, ""),
+        crash_duration=crash_duration,
+        cost=cost,
+        crash_cost=crash_cost,
+    )
+
+
+def _activity_rows(table: Table) -> list[_ActivityRow]:
+    """All activities in order; at least one, ids unique."""
+    if not table.rows:
+        raise Where(table.source, table.header_line).error(
+            "there are no activities" if table.columns else "the table is empty", None,
+            f"add a header row ({', '.join(ACTIVITY_COLUMNS)}) and one row per activity")
+    _check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
+    rows = [_ActivityRow(_activity(r, table), Where(table.source, r.line)) for r in table.rows]
+    first: dict[str, _ActivityRow] = {}
+    for row in rows:
+        ident = row.activity.id
+        if ident in first:
+            raise row.where.at("id").error(
+                f"the id is used twice: rows {first[ident].where.row} and {row.where.row}",
+                ident, "give each activity its own id")
+        first[ident] = row
+    return rows
+
+
+# ---------------------------------------------------------------- links
+
+def _column_links(table: Table) -> list[_LinkSpec]:
+    """Links written in the predecessors column, in row order."""
+    specs = []
+    for row in table.rows:
+        text, where = _cell(row, table, PREDECESSORS)
+        succ = row.cells["id"]
+        for item, (pred, kind, lag) in parse_predecessor_items(text, where):
+            specs.append(_LinkSpec(Link(pred, succ, kind, lag), where, item, item))
+    return specs
+
+
+def _table_links(table: Table | None) -> list[_LinkSpec]:
+    """Links written one per row in the links table."""
+    if table is None or not table.rows:
+        return []
+    _check_columns(table, LINK_COLUMNS, LINK_REQUIRED)
+    specs = []
+    for row in table.rows:
+        pred = _required(row, table, "predecessor", text_value, "the predecessor's id")
+        succ = _required(row, table, "successor", text_value, "the successor's id")
+        kind = _optional(row, table, "type", link_type, LinkType.FS)
+        lag = _optional(row, table, "lag", _lag, 0)
+        link = Link(pred, succ, kind, lag)
+        specs.append(_LinkSpec(link, _cell(row, table, "predecessor")[1], link.text(), pred,
+                               _cell(row, table, "successor")[1]))
+    return specs
+
+
+def _resolve_links(specs: list[_LinkSpec], ids: Sequence[str]) -> dict[tuple, _LinkSpec]:
+    """Check ids, self-links and duplicates; the result keeps the given order."""
+    known = set(ids)
+    seen: dict[tuple, _LinkSpec] = {}
+    for spec in specs:
+        link = spec.link
+        if link.pred not in known:
+            raise _unknown_id(link.pred, ids, spec.where, spec.pred_text, "predecessor")
+        if link.succ not in known:
+            raise _unknown_id(link.succ, ids, spec.succ_where, link.succ, "successor")
+        if link.pred == link.succ:
+            raise spec.where.error(f"activity '{link.pred}' is linked to itself", spec.text,
+                                   "remove this link; an activity cannot be its own predecessor")
+        key = (link.pred, link.succ, link.type)
+        if key in seen:
+            first = seen[key].where
+            raise spec.where.error(
+                f"the link {link.pred} -> {link.succ} ({link.type.value}) is given twice: "
+                f"{_place(first)} column '{first.column}' and here", spec.text,
+                "keep one of them (change the lag there if needed)")
+        seen[key] = spec
+    return seen
+
+
+def _check_acyclic(links: dict[tuple, _LinkSpec]) -> None:
+    """Refuse loops in the link graph, naming the ids around the loop in order."""
+    graph = nx.MultiDiGraph()
+    graph.add_edges_from((p, s, k) for (p, s, k) in links)
+    try:
+        cycle = nx.find_cycle(graph)
+    except nx.NetworkXNoCycle:
+        return
+    files = dict.fromkeys(links[(u, v, k)].where.file for u, v, k in cycle)
+    raise CycleError([u for u, _, _ in cycle], file=" and ".join(files))
+
+
+# ---------------------------------------------------------------- crash steps
+
+def _step_rows(table: Table | None, ids: Sequence[str]) -> dict[str, list[_StepRow]]:
+    """Crash steps grouped by activity id, each group in order of use."""
+    if table is None or not table.rows:
+        return {}
+    _check_columns(table, STEP_COLUMNS, STEP_COLUMNS)
+    groups: dict[str, list[_StepRow]] = {}
+    for row in table.rows:
+        ident = _required(row, table, "id", text_value, "the id of the activity")
+        where = _cell(row, table, "id")[1]
+        if ident not in ids:
+            raise _unknown_id(ident, ids, where, ident, "activity")
+        days = _required(row, table, "days", _step_days,
+                         "the number of working days this step can save")
+        cost = _required(row, table, "cost_per_day", number_value, "the added cost per day saved")
+        groups.setdefault(ident, []).append(_StepRow(ident, CrashStep(days, cost), Where(table.source, row.line)))
+    return groups
+
+
+def _check_steps(row: _ActivityRow, steps: list[_StepRow]) -> None:
+    """Steps must get dearer in order, fit in the duration and agree with the crash columns."""
+    activity = row.activity
+    for before, after in zip(steps, steps[1:]):
+        if after.step.cost_per_day < before.step.cost_per_day:
+            raise after.where.at("cost_per_day").error(
+                f"this step of '{activity.id}' is cheaper per day than the step on row "
+                f"{before.where.row}; the optimiser (a linear programme) would take the cheaper "
+                "step first, so it cannot take them in this order",
+                after.step.cost_per_day,
+                "sort the steps by cost per day, cheapest first, or model them as discrete "
+                "options (a later feature)")
+    total = sum(s.step.days for s in steps)
+    rows = ", ".join(str(s.where.row) for s in steps)
+    if total > activity.duration:
+        raise steps[-1].where.at("days").error(
+            f"the steps of '{activity.id}' save {total} days in all but its duration is only "
+            f"{activity.duration} ({_place(row.where)})", steps[-1].step.days,
+            f"make the step days add up to at most {activity.duration}")
+    shortest = activity.duration - total
+    if activity.crash_duration is not None and activity.crash_duration != shortest:
+        raise row.where.at("crash_duration").error(
+            f"the crash duration does not match the crash steps of '{activity.id}' "
+            f"({steps[0].where.file} rows {rows}): duration {activity.duration} minus "
+            f"{total} step days is {shortest}", activity.crash_duration,
+            f"write {shortest}, leave crash_duration empty, or change the steps")
+    stepped = activity.cost + sum(s.step.days * s.step.cost_per_day for s in steps)
+    if activity.crash_cost is not None and not math.isclose(activity.crash_cost, stepped,
+                                                            rel_tol=1e-9, abs_tol=1e-6):
+        raise row.where.at("crash_cost").error(
+            f"the crash cost does not match the crash steps of '{activity.id}' "
+            f"({steps[0].where.file} rows {rows}), which give {stepped:g}", activity.crash_cost,
+            f"write {stepped:g} or leave crash_cost empty")
+
+
+def _with_steps(row: _ActivityRow, steps: list[_StepRow]) -> Activity:
+    """The activity with its crash steps; its crash cost must be known if it can be shortened."""
+    activity = row.activity
+    if steps:
+        _check_steps(row, steps)
+        return replace(activity, steps=tuple(s.step for s in steps))
+    if activity.crash_cost is None and activity.shortest < activity.duration:
+        raise row.where.at("crash_cost").error(
+            f"'{activity.id}' can be shortened to {activity.shortest} days but its crash cost "
+            "is empty, so the cost of crashing is unknown", "",
+            "write the total direct cost at crash duration, or give crash steps for it")
+    return activity
+
+
+# ---------------------------------------------------------------- the whole project
+
+def parse_tables(tables: Tables) -> Project:
+    """Validate everything and build the Project (activity and link order as given)."""
+    settings = parse_settings(tables.settings)
+    rows = _activity_rows(tables.activities)
+    ids = [r.activity.id for r in rows]
+    links = _resolve_links(_column_links(tables.activities) + _table_links(tables.links), ids)
+    steps = _step_rows(tables.crash_steps, ids)
+    activities = tuple(_with_steps(r, steps.get(r.activity.id, [])) for r in rows)
+    _check_acyclic(links)
+    return Project(
+        name=settings.name,
+        start=settings.start,
+        activities=activities,
+        links=tuple(spec.link for spec in links.values()),
+        calendar=settings.calendar,
+        currency=settings.currency,
+        costs=settings.costs,
+        contract=settings.contract,
+    )

@@ -1,0 +1,72 @@
+"""The predecessor shorthand of the activities table: ``B; C:SS+2; D:FF-1``.
+
+Items are separated by ``;``. Each item is ``ID`` (finish-to-start, lag 0), ``ID:TYPE`` or
+``ID:TYPE+LAG`` / ``ID:TYPE-LAG`` with TYPE one of FS, SS, FF, SF (any case) and LAG a
+whole number of working days (a negative lag is a lead). Spaces around the parts are allowed.
+"""
+
+from __future__ import annotations
+
+import re
+
+from hasten.formats.cells import Where
+from hasten.model import LinkType
+
+__all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
+
+_TYPE_AND_LAG = re.compile(r"\s*([A-Za-z]+)\s*(?:([+-])\s*(\S.*?))?\s*")
+_WHOLE = re.compile(r"\d+")
+LINK_TYPE_FIX = "use FS, SS, FF or SF"
+COLUMN = "predecessors"
+
+
+def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
+    """A link type from its two letters in any case; ``shown`` is the value to name on error."""
+    try:
+        return LinkType(text.strip().upper())
+    except ValueError:
+        raise where.error("unknown link type", text if shown is None else shown,
+                          LINK_TYPE_FIX) from None
+
+
+def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
+    """Parse ``SS+2`` (the part after the colon)."""
+    match = _TYPE_AND_LAG.fullmatch(text)
+    if not match:
+        raise where.error("cannot read the link type and lag", item,
+                          f"write ID:TYPE+LAG, e.g. 'A:SS+2'; {LINK_TYPE_FIX}")
+    kind = link_type(match.group(1), where, item)
+    sign, lag = match.group(2), match.group(3)
+    if sign is None:
+        return kind, 0
+    if not _WHOLE.fullmatch(lag):
+        raise where.error("the lag is not a whole number of working days", item,
+                          f"write the lag as whole days after + or -, e.g. "
+                          f"'{item.split(':')[0].strip()}:{kind.value}+2'")
+    return kind, int(lag) if sign == "+" else -int(lag)
+
+
+def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[str, LinkType, int]]]:
+    """Each non-empty item as (item text, (predecessor id, type, lag))."""
+    found = []
+    for raw in text.split(";"):
+        item = raw.strip()
+        if not item:
+            continue
+        ident, colon, rest = item.partition(":")
+        ident = ident.strip()
+        if not ident:
+            raise where.error("a predecessor has no id", item,
+                              "write the predecessor's id before the colon, e.g. 'A:SS+2'")
+        kind, lag = _type_and_lag(rest, item, where) if colon else (LinkType.FS, 0)
+        found.append((item, (ident, kind, lag)))
+    return found
+
+
+def parse_predecessors(text: str, *, file: str | None = None,
+                       row: int | None = None) -> list[tuple[str, LinkType, int]]:
+    """Parse the shorthand into (predecessor id, link type, lag) triples, in order.
+
+    Pure: it does not check that the ids exist. ``file`` and ``row`` only locate errors.
+    """
+    return [triple for _, triple in parse_predecessor_items(text, Where(file, row, COLUMN))]

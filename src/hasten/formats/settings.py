@@ -1,0 +1,205 @@
+"""Project settings (``project.toml``, the workbook's project sheet, the JSON ``project`` object).
+
+Keys are flat and dotted here (``contract.finish``); :func:`flatten` and :func:`nest` convert
+from and to the sectioned TOML/JSON layout. Unknown keys are refused, except anything under
+the sections ``status`` and ``calendars``, which are reserved for later and ignored.
+"""
+
+from __future__ import annotations
+
+import difflib
+from collections.abc import Mapping
+from dataclasses import dataclass
+from datetime import date
+
+from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
+from hasten.formats.tables import Settings
+from hasten.model import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
+
+__all__ = [
+    "SETTING_KEYS",
+    "SECTIONS",
+    "RESERVED_SECTIONS",
+    "NAMED_CALENDARS",
+    "ProjectSettings",
+    "parse_settings",
+    "settings_values",
+    "flatten",
+    "nest",
+]
+
+SETTING_KEYS = (
+    "name", "start", "calendar", "holidays", "currency",
+    "costs.indirect_per_day",
+    "contract.finish", "contract.damages_per_day", "contract.bonus_per_day",
+    "contract.bonus_cap_days",
+)
+REQUIRED_KEYS = ("name", "start")
+SECTIONS = ("costs", "contract")
+RESERVED_SECTIONS = ("status", "calendars")
+NAMED_CALENDARS = {
+    "mon-fri": (0, 1, 2, 3, 4),
+    "mon-sat": (0, 1, 2, 3, 4, 5),
+    "all-days": (0, 1, 2, 3, 4, 5, 6),
+}
+_CALENDAR_FIX = (f"use one of {', '.join(NAMED_CALENDARS)} or a list of working weekdays "
+                 f"from {', '.join(WEEKDAY_NAMES)}, e.g. [\"mon\", \"tue\", \"wed\"]")
+
+
+@dataclass(frozen=True)
+class ProjectSettings:
+    """The parsed settings: every Project field except activities and links."""
+
+    name: str
+    start: date
+    calendar: Calendar
+    currency: str
+    costs: Costs
+    contract: Contract
+
+
+def flatten(nested: Mapping[str, object], where: Where) -> dict[str, object]:
+    """``{"contract": {"finish": d}}`` -> ``{"contract.finish": d}`` for the known sections."""
+    flat: dict[str, object] = {}
+    for key, value in nested.items():
+        if key in SECTIONS:
+            if not isinstance(value, Mapping):
+                raise where.at(key).error(f"'{key}' must be a section of keys", value,
+                                          f"write it as [{key}] followed by its keys")
+            flat.update({f"{key}.{inner}": v for inner, v in value.items()})
+        else:
+            flat[key] = value
+    return flat
+
+
+def nest(flat: Mapping[str, object]) -> dict[str, object]:
+    """The inverse of :func:`flatten`: dotted keys go into their section."""
+    nested: dict[str, object] = {}
+    for key, value in flat.items():
+        section, dot, inner = key.partition(".")
+        if dot:
+            nested.setdefault(section, {})[inner] = value
+        else:
+            nested[key] = value
+    return nested
+
+
+def _check_keys(settings: Settings) -> None:
+    """Refuse unknown keys (with a close match if there is one) and missing required keys."""
+    for key in settings.values:
+        if key.partition(".")[0] in RESERVED_SECTIONS or key in SETTING_KEYS:
+            continue
+        close = difflib.get_close_matches(key, SETTING_KEYS, n=1)
+        hint = f"did you mean '{close[0]}'? " if close else ""
+        raise settings.where(key).error("unknown key", key,
+                                        f"{hint}allowed keys: {', '.join(SETTING_KEYS)}")
+    for key in REQUIRED_KEYS:
+        if _given(settings, key) is None:
+            raise Where(settings.source, None, key).error(
+                f"the required key '{key}' is missing", None,
+                f"add it, e.g. {key} = " + ('"Depot extension"' if key == "name" else "2025-03-03"))
+
+
+def _given(settings: Settings, key: str) -> object:
+    """The value of ``key``, or None when absent or an empty cell."""
+    value = settings.values.get(key)
+    return None if isinstance(value, str) and not value.strip() else value
+
+
+def _weekday_names(value: object, where: Where) -> list[str]:
+    """The weekday names of a list or of comma-separated text."""
+    items = value.split(",") if isinstance(value, str) else value
+    if not isinstance(items, list) or not all(isinstance(i, str) for i in items):
+        raise where.error("unknown calendar", value, _CALENDAR_FIX)
+    return [i.strip().lower() for i in items]
+
+
+def parse_calendar(value: object, holidays: tuple[date, ...], where: Where) -> Calendar:
+    """A named calendar or a list of working weekdays; the name is canonical."""
+    if value is None:
+        return Calendar(holidays=holidays)
+    if isinstance(value, str) and value.strip().lower() in NAMED_CALENDARS:
+        name = value.strip().lower()
+        return Calendar(NAMED_CALENDARS[name], holidays, name)
+    names = _weekday_names(value, where)
+    if not names or any(n not in WEEKDAY_NAMES for n in names) or len(set(names)) != len(names):
+        raise where.error("unknown calendar" if names else "no working weekdays", value, _CALENDAR_FIX)
+    workdays = tuple(sorted(WEEKDAY_NAMES.index(n) for n in names))
+    for name, days in NAMED_CALENDARS.items():
+        if days == workdays:
+            return Calendar(workdays, holidays, name)
+    return Calendar(workdays, holidays, ",".join(WEEKDAY_NAMES[d] for d in workdays))
+
+
+def parse_holidays(value: object, where: Where) -> tuple[date, ...]:
+    """A list of dates, or comma-separated dates in one cell; each date once."""
+    if value is None:
+        return ()
+    items = [i for i in value.split(",") if i.strip()] if isinstance(value, str) else value
+    if isinstance(items, date):
+        items = [items]
+    if not isinstance(items, list):
+        raise where.error("holidays must be a list of dates", value,
+                          "write holidays = [2025-12-25, 2025-12-26]")
+    days = tuple(date_value(i, where) for i in items)
+    for i, day in enumerate(days):
+        if day in days[:i]:
+            raise where.error("a holiday is listed twice", day.isoformat(), "list each holiday once")
+    return days
+
+
+def _optional(settings: Settings, key: str, parse, default):
+    """Parse ``key`` with ``parse(value, where)`` or return ``default`` when it is absent."""
+    value = _given(settings, key)
+    return default if value is None else parse(value, settings.where(key))
+
+
+def parse_settings(settings: Settings) -> ProjectSettings:
+    """Validate the settings and turn them into model values."""
+    _check_keys(settings)
+    holidays = _optional(settings, "holidays", parse_holidays, ())
+    return ProjectSettings(
+        name=_required_text(settings),
+        start=date_value(_given(settings, "start"), settings.where("start")),
+        calendar=parse_calendar(_given(settings, "calendar"), holidays, settings.where("calendar")),
+        currency=_optional(settings, "currency", text_value, ""),
+        costs=Costs(_optional(settings, "costs.indirect_per_day", number_value, 0.0)),
+        contract=Contract(
+            finish=_optional(settings, "contract.finish", date_value, None),
+            damages_per_day=_optional(settings, "contract.damages_per_day", number_value, 0.0),
+            bonus_per_day=_optional(settings, "contract.bonus_per_day", number_value, 0.0),
+            bonus_cap_days=_optional(settings, "contract.bonus_cap_days", _days, None),
+        ),
+    )
+
+
+def _days(value: object, where: Where) -> int:
+    """A whole number of calendar days (the bonus cap)."""
+    return whole_value(value, where, unit="days")
+
+
+def _required_text(settings: Settings) -> str:
+    """The project name: non-empty text."""
+    return text_value(_given(settings, "name"), settings.where("name"))
+
+
+def settings_values(project: Project) -> dict[str, object]:
+    """The canonical flat settings of ``project`` for writing (absent optional values left out)."""
+    calendar = project.calendar
+    if NAMED_CALENDARS.get(calendar.name) == calendar.workdays:
+        days: object = calendar.name
+    else:
+        days = [WEEKDAY_NAMES[d] for d in calendar.workdays]
+    values: dict[str, object] = {
+        "name": project.name,
+        "start": project.start,
+        "calendar": days,
+        "holidays": list(calendar.holidays),
+        "currency": project.currency,
+        "costs.indirect_per_day": project.costs.indirect_per_day,
+        "contract.finish": project.contract.finish,
+        "contract.damages_per_day": project.contract.damages_per_day,
+        "contract.bonus_per_day": project.contract.bonus_per_day,
+        "contract.bonus_cap_days": project.contract.bonus_cap_days,
+    }
+    return {k: v for k, v in values.items() if v is not None}

@@ -1,0 +1,140 @@
+"""The tables every form is read into before parsing, and how grids and records become them.
+
+A :class:`Table` holds text cells only, keyed by lower-case column name, each row with the
+row number the user sees: for CSV files and sheets that is the spreadsheet row number
+(header = row 1, first data row = row 2, blank rows still counted); for JSON lists it is
+the 1-based position of the item in its list.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+
+from hasten.formats.cells import Where, cell_text, clean_text
+
+__all__ = ["Row", "Table", "Settings", "Tables", "table_from_grid", "table_from_records"]
+
+
+@dataclass(frozen=True)
+class Row:
+    """One data row: its row number and its cells (column -> stripped text, "" if empty)."""
+
+    line: int
+    cells: Mapping[str, str]
+
+
+@dataclass(frozen=True)
+class Table:
+    """A table as read; ``source`` labels it in error messages (file, sheet or JSON key)."""
+
+    source: str
+    columns: tuple[str, ...] = ()
+    rows: tuple[Row, ...] = ()
+    header_line: int | None = 1
+
+    @property
+    def is_empty(self) -> bool:
+        """True when there is not even a header."""
+        return not self.columns
+
+
+@dataclass(frozen=True)
+class Settings:
+    """Project settings as flat keys (``contract.finish``) with their values.
+
+    Values are text or, from TOML/JSON, numbers, dates and lists. ``lines`` gives the row
+    of each key where the form has rows (the workbook's project sheet).
+    """
+
+    source: str
+    values: Mapping[str, object] = field(default_factory=dict)
+    lines: Mapping[str, int] = field(default_factory=dict)
+
+    def where(self, key: str) -> Where:
+        """The location of ``key`` for error messages."""
+        return Where(self.source, self.lines.get(key), key)
+
+
+@dataclass(frozen=True)
+class Tables:
+    """Everything one project is read from, in any form."""
+
+    settings: Settings
+    activities: Table
+    links: Table | None = None
+    crash_steps: Table | None = None
+
+
+def _is_blank(cells: Sequence[object]) -> bool:
+    """True for a row without any text (blank CSV line, empty sheet row, ``,,,``)."""
+    return all(cell_text(c).strip() == "" for c in cells)
+
+
+def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
+    """Normalised column names; duplicates are refused."""
+    names = tuple(cell_text(c).strip().lower() for c in cells)
+    for i, name in enumerate(names):
+        if name and name in names[:i]:
+            raise Where(source, line, name).error(
+                "the column name appears twice", name, f"keep one column named '{name}'")
+    return names
+
+
+def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object]) -> Row:
+    """Cells of one data row keyed by column name; stray cells are refused."""
+    values = {name: "" for name in names if name}
+    for i, cell in enumerate(cells):
+        text = clean_text(cell_text(cell))
+        if i < len(names) and names[i]:
+            values[names[i]] = text
+        elif text:
+            column = f"#{i + 1}"
+            raise Where(source, line, column).error(
+                "a value stands in a column without a name", text,
+                "give the column a name in the header row, or remove the value "
+                "(text containing commas must be quoted)")
+    return Row(line, values)
+
+
+def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) -> Table:
+    """Build a table from (row number, cells) pairs: the first non-blank row is the header.
+
+    Blank rows are skipped but keep their row numbers; a grid without any non-blank row
+    gives an empty table (no columns).
+    """
+    header_line, names, rows = None, (), []
+    for line, cells in lines:
+        if _is_blank(cells):
+            continue
+        if header_line is None:
+            header_line, names = line, _header(source, line, cells)
+        else:
+            rows.append(_row(source, line, names, cells))
+    columns = tuple(n for n in names if n)
+    return Table(source, columns, tuple(rows), header_line)
+
+
+def table_from_records(source: str, records: object) -> Table:
+    """Build a table from a JSON list of objects; row numbers are 1-based list positions."""
+    if not isinstance(records, list):
+        raise Where(source).error("expected a list of objects", type(records).__name__,
+                                  'write a list: [{"id": "A", ...}, ...]')
+    columns: dict[str, None] = {}
+    keyed = []
+    for number, record in enumerate(records, start=1):
+        if not isinstance(record, dict):
+            raise Where(source, number).error("expected an object", record,
+                                              'write each item as {"column": value, ...}')
+        item = {}
+        for key, value in record.items():
+            name = key.strip().lower()
+            if isinstance(value, (list, dict)):
+                raise Where(source, number, name).error(
+                    "expected a single value", value, "write text, a number or null")
+            item[name] = clean_text(cell_text(value))
+            columns.setdefault(name)
+        keyed.append((number, item))
+    names = tuple(columns)
+    rows = tuple(Row(n, {c: item.get(c, "") for c in names}) for n, item in keyed)
+    return Table(source, names, rows, header_line=None)

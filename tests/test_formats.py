@@ -1,0 +1,606 @@
+"""Tests of the file-format layer (hasten.formats): reading, writing, converting, validating.
+
+All data here is invented for these tests (tests/data/formats/hall is a made-up project);
+these are format checks, not reference checks of any schedule or cost result. Expected
+values below are written out by hand from the data files, never computed by our code.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import string
+import tempfile
+from datetime import date
+from pathlib import Path
+
+import openpyxl
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from hasten.errors import CycleError, InputError
+from hasten.formats import (convert, parse_predecessors, parse_tables, read_project,
+                            write_project)
+from hasten.formats.tables import Settings, Table, Tables, table_from_grid
+from hasten.model import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
+                          Project)
+
+DATA = Path(__file__).parent / "data" / "formats"
+HALL = DATA / "hall"
+FS, SS, FF, SF = LinkType.FS, LinkType.SS, LinkType.FF, LinkType.SF
+
+# The hall project written out by hand from tests/data/formats/hall.
+HALL_PROJECT = Project(
+    name="Gemeindesaal Nord – refurbishment",
+    start=date(2025, 3, 3),
+    activities=(
+        Activity("010", 3, "Baustelle einrichten", "General", None, 4500.0, None),
+        Activity("020", 5, "Abbruch Innenwände", "Demolition", 3, 9000.0, 12600.0),
+        Activity("030", 8, "Dachdämmung – Süd", "Roofing", None, 21000.0, None),
+        Activity("040", 6, "Électricité", "Electrical", 4, 14000.0, 17000.0),
+        Activity("050", 4, "Estrich", "Screed", 4, 7600.0, 7600.0),
+        Activity("060", 5, "Malerarbeiten", "Painting", None, 6500.0, None,
+                 (CrashStep(1, 400.0), CrashStep(1, 650.25))),
+        Activity("070", 0, "Übergabe", "", None, 0.0, None),
+    ),
+    links=(
+        Link("010", "020"),
+        Link("020", "030", SS, 2),
+        Link("020", "040"),
+        Link("040", "050", FF, -1),
+        Link("020", "050"),
+        Link("050", "060", FS, 3),
+        Link("060", "070"),
+        Link("030", "070", FF, 0),
+        Link("040", "070", SF, -1),
+    ),
+    calendar=Calendar((0, 1, 2, 3, 4, 5), (date(2025, 4, 18), date(2025, 5, 1)), "mon-sat"),
+    currency="EUR",
+    costs=Costs(850.5),
+    contract=Contract(date(2025, 6, 27), 1500.0, 500.0, 10),
+)
+
+
+# ---------------------------------------------------------------- helpers
+
+@pytest.fixture
+def hall(tmp_path: Path) -> Path:
+    """A private copy of the hall folder."""
+    return Path(shutil.copytree(HALL, tmp_path / "hall"))
+
+
+def snapshot(folder: Path) -> dict[str, tuple[bytes, int]]:
+    """Bytes and modification time of every file under ``folder``."""
+    return {str(p.relative_to(folder)): (p.read_bytes(), p.stat().st_mtime_ns)
+            for p in sorted(folder.rglob("*")) if p.is_file()}
+
+
+def edit(path: Path, old: str, new: str) -> None:
+    text = path.read_text(encoding="utf-8")
+    assert text.count(old) == 1, f"{old!r} must occur once in {path}"
+    path.write_text(text.replace(old, new), encoding="utf-8")
+
+
+def read_error(path: Path, kind: type[InputError] = InputError) -> InputError:
+    """Read ``path`` expecting ``kind``; the input files must be left untouched."""
+    root = path if path.is_dir() else path.parent
+    before = snapshot(root)
+    with pytest.raises(kind) as caught:
+        read_project(path)
+    assert snapshot(root) == before
+    return caught.value
+
+
+def check_error(error: InputError, *, file: str, row: int | None, column: str | None,
+                value: str | None, says: str = "") -> None:
+    """The message names file, row, column and value, and has a fix."""
+    message = str(error)
+    assert file in error.file and file in message, message
+    assert error.row == row, message
+    if row is not None:
+        assert f"row {row}," in message or f"row {row}:" in message, message
+    assert error.column == column, message
+    if column is not None:
+        assert f"column '{column}'" in message, message
+    if value is not None:
+        assert repr(value) in message, message
+    assert "Fix: " in message and error.fix, message
+    assert says in message, message
+
+
+# ---------------------------------------------------------------- reading the sample
+
+def test_hall_folder_reads_as_written_by_hand():
+    assert read_project(HALL) == HALL_PROJECT
+
+
+def test_round_trip_folder_xlsx_json_folder(tmp_path):
+    project = read_project(HALL)
+    write_project(project, tmp_path / "hall.xlsx")
+    from_xlsx = read_project(tmp_path / "hall.xlsx")
+    write_project(from_xlsx, tmp_path / "hall.json")
+    from_json = read_project(tmp_path / "hall.json")
+    write_project(from_json, tmp_path / "again")
+    again = read_project(tmp_path / "again")
+    assert from_xlsx == project
+    assert from_json == project
+    assert again == HALL_PROJECT
+
+
+def test_convert_returns_and_writes_the_project(tmp_path):
+    assert convert(HALL, tmp_path / "hall.json") == HALL_PROJECT
+    assert read_project(tmp_path / "hall.json") == HALL_PROJECT
+
+
+def test_bom_and_crlf_read_identical_to_plain(tmp_path, hall):
+    edit(hall / "activities.csv", "010,Baustelle einrichten,", '010,"Baustelle\neinrichten",')
+    folder = tmp_path / "bom"
+    folder.mkdir()
+    for source in hall.iterdir():
+        text = source.read_text(encoding="utf-8").replace("\n", "\r\n")
+        (folder / source.name).write_bytes(b"\xef\xbb\xbf" + text.encode("utf-8"))
+    raw = (folder / "activities.csv").read_bytes()
+    assert raw.startswith(b"\xef\xbb\xbf") and b'"Baustelle\r\neinrichten"' in raw
+    plain = read_project(hall)
+    assert plain.activities[0].name == "Baustelle\neinrichten"
+    assert read_project(folder) == plain
+    assert read_project(folder).activities[1:] == HALL_PROJECT.activities[1:]
+
+
+def test_multiline_quoted_name_keeps_row_numbers_of_later_rows(hall):
+    edit(hall / "activities.csv", "010,Baustelle einrichten,", '010,"Baustelle\neinrichten",')
+    edit(hall / "activities.csv", "030,Dachdämmung – Süd,Roofing,8", "030,Dachdämmung – Süd,Roofing,x")
+    # the quoted cell spans lines 2-3, so 030 is now on line 5
+    check_error(read_error(hall), file="activities.csv", row=5, column="duration", value="x")
+
+
+def test_reserved_sections_are_ignored_but_other_sections_refused(hall):
+    (hall / "project.toml").write_text(
+        (hall / "project.toml").read_text(encoding="utf-8") + "\n[calendars]\nsite = 1\n",
+        encoding="utf-8")
+    assert read_project(hall) == HALL_PROJECT
+    edit(hall / "project.toml", "[status]", "[stauts]")
+    check_error(read_error(hall), file="project.toml", row=None, column="stauts",
+                value="stauts", says="unknown key")
+
+
+def test_minimal_project_uses_defaults(tmp_path):
+    (tmp_path / "project.toml").write_text('name = "Shed"\nstart = 2025-01-06\n', encoding="utf-8")
+    (tmp_path / "activities.csv").write_text("id,duration\nA,2\nB,0\n", encoding="utf-8")
+    assert read_project(tmp_path) == Project(
+        "Shed", date(2025, 1, 6), (Activity("A", 2), Activity("B", 0)))
+
+
+# ---------------------------------------------------------------- predecessor shorthand
+
+@pytest.mark.parametrize("text, expected", [
+    ("", []),
+    ("B", [("B", FS, 0)]),
+    ("B; C:SS+2; D:FF-1", [("B", FS, 0), ("C", SS, 2), ("D", FF, -1)]),
+    ("  b : sf + 3 ;; 010:fs ; ", [("b", SF, 3), ("010", FS, 0)]),
+    ("X:FS-0", [("X", FS, 0)]),
+])
+def test_parse_predecessors(text, expected):
+    assert parse_predecessors(text) == expected
+
+
+@pytest.mark.parametrize("text, says", [
+    ("A:SS+x", "lag"),
+    ("A:XX", "unknown link type"),
+    ("A:SS2", "cannot read"),
+    ("A:FS+1.5", "lag"),
+    (":SS", "no id"),
+])
+def test_parse_predecessors_refuses(text, says):
+    with pytest.raises(InputError) as caught:
+        parse_predecessors(text, file="acts.csv", row=7)
+    check_error(caught.value, file="acts.csv", row=7, column="predecessors", value=None, says=says)
+
+
+def test_link_text_reads_back():
+    for link in (Link("A", "B"), Link("A", "B", SS), Link("A", "B", FF, -2), Link("A", "B", FS, 4)):
+        assert parse_predecessors(link.text()) == [(link.pred, link.type, link.lag)]
+
+
+# ---------------------------------------------------------------- bad input, one case each
+# (file, old text, new text, row, column, value, words the message must contain)
+
+BAD_FOLDER_CASES = {
+    "duplicate id": ("activities.csv", "040,Électricité", "030,Électricité",
+                     5, "id", "030", "rows 4 and 5"),
+    "unknown predecessor": ("activities.csv", "020:SS+2", "02O:SS+2",
+                            4, "predecessors", "02O:SS+2", "did you mean '020'"),
+    "self link": ("activities.csv", "020:SS+2", "030:SS+2", 4, "predecessors", "030:SS+2", "itself"),
+    "duplicate link": ("links.csv", "040,070,SF,-1\n", "040,070,SF,-1\n020,050,FS,2\n",
+                       6, "predecessor", "020:FS+2", "activities.csv row 7 column 'predecessors'"),
+    "duration not a number": ("activities.csv", "Electrical,6,", "Electrical,six,",
+                              5, "duration", "six", "not a plain number"),
+    "duration not whole": ("activities.csv", "Electrical,6,", "Electrical,2.5,",
+                           5, "duration", "2.5", "whole"),
+    "duration negative": ("activities.csv", "Electrical,6,", "Electrical,-1,",
+                          5, "duration", "-1", "negative"),
+    "duration empty": ("activities.csv", "Electrical,6,", "Electrical,,",
+                       5, "duration", "", "empty"),
+    "crash duration above duration": ("activities.csv", "Demolition,5,3,", "Demolition,5,7,",
+                                      3, "crash_duration", "7", "longer"),
+    "crash cost below cost": ("activities.csv", "9000,12600", "9000,8000",
+                              3, "crash_cost", "8000", "below"),
+    "crash cost unknown": ("activities.csv", "6,4,14000,17000", "6,4,14000,",
+                           5, "crash_cost", "", "unknown"),
+    "unknown link type": ("activities.csv", "020:SS+2", "020:XX", 4, "predecessors", "020:XX",
+                          "FS, SS, FF or SF"),
+    "bad lag text": ("activities.csv", "020:SS+2", "020:SS+x", 4, "predecessors", "020:SS+x",
+                     "lag"),
+    "unknown link type in links.csv": ("links.csv", "030,070,FF,0", "030,070,XF,0",
+                                       4, "type", "XF", "FS, SS, FF or SF"),
+    "bad lag in links.csv": ("links.csv", "050,060,FS,3", "050,060,FS,3d", 2, "lag", "3d", ""),
+    "unknown successor in links.csv": ("links.csv", "060,070,,", "060,007,,",
+                                       3, "successor", "007", "successor"),
+    "thousands separator": ("activities.csv", "General,3,,4500,", 'General,3,,"4,500",',
+                            2, "cost", "4,500", "write plain numbers only: 4500"),
+    "negative cost": ("activities.csv", "General,3,,4500,", "General,3,,-4500,",
+                      2, "cost", "-4500", "negative"),
+    "unknown column": ("activities.csv", "id,name,trade,duration,", "id,name,trade,duraton,",
+                       1, "duraton", "duraton", "did you mean 'duration'"),
+    "steps not convex": ("crash_steps.csv", "060,1,650.25", "060,1,300",
+                         3, "cost_per_day", None, "sort the steps"),
+    "steps and crash duration disagree": ("activities.csv", "Painting,5,,", "Painting,5,4,",
+                                          8, "crash_duration", None, "crash_steps.csv rows 2, 3"),
+    "step days zero": ("crash_steps.csv", "060,1,400", "060,0,400", 2, "days", "0", "at least 1"),
+    "step days above duration": ("crash_steps.csv", "060,1,650.25", "060,9,650.25",
+                                 3, "days", None, "duration is only 5"),
+    "step for unknown id": ("crash_steps.csv", "060,1,400", "06O,1,400", 2, "id", "06O",
+                            "did you mean '060'"),
+    "step cost not a number": ("crash_steps.csv", "060,1,400", "060,1,€400",
+                               2, "cost_per_day", "€400", "plain number"),
+    "bad start date": ("project.toml", "start = 2025-03-03", 'start = "03/03/2025"',
+                       None, "start", "03/03/2025", "YYYY-MM-DD"),
+    "impossible date": ("project.toml", "start = 2025-03-03", 'start = "2025-02-30"',
+                        None, "start", "2025-02-30", "no such date"),
+    "unknown calendar": ("project.toml", 'calendar = ["mon", "tue", "wed", "thu", "fri", "sat"]',
+                         'calendar = "mon-thu"', None, "calendar", "mon-thu", "mon-fri, mon-sat, all-days"),
+    "unknown weekday": ("project.toml", '"fri", "sat"]', '"fri", "sam"]', None, "calendar", None,
+                        "unknown calendar"),
+    "holidays not dates": ("project.toml", "holidays = [2025-04-18,", 'holidays = ["Easter",',
+                           None, "holidays", "Easter", "YYYY-MM-DD"),
+    "negative indirect cost": ("project.toml", "indirect_per_day = 850.5",
+                               "indirect_per_day = -850.5", None, "costs.indirect_per_day",
+                               None, "negative"),
+    "unknown key": ("project.toml", 'currency = "EUR"', 'curency = "EUR"', None, "curency",
+                    "curency", "did you mean 'currency'"),
+    "missing name": ("project.toml", 'name = "Gemeindesaal Nord – refurbishment"', "",
+                     None, "name", None, "missing"),
+}
+
+
+@pytest.mark.parametrize("case", list(BAD_FOLDER_CASES), ids=list(BAD_FOLDER_CASES))
+def test_bad_folder_input(hall, case):
+    file, old, new, row, column, value, says = BAD_FOLDER_CASES[case]
+    edit(hall / file, old, new)
+    check_error(read_error(hall), file=file, row=row, column=column, value=value, says=says)
+
+
+def test_cycle_names_the_ids_in_order(hall):
+    (hall / "links.csv").write_text(
+        (hall / "links.csv").read_text(encoding="utf-8") + "070,020,FS,0\n", encoding="utf-8")
+    error = read_error(hall, CycleError)
+    links = {(l.pred, l.succ) for l in HALL_PROJECT.links} | {("070", "020")}
+    loop = error.cycle + error.cycle[:1]
+    assert all((a, b) in links for a, b in zip(loop, loop[1:])), error.cycle
+    assert {"070", "020"} <= set(error.cycle)
+    message = str(error)
+    assert " -> ".join(loop) in message and "links.csv" in message and "Fix: " in message
+
+
+def test_missing_file(hall):
+    (hall / "activities.csv").unlink()
+    check_error(read_error(hall), file="activities.csv", row=None, column=None, value=None,
+                says="not found")
+
+
+def test_misspelt_optional_file_is_not_ignored(hall):
+    (hall / "links.csv").rename(hall / "link.csv")
+    check_error(read_error(hall), file="links.csv", row=None, column=None, value=None,
+                says="found 'link.csv'")
+
+
+def test_missing_required_column(hall):
+    (hall / "activities.csv").write_text("id,name\nA,Fence\n", encoding="utf-8")
+    check_error(read_error(hall), file="activities.csv", row=1, column="duration",
+                value="duration", says="columns found: id, name")
+
+
+@pytest.mark.parametrize("text, says", [("", "the table is empty"),
+                                        ("\n\n", "the table is empty"),
+                                        ("id,duration\n", "there are no activities")])
+def test_empty_activities(hall, text, says):
+    (hall / "activities.csv").write_text(text, encoding="utf-8")
+    error = read_error(hall)
+    check_error(error, file="activities.csv", row=error.row, column=None, value=None, says=says)
+
+
+def test_not_utf8(hall):
+    (hall / "activities.csv").write_bytes("id,name,duration\nA,Süd,2\n".encode("latin-1"))
+    check_error(read_error(hall), file="activities.csv", row=None, column=None, value=None,
+                says="UTF-8")
+
+
+def test_broken_toml_names_the_line(hall):
+    edit(hall / "project.toml", 'currency = "EUR"', "currency = EUR")
+    check_error(read_error(hall), file="project.toml", row=6, column=None, value=None,
+                says="not valid TOML")
+
+
+# ---------------------------------------------------------------- workbook and JSON input
+
+def test_missing_sheet(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    del book["activities"]
+    book.save(tmp_path / "p.xlsx")
+    error = read_error(tmp_path / "p.xlsx")
+    check_error(error, file="p.xlsx", row=None, column=None, value=None,
+                says="the sheet 'activities' is missing (sheets found: project, crash_steps)")
+
+
+def test_workbook_rows_are_sheet_rows(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    book["activities"]["A5"] = "030"  # 040 on sheet row 5 becomes a second 030
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet activities)", row=5,
+                column="id", value="030", says="rows 4 and 5")
+
+
+def test_workbook_settings_errors_name_the_row(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    sheet = book["project"]
+    assert sheet["A3"].value == "start"
+    sheet["B3"] = "3.3.2025"
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet project)", row=3,
+                column="start", value="3.3.2025", says="YYYY-MM-DD")
+
+
+def test_workbook_typed_by_hand(tmp_path):
+    """Number and date cells as a spreadsheet program stores them are read as text values."""
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.title = "project"
+    for row in (("key", "value"), ("name", "Kiosk"), ("start", date(2025, 3, 3)),
+                ("holidays", "2025-04-18, 2025-05-01"), ("calendar", "Mon, Tue, Wed"),
+                ("costs.indirect_per_day", 120.5), ("notes", None)):
+        sheet.append(row)
+    sheet.delete_rows(7)
+    acts = book.create_sheet("Activities")
+    for row in (("ID", "Duration", "Cost", "Predecessors"), (10, 3, 1500, None),
+                ("11", 2.0, None, "10:ss+1")):
+        acts.append(row)
+    book.save(tmp_path / "k.xlsx")
+    assert read_project(tmp_path / "k.xlsx") == Project(
+        "Kiosk", date(2025, 3, 3), (Activity("10", 3, cost=1500.0), Activity("11", 2)),
+        (Link("10", "11", SS, 1),),
+        Calendar((0, 1, 2), (date(2025, 4, 18), date(2025, 5, 1)), "mon,tue,wed"),
+        costs=Costs(120.5))
+
+
+def test_json_rows_are_list_positions(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["activities"][2]["duration"] = -3
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (activities)", row=3,
+                column="duration", value="-3", says="negative")
+
+
+def test_json_syntax_error_names_the_line(tmp_path):
+    (tmp_path / "p.json").write_text('{"project": {"name": "x",\n "start": 2025-03-03}}',
+                                     encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json", row=2, column=None, value=None,
+                says="not valid JSON")
+
+
+def test_unknown_form_and_missing_path(tmp_path):
+    (tmp_path / "p.csv").write_text("id,duration\n", encoding="utf-8")
+    check_error(read_error(tmp_path / "p.csv"), file="p.csv", row=None, column=None,
+                value=".csv", says="unknown project form")
+    with pytest.raises(InputError, match="not found"):
+        read_project(tmp_path / "nothing.json")
+
+
+def test_parse_tables_is_the_shared_core():
+    """The pure core takes tables directly (no files)."""
+    grid = [(1, ["id", "duration", "predecessors"]), (2, ["A", "2", ""]), (3, ["B", "1", "A:FF"])]
+    tables = Tables(Settings("mem", {"name": "T", "start": "2025-01-06"}),
+                    table_from_grid("mem acts", grid))
+    assert parse_tables(tables) == Project(
+        "T", date(2025, 1, 6), (Activity("A", 2), Activity("B", 1)), (Link("A", "B", FF, 0),))
+    with pytest.raises(InputError) as caught:
+        parse_tables(Tables(tables.settings, Table("mem acts", ("id", "duration"), ())))
+    assert "there are no activities" in str(caught.value)
+
+
+# ---------------------------------------------------------------- writing
+
+def test_written_layouts(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    assert book.sheetnames == ["project", "activities", "crash_steps"]
+    settings = {row[0]: row[1] for row in book["project"].iter_rows(min_row=2, values_only=True)}
+    assert settings["holidays"] == "2025-04-18, 2025-05-01"
+    assert settings["contract.finish"] == "2025-06-27"
+    assert settings["costs.indirect_per_day"] == 850.5
+    assert book["activities"]["A2"].value == "010"
+    assert book["activities"]["H7"].value == "050:FS+3"
+
+    write_project(HALL_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    assert list(data) == ["project", "activities", "links", "crash_steps"]
+    assert data["project"]["contract"]["bonus_cap_days"] == 10
+    assert data["activities"][6]["predecessors"] == "060; 030:FF; 040:SF-1"
+    assert data["links"] == []
+    assert data["crash_steps"][1] == {"id": "060", "days": 1, "cost_per_day": 650.25}
+
+    write_project(HALL_PROJECT, tmp_path / "f")
+    assert sorted(p.name for p in (tmp_path / "f").iterdir()) == [
+        "activities.csv", "crash_steps.csv", "project.toml"]
+
+
+def test_links_out_of_reading_order_go_to_links_table(tmp_path):
+    reordered = Project(HALL_PROJECT.name, HALL_PROJECT.start, HALL_PROJECT.activities,
+                        tuple(reversed(HALL_PROJECT.links)), HALL_PROJECT.calendar)
+    write_project(reordered, tmp_path / "f")
+    assert (tmp_path / "f" / "links.csv").is_file()
+    assert read_project(tmp_path / "f") == reordered
+
+
+def test_awkward_values_survive_every_form(tmp_path):
+    project = Project(
+        "=SUM(A1) #N/A", date(2025, 3, 3),
+        (Activity("010", 4, "two\nlines, \"quoted\"", "#N/A", 2, 0.1 + 0.2, 1e20),
+         Activity("A.1-x_2", 1, "=1+1", cost=123456789.12345679)),
+        calendar=Calendar((0, 2, 4), (), "mon,wed,fri"), currency="€")
+    for name in ("f", "p.xlsx", "p.json"):
+        write_project(project, tmp_path / name)
+        assert read_project(tmp_path / name) == project, name
+
+
+def test_refuses_to_overwrite_unless_asked(tmp_path):
+    target = tmp_path / "p.json"
+    target.write_text("{}", encoding="utf-8")
+    with pytest.raises(InputError, match="not empty"):
+        write_project(HALL_PROJECT, target)
+    assert target.read_text(encoding="utf-8") == "{}"
+    write_project(HALL_PROJECT, target, overwrite=True)
+    assert read_project(target) == HALL_PROJECT
+    (tmp_path / "empty").mkdir()
+    write_project(HALL_PROJECT, tmp_path / "empty")
+    assert read_project(tmp_path / "empty") == HALL_PROJECT
+
+
+def test_overwriting_a_folder_removes_stale_tables_only(hall):
+    (hall / "notes.txt").write_text("keep me", encoding="utf-8")
+    with pytest.raises(InputError, match="not empty"):
+        write_project(HALL_PROJECT, hall)
+    write_project(HALL_PROJECT, hall, overwrite=True)
+    assert not (hall / "links.csv").exists()  # the links now sit in the predecessors column
+    assert (hall / "notes.txt").read_text(encoding="utf-8") == "keep me"
+    assert read_project(hall) == HALL_PROJECT
+    assert sorted(p.name for p in hall.iterdir()) == [
+        "README.md", "activities.csv", "crash_steps.csv", "notes.txt", "project.toml"]
+
+
+def test_failed_write_leaves_nothing_behind(tmp_path, monkeypatch):
+    def broken_save(self, filename):
+        Path(filename).write_bytes(b"half a workbook")
+        raise OSError(28, "No space left on device")
+    monkeypatch.setattr(openpyxl.Workbook, "save", broken_save)
+    with pytest.raises(InputError, match="cannot write"):
+        write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_failed_folder_write_leaves_old_files_alone(hall, monkeypatch):
+    import hasten.formats.folder as folder
+
+    def broken(columns, records):
+        def write(path):
+            path.write_text("partial", encoding="utf-8")
+            raise OSError(13, "Permission denied")
+        return write
+    before = snapshot(hall)
+    monkeypatch.setattr(folder, "_csv_writer", broken)
+    with pytest.raises(InputError, match="cannot write"):
+        write_project(HALL_PROJECT, hall, overwrite=True)
+    assert snapshot(hall) == before
+    with pytest.raises(InputError, match="cannot write"):
+        write_project(HALL_PROJECT, hall.parent / "new")
+    assert sorted(p.name for p in hall.parent.iterdir()) == ["hall"]
+
+
+@pytest.mark.parametrize("change, says", [
+    (dict(name=" padded "), "project.name"),
+    (dict(calendar=Calendar((0, 1, 2, 3, 4, 5), (), "mon-fri")), "project.calendar.name"),
+    (dict(links=(Link("010", "020"), Link("020", "010"))), "loop"),
+    (dict(links=(Link("010", "999"),)), "unknown"),
+])
+def test_refuses_projects_that_would_not_read_back(tmp_path, change, says):
+    fields = {**HALL_PROJECT.__dict__, **change}
+    with pytest.raises(InputError, match=says):
+        write_project(Project(**fields), tmp_path / "p.json")
+    assert list(tmp_path.iterdir()) == []
+
+
+# ---------------------------------------------------------------- random round trips
+
+ID = st.text(string.ascii_letters + string.digits + "-_.", min_size=1, max_size=5)
+TEXT = st.text(st.characters(blacklist_categories=("Cs", "Cn", "Cc")) | st.sampled_from("\n\t"),
+               max_size=15).map(str.strip)
+MONEY = st.floats(min_value=0, max_value=1e12, allow_nan=False) | st.integers(0, 10**7).map(float)
+
+
+@st.composite
+def activity(draw, ident: str) -> Activity:
+    duration = draw(st.integers(0, 40))
+    cost = draw(MONEY)
+    kind = draw(st.sampled_from(["fixed", "explicit", "linear", "steps"] if duration else
+                                ["fixed", "explicit"]))
+    common = dict(id=ident, duration=duration, name=draw(TEXT), trade=draw(TEXT), cost=cost)
+    if kind == "fixed":
+        return Activity(**common)
+    if kind == "explicit":
+        return Activity(**common, crash_duration=duration,
+                        crash_cost=draw(st.sampled_from([None, cost])))
+    if kind == "linear":
+        return Activity(**common, crash_duration=draw(st.integers(0, duration - 1)),
+                        crash_cost=cost + draw(MONEY))
+    days = draw(st.lists(st.integers(1, 5), min_size=1, max_size=3).filter(
+        lambda d: sum(d) <= duration))
+    rates = sorted(draw(st.lists(MONEY, min_size=len(days), max_size=len(days))))
+    steps = tuple(CrashStep(d, r) for d, r in zip(days, rates))
+    crash = draw(st.sampled_from([None, duration - sum(days)]))
+    return Activity(**common, crash_duration=crash, steps=steps)
+
+
+@st.composite
+def project(draw) -> Project:
+    ids = draw(st.lists(ID, min_size=1, max_size=7, unique=True))
+    activities = tuple(draw(activity(i)) for i in ids)
+    pairs = [(a, b) for a in range(len(ids)) for b in range(a + 1, len(ids))]
+    chosen = draw(st.lists(st.tuples(st.sampled_from(pairs), st.sampled_from(list(LinkType))),
+                           unique=True, max_size=10)) if pairs else []
+    links = [Link(ids[a], ids[b], kind, draw(st.integers(-5, 5))) for (a, b), kind in chosen]
+    if draw(st.booleans()):  # the order reading the predecessors column gives
+        links.sort(key=lambda link: ids.index(link.succ))
+    workdays = tuple(sorted(draw(st.sets(st.integers(0, 6), min_size=1))))
+    named = {(0, 1, 2, 3, 4): "mon-fri", (0, 1, 2, 3, 4, 5): "mon-sat",
+             (0, 1, 2, 3, 4, 5, 6): "all-days"}
+    day_names = ("mon", "tue", "wed", "thu", "fri", "sat", "sun")
+    calendar = Calendar(workdays, tuple(draw(st.lists(st.dates(), unique=True, max_size=4))),
+                        named.get(workdays, ",".join(day_names[d] for d in workdays)))
+    return Project(
+        name=draw(TEXT.filter(bool)),
+        start=draw(st.dates()),
+        activities=activities,
+        links=tuple(links),
+        calendar=calendar,
+        currency=draw(TEXT),
+        costs=Costs(draw(MONEY)),
+        contract=Contract(draw(st.none() | st.dates()), draw(MONEY), draw(MONEY),
+                          draw(st.none() | st.integers(0, 400))),
+    )
+
+
+@settings(max_examples=int(os.environ.get("HASTEN_EXAMPLES", "60")), deadline=None,
+          suppress_health_check=[HealthCheck.too_slow])
+@given(project())
+def test_random_projects_round_trip_through_every_form(original):
+    with tempfile.TemporaryDirectory() as tmp:
+        current = original
+        for name in ("folder", "p.xlsx", "p.json", "again"):
+            write_project(current, Path(tmp) / name)
+            current = read_project(Path(tmp) / name)
+            assert current == original, name
