@@ -1,0 +1,43 @@
+"""Time-related costs of a finish: indirect cost, liquidated damages and early bonus.
+
+Indirect (site overhead) cost runs per working day of project duration. Damages and
+bonus run per calendar day between the finish date (the last day worked) and the
+contract finish date, as most contracts count them; the bonus may be capped in days.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .calendar import CalendarClock
+from .model import Project
+
+__all__ = ["TimeCosts", "time_costs"]
+
+
+@dataclass(frozen=True)
+class TimeCosts:
+    indirect: float
+    damages: float
+    bonus: float
+    days_late: int  # calendar days after the contract finish
+    days_early: int  # calendar days before the contract finish
+
+    @property
+    def net(self) -> float:
+        """What time costs in all: indirect plus damages less bonus."""
+        return self.indirect + self.damages - self.bonus
+
+
+def time_costs(project: Project, clock: CalendarClock, finish: int) -> TimeCosts:
+    """Time-related costs of finishing after ``finish`` working days."""
+    indirect = project.costs.indirect_per_day * finish
+    contract = project.contract
+    if contract.finish is None:
+        return TimeCosts(indirect, 0.0, 0.0, 0, 0)
+    delta = (clock.project_finish_date(finish) - contract.finish).days
+    late = max(delta, 0)
+    early = max(-delta, 0)
+    paid_early = early if contract.bonus_cap_days is None else min(early, contract.bonus_cap_days)
+    return TimeCosts(indirect, contract.damages_per_day * late, contract.bonus_per_day * paid_early,
+                     late, early)

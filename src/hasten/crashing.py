@@ -1,0 +1,270 @@
+"""Least-cost acceleration questions: a target plan, the time-cost curve, the best
+total-cost finish and the earliest finish within a budget.
+
+:class:`Study` holds one project, its network, its calendar and one optimisation
+model, built once and re-solved for every question asked of it.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from datetime import date
+from typing import Callable, Sequence
+
+from .calendar import CalendarClock
+from .checks import PlanChecker, activity_added_cost
+from .costs import TimeCosts, time_costs
+from .errors import HastenError, InfeasibleTargetError
+from .model import Project
+from .network import Network, Schedule, schedule
+from .optimise import CrashModel, Solution
+
+__all__ = [
+    "ActivityChange",
+    "TradeTotal",
+    "Plan",
+    "CurvePoint",
+    "TotalCostPoint",
+    "BestFinish",
+    "Study",
+    "parse_earlier",
+]
+
+Progress = Callable[[int, int], None]
+
+
+@dataclass(frozen=True)
+class ActivityChange:
+    id: str
+    name: str
+    trade: str
+    normal: int
+    duration: int
+    shortened_by: int
+    added_cost: float
+
+
+@dataclass(frozen=True)
+class TradeTotal:
+    trade: str
+    shortened_days: int
+    added_cost: float
+
+
+@dataclass(frozen=True)
+class Plan:
+    """A least-cost plan, checked independently of the solver."""
+
+    target: int
+    finish: int
+    normal_finish: int
+    added_cost: float
+    normal_direct_cost: float
+    activities: tuple[ActivityChange, ...]  # every activity, in project order
+    trades: tuple[TradeTotal, ...]
+    schedule: Schedule  # early dates with the plan's durations
+    next_day_cost: float | None  # least cost of finishing one more day earlier, None at the limit
+
+    @property
+    def direct_cost(self) -> float:
+        return self.normal_direct_cost + self.added_cost
+
+    @property
+    def shortened(self) -> tuple[ActivityChange, ...]:
+        return tuple(a for a in self.activities if a.shortened_by > 0)
+
+    @property
+    def lengthened(self) -> tuple[ActivityChange, ...]:
+        """Activities left longer than a shorter plan might suggest never appear: durations
+        never exceed normal. Kept for symmetry with ``shortened``."""
+        return tuple(a for a in self.activities if a.shortened_by < 0)
+
+
+@dataclass(frozen=True)
+class CurvePoint:
+    finish: int
+    added_cost: float
+    day_cost: float  # cost of this last day: added cost here less at one day later
+    changes: tuple[tuple[str, int], ...]  # (activity id, change in days) from the point before
+
+
+@dataclass(frozen=True)
+class TotalCostPoint:
+    finish: int
+    finish_date: date
+    direct_cost: float
+    added_cost: float
+    time: TimeCosts
+
+    @property
+    def total_cost(self) -> float:
+        return self.direct_cost + self.time.net
+
+
+@dataclass(frozen=True)
+class BestFinish:
+    best: TotalCostPoint
+    table: tuple[TotalCostPoint, ...]  # every finish from shortest to normal
+    plan: Plan
+
+
+_EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
+
+
+def parse_earlier(text: str) -> tuple[str, int]:
+    """``'10d'`` -> ``('working', 10)``; ``'2w'`` -> ``('calendar', 14)``."""
+    m = _EARLIER.match(text)
+    if not m:
+        raise HastenError(f"--earlier {text!r} is not understood; write working days as 10d "
+                          "or calendar weeks as 2w")
+    n = int(m.group(1))
+    return ("working", n) if m.group(2).lower() == "d" else ("calendar", 7 * n)
+
+
+class Study:
+    """One project and everything needed to answer its acceleration questions."""
+
+    def __init__(self, project: Project, *, time_limit: float | None = None):
+        self.project = project
+        self.network = Network(project)
+        self.clock = CalendarClock(project.calendar, project.start)
+        self.normal = schedule(self.network)
+        self.checker = PlanChecker(project)
+        self.time_limit = time_limit
+        self._model: CrashModel | None = None
+        self._shortest: int | None = None
+
+    # -- basics ------------------------------------------------------------------------
+    @property
+    def model(self) -> CrashModel:
+        if self._model is None:
+            self._model = CrashModel(self.network, time_limit=self.time_limit)
+        return self._model
+
+    @property
+    def normal_finish(self) -> int:
+        return self.normal.finish
+
+    @property
+    def shortest_finish(self) -> int:
+        """The LP's minimum finish. With SS/FF/SF links this can be shorter than a CPM pass
+        with every activity at its crash duration (shortening some activities can delay
+        the project), so it is never computed that way."""
+        if self._shortest is None:
+            self._shortest = min(self.model.shortest_finish(), self.normal_finish)
+        return self._shortest
+
+    def target_by_date(self, day: date) -> int:
+        """Finish target (working days) to be done by ``day``, the last day worked."""
+        return self.clock.offset_of(day, finish=True)
+
+    def target_earlier(self, text: str) -> int:
+        unit, n = parse_earlier(text)
+        if unit == "working":
+            return self.normal_finish - n
+        return self.clock.shift_calendar_days(self.normal_finish, n)
+
+    # -- plans -------------------------------------------------------------------------
+    def _solve(self, target: int, *, tie_break: bool = True) -> Solution:
+        if target >= self.normal_finish:
+            return Solution(tuple(self.network.durations), 0.0, 0.0)
+        sol = self.model.least_cost(target, tie_break=tie_break)
+        if sol is None:
+            raise InfeasibleTargetError(target, self.shortest_finish)
+        return sol
+
+    def _checked(self, sol: Solution, target: int) -> tuple[int, float]:
+        """Finish and added cost (recomputed from the activity data) of a solution that
+        has passed the independent check on its early-start dates."""
+        return self.checker.check(sol.durations, self.network.forward(sol.durations),
+                                  target=target, claimed_cost=sol.added_cost)
+
+    def plan(self, target: int, *, next_day: bool = True) -> Plan:
+        """The least-cost plan to finish by ``target`` working days."""
+        sol = self._solve(target)
+        finish, cost = self._checked(sol, target)
+        next_cost = None
+        step = min(target, self.normal_finish)
+        if next_day and step > 0:
+            try:
+                nxt = self._solve(step - 1, tie_break=False)
+            except InfeasibleTargetError:
+                pass  # this is the shortest possible finish
+            else:
+                next_cost = self._checked(nxt, step - 1)[1] - cost
+        sched = schedule(self.network, sol.durations)
+        return self._plan(target, finish, sol.durations, cost, sched, next_cost)
+
+    def _plan(self, target: int, finish: int, durations: Sequence[int], added_cost: float,
+              sched: Schedule, next_cost: float | None) -> Plan:
+        changes = []
+        trades: dict[str, list] = {}
+        for act, d in zip(self.project.activities, durations):
+            cut = act.duration - d
+            cost = activity_added_cost(act, cut)
+            changes.append(ActivityChange(act.id, act.name, act.trade, act.duration, d, cut, cost))
+            if cut:
+                t = trades.setdefault(act.trade or "(no trade)", [0, 0.0])
+                t[0] += cut
+                t[1] += cost
+        trade_rows = tuple(TradeTotal(k, v[0], v[1])
+                           for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
+        return Plan(target, finish, self.normal_finish, added_cost,
+                    self.project.normal_direct_cost, tuple(changes), trade_rows, sched, next_cost)
+
+    # -- the curve ---------------------------------------------------------------------
+    def curve(self, longest: int | None = None, shortest: int | None = None,
+              progress: Progress | None = None) -> list[CurvePoint]:
+        """Least added cost at every whole working day from ``longest`` (default: the
+        normal finish) down to ``shortest`` (default: the shortest possible finish)."""
+        hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
+        lo = self.shortest_finish if shortest is None else shortest
+        if lo > hi:
+            raise HastenError(f"the curve range is empty: {lo} is after {hi}")
+        points: list[CurvePoint] = []
+        prev: Sequence[int] | None = None
+        prev_cost = 0.0
+        total = hi - lo + 1
+        for k, target in enumerate(range(hi, lo - 1, -1)):
+            sol = self._solve(target, tie_break=False)  # raises below the shortest finish
+            cost = self._checked(sol, target)[1]
+            if prev is None:
+                changes: tuple = ()
+                day_cost = 0.0
+                if target < self.normal_finish:
+                    before = self._solve(target + 1, tie_break=False)
+                    day_cost = cost - self._checked(before, target + 1)[1]
+            else:
+                changes = tuple((self.network.ids[i], d - p)
+                                for i, (d, p) in enumerate(zip(sol.durations, prev)) if d != p)
+                day_cost = cost - prev_cost
+            points.append(CurvePoint(target, cost, day_cost, changes))
+            prev, prev_cost = sol.durations, cost
+            if progress:
+                progress(k + 1, total)
+        return points
+
+    # -- total cost --------------------------------------------------------------------
+    def total_cost_point(self, finish: int, added_cost: float) -> TotalCostPoint:
+        return TotalCostPoint(finish, self.clock.project_finish_date(finish),
+                              self.project.normal_direct_cost + added_cost, added_cost,
+                              time_costs(self.project, self.clock, finish))
+
+    def best(self, progress: Progress | None = None) -> BestFinish:
+        """The finish with the least total cost (direct + indirect + damages - bonus).
+
+        Ties go to the later finish: the same money for less acceleration.
+        """
+        points = self.curve(progress=progress)
+        table = tuple(self.total_cost_point(p.finish, p.added_cost) for p in reversed(points))
+        best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
+        return BestFinish(best, table, self.plan(best.finish))
+
+    def budget(self, spend: float) -> Plan:
+        """The earliest finish whose least added cost is within ``spend``, and its plan."""
+        if spend < 0:
+            raise HastenError(f"--spend {spend:g} is negative; give the most you would add, e.g. 50000")
+        target = max(self.model.earliest_finish_within(spend), self.shortest_finish)
+        return self.plan(min(target, self.normal_finish))
+

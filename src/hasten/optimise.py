@@ -1,0 +1,274 @@
+"""The least-cost acceleration model, built once per network and re-solved.
+
+:class:`CrashModel` writes the time-cost trade-off into a :class:`~hasten.solver.LinearModel`
+and answers: the shortest possible finish, the least added cost for a target finish
+(ties to fewer crash days), and the earliest finish within a budget. The curve, budget
+mode and the plan all re-solve the same model with another bound or objective; later
+features extend it (discrete options, milestone penalties, scenario copies).
+
+Formulation, per activity ``i`` with normal duration ``D_i``::
+
+    start s_i >= 0, end f_i >= 0, shortening y_ik in [0, days_k] for each cost step k
+    f_i - s_i + sum_k y_ik = D_i                         (duration between crash and normal)
+    FS: s_j - f_i >= lag   SS: s_j - s_i >= lag   FF: f_j - f_i >= lag   SF: f_j - s_i >= lag
+    f_i - T <= 0                                         (every activity finishes by T)
+    minimise sum_ik cost_per_day_k * y_ik                 (added direct cost)
+
+Every row but the first kind is a difference of two event times, and each shortening
+column appears in one row only, so the matrix is totally unimodular: with whole-day
+data every vertex is integral and the simplex method returns whole-day plans (the
+tests show it on random networks). Solutions are still rounded and checked; should
+one ever come out fractional, the shortening columns are made integer and the model
+is solved again.
+
+Cost steps must be convex (cost per day not falling from one step to the next); the
+LP then takes the cheaper step first by itself.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from enum import Enum
+
+import numpy as np
+
+from .errors import HastenError, SolverError
+from .network import Network
+from .solver import INF, LinearModel
+
+__all__ = ["CrashModel", "Objective", "Solution"]
+
+_FS, _SS, _FF, _SF = 0, 1, 2, 3
+_INT_TOL = 1e-6
+
+
+class Objective(str, Enum):
+    COST = "cost"  # least added direct cost
+    FINISH = "finish"  # earliest finish
+
+
+@dataclass(frozen=True)
+class Solution:
+    """One solve: durations in whole working days, the objective value and the added
+    direct cost as the solver computed it (checked independently by the caller)."""
+
+    durations: tuple[int, ...]
+    objective: float
+    added_cost: float
+
+
+def _convex(network: Network) -> None:
+    for act in network.project.activities:
+        steps = act.segments()
+        for a, b in zip(steps, steps[1:]):
+            if b.cost_per_day < a.cost_per_day:
+                raise HastenError(
+                    f"activity {act.id}: crash steps get cheaper ({a.cost_per_day:g} then "
+                    f"{b.cost_per_day:g} per day); an LP cannot take them in order. Sort the "
+                    "steps by cost per day, or model them as discrete options")
+
+
+class CrashModel:
+    """Least-cost acceleration model for one network.
+
+    >>> model = CrashModel(network)            # doctest: +SKIP
+    >>> model.shortest_finish()                # the LP's minimum finish
+    >>> model.least_cost(120)                  # least added cost to finish by day 120
+    """
+
+    def __init__(self, network: Network, *, solver: str | None = None,
+                 time_limit: float | None = None):
+        _convex(network)
+        self.net = network
+        n = len(network)
+        lm = LinearModel(solver=solver, time_limit=time_limit)
+        self.lp = lm
+        self.start = lm.add_columns(np.zeros(n), INF)
+        self.end = lm.add_columns(np.zeros(n), INF)
+        self.finish = int(lm.add_columns([0.0], INF)[0])
+        owner, days, per_day = [], [], []
+        for i, act in enumerate(network.project.activities):
+            for step in act.segments():
+                owner.append(i)
+                days.append(step.days)
+                per_day.append(step.cost_per_day)
+        self.cut_owner = np.asarray(owner, dtype=np.int64)
+        self.cut_cost = np.asarray(per_day, dtype=float)
+        self.cuts = lm.add_columns(np.zeros(len(owner)), np.asarray(days, dtype=float))
+        self._rows(network)
+        self.cost_cap = lm.add_row(self.cuts, self.cut_cost, -INF, INF)
+        lm.define_objective(Objective.COST.value, self.cuts, self.cut_cost)
+        lm.define_objective(Objective.FINISH.value, [self.finish], [1.0])
+        self._last = None
+
+    def _rows(self, net: Network) -> None:
+        n, lm = len(net), self.lp
+        # duration rows: f_i - s_i + sum_k y_ik = D_i
+        per = np.bincount(self.cut_owner, minlength=n)
+        starts = np.concatenate([[0], np.cumsum(2 + per)[:-1]])
+        index = np.empty(int((2 + per).sum()), dtype=np.int64)
+        value = np.ones(len(index))
+        index[starts] = self.end
+        index[starts + 1] = self.start
+        value[starts + 1] = -1.0
+        order = np.argsort(self.cut_owner, kind="stable")
+        slot = np.repeat(starts + 2, per) + (np.arange(len(order)) - np.repeat(np.cumsum(per) - per, per))
+        index[slot] = self.cuts[order]
+        durations = np.asarray(net.durations, dtype=float)
+        lm.add_rows(starts, index, value, durations, durations)
+        # links: later - earlier >= lag
+        pred = np.asarray(net.pred, dtype=np.int64)
+        succ = np.asarray(net.succ, dtype=np.int64)
+        kind = np.asarray(net.kind, dtype=np.int64)
+        lag = np.asarray(net.lag, dtype=float)
+        m = len(pred)
+        if m:
+            later = np.where((kind == _FS) | (kind == _SS), self.start[succ], self.end[succ])
+            earlier = np.where((kind == _FS) | (kind == _FF), self.end[pred], self.start[pred])
+            index = np.empty(2 * m, dtype=np.int64)
+            index[0::2], index[1::2] = later, earlier
+            value = np.tile([1.0, -1.0], m)
+            lm.add_rows(np.arange(0, 2 * m, 2), index, value, lag, INF)
+        # every activity finishes by T, unless an FS/FF successor with lag >= 0 implies it
+        implied = np.zeros(n, dtype=bool)
+        if m:
+            implied[pred[((kind == _FS) | (kind == _FF)) & (lag >= 0)]] = True
+        free = np.flatnonzero(~implied)
+        index = np.empty(2 * len(free), dtype=np.int64)
+        index[0::2], index[1::2] = self.end[free], self.finish
+        lm.add_rows(np.arange(0, 2 * len(free), 2), index, np.tile([1.0, -1.0], len(free)),
+                    -INF, 0.0)
+
+    # -- solving -----------------------------------------------------------------------
+    def _run(self, objective: Objective, target: int | None, cap: float | None, *,
+             aside: bool = False):
+        """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
+        least-cost questions that are asked over and over."""
+        lm = self.lp.copy() if aside else self.lp
+        lm.use_objective(objective.value)
+        lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
+        lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))
+        result = lm.solve()
+        if result.status == "infeasible":
+            return None
+        if result.status != "optimal":
+            raise SolverError(f"the solver stopped before an optimum ({result.status})")
+        return result
+
+    def _solution(self, values: np.ndarray) -> Solution | None:
+        y = values[self.cuts]
+        cut = np.bincount(self.cut_owner, weights=y, minlength=len(self.net))
+        whole = np.rint(cut)
+        if np.any(np.abs(cut - whole) > _INT_TOL):
+            return None
+        durations = tuple(int(d) for d in np.asarray(self.net.durations) - whole.astype(np.int64))
+        added = float(y @ self.cut_cost)
+        return Solution(durations, float(values @ self.lp._objective_vector()), added)
+
+    def solve(self, objective: Objective, *, target: int | None = None,
+              cap: float | None = None) -> Solution | None:
+        """Solve for ``objective`` with finish <= ``target`` and added cost <= ``cap``.
+
+        Returns ``None`` when no plan meets the target and cap. A fractional optimum
+        (not expected, see the module notes) is solved again with integer shortening.
+        """
+        result = self._run(objective, target, cap)
+        if result is None:
+            return None
+        sol = self._solution(result.values)
+        if sol is None:
+            self.lp.set_integer(self.cuts, True)
+            try:
+                result = self._run(objective, target, cap)
+            finally:
+                self.lp.set_integer(self.cuts, False)
+            sol = None if result is None else self._solution(result.values)
+        self._last = result
+        return sol
+
+    # -- the questions -----------------------------------------------------------------
+    def shortest_finish(self) -> int:
+        """The least finish any plan can reach (the LP's minimum, not a CPM pass at crash)."""
+        result = self._run(Objective.FINISH, None, None, aside=True)
+        if result is None:  # pragma: no cover - starts >= 0 always leave a solution
+            raise SolverError("the acceleration model has no solution at all")
+        return math.ceil(result.values[self.finish] - _INT_TOL)
+
+    def least_cost(self, target: int, *, tie_break: bool = True) -> Solution | None:
+        """Least added direct cost to finish by ``target``.
+
+        With ``tie_break``, among the plans of that least cost the one with the fewest
+        shortened activities, then the fewest crash days (see :meth:`_fewest_crashed`).
+        Returns ``None`` when ``target`` is below the shortest possible finish.
+        """
+        best = self.solve(Objective.COST, target=target)
+        if best is None or not tie_break or best.added_cost == 0:
+            return best
+        fewer = self._fewest_crashed(self._last, target)
+        if fewer is not None and fewer.added_cost <= best.added_cost + 1e-6 * max(1.0, best.added_cost):
+            return fewer
+        return best
+
+    def _fewest_crashed(self, result, target: int) -> Solution | None:
+        """Among the least-cost plans, the one shortening the fewest activities, then
+        the fewest days.
+
+        The least-cost plans form the optimal face of the LP: fix every column with a
+        non-zero reduced cost at its value and every row with a non-zero dual at its
+        bound (complementary slackness), and any plan left costs the least. Over that
+        face a small MILP counts shortened activities. Needs duals (HiGHS); returns
+        ``None`` when there is no choice to make or the solver gives no duals.
+        """
+        if result is None or result.col_dual is None:
+            return None
+        tol = 1e-7
+        free = np.abs(result.col_dual[self.cuts]) <= tol
+        if not free.any():
+            return None
+        values = result.values
+        cols = np.flatnonzero(np.abs(result.col_dual) > tol)
+        rows = np.flatnonzero(np.abs(result.row_dual) > tol)
+        lm = self.lp.copy()  # leave the live model and its warm start alone
+        rlow, rup = np.asarray(lm.row_lower)[rows], np.asarray(lm.row_upper)[rows]
+        act = result.row_values[rows]
+        at = np.where(np.abs(act - rlow) <= np.abs(act - rup), rlow, rup)
+        lm.set_cols_bounds(cols, values[cols], values[cols])
+        lm.set_rows_bounds(rows, at, at)
+        # one 0/1 column per activity free to change on the face: "it is shortened"
+        owners = np.unique(self.cut_owner[free])
+        room = np.bincount(self.cut_owner, weights=np.asarray(lm.col_upper)[self.cuts],
+                           minlength=len(self.net))[owners]
+        z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
+        rows_of = {int(o): [int(z[k])] for k, o in enumerate(owners)}
+        coef_of = {int(o): [-float(room[k])] for k, o in enumerate(owners)}
+        for col, owner in zip(self.cuts.tolist(), self.cut_owner.tolist()):
+            if owner in rows_of:
+                rows_of[owner].append(col)
+                coef_of[owner].append(1.0)
+        index = [c for o in owners.tolist() for c in rows_of[o]]
+        value = [v for o in owners.tolist() for v in coef_of[o]]
+        starts = np.concatenate([[0], np.cumsum([len(rows_of[o]) for o in owners.tolist()])[:-1]])
+        lm.add_rows(starts, index, value, -INF, 0.0)
+        lm.set_integer(self.cuts[free], True)
+        weight = float(room.sum()) + 1.0  # one activity more outweighs any number of days
+        lm.define_objective("fewest_crashed", np.concatenate([z, self.cuts]),
+                            np.concatenate([np.full(len(z), weight), np.ones(len(self.cuts))]))
+        lm.use_objective("fewest_crashed")
+        if lm.time_limit is None:
+            lm.time_limit = 10.0
+        out = lm.solve()
+        if out.values is None or out.status not in ("optimal", "stopped"):
+            return None
+        return self._solution(out.values[: self.lp.num_cols])
+
+    def earliest_finish_within(self, budget: float) -> int:
+        """The earliest whole-day finish whose least added cost is within ``budget``.
+
+        The least cost rises with every day taken off, so the LP's earliest finish under
+        the budget, rounded up to a whole day, is that finish.
+        """
+        result = self._run(Objective.FINISH, None, budget + 1e-9 * max(1.0, abs(budget)), aside=True)
+        if result is None:  # pragma: no cover - a zero budget allows the normal plan
+            raise SolverError("no plan within the budget")
+        return math.ceil(result.values[self.finish] - _INT_TOL)
