@@ -1,0 +1,302 @@
+"""The ``hasten`` command line. The only module that prints or exits.
+
+Each command is one call into the library plus rendering; every error hasten raises on
+purpose becomes a one-line message on standard error and exit code 2.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import sys
+import tempfile
+from contextlib import contextmanager
+from datetime import date
+from importlib import resources
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from . import render
+from .calendar import CalendarClock
+from .crashing import Study
+from .errors import HastenError, InputError
+from .formats import convert as convert_project
+from .formats import read_project, write_project
+from .network import schedule as cpm
+
+__all__ = ["app", "main"]
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Least-cost schedule acceleration for construction projects: CPM, the time-cost "
+         "curve, target plans, the best total-cost finish.",
+)
+
+ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook or .json file.")]
+JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
+LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds the solver may use.")]
+
+
+def _echo(text: str) -> None:
+    typer.echo(text)
+
+
+def _json(obj) -> None:
+    typer.echo(json.dumps(obj, indent=2, ensure_ascii=False))
+
+
+@contextmanager
+def _errors():
+    """Turn hasten's own errors into a message and exit code 2."""
+    try:
+        yield
+    except HastenError as exc:
+        typer.echo(f"error: {exc}", err=True)
+        raise typer.Exit(2) from None
+
+
+def _date(text: str, option: str) -> date:
+    try:
+        return date.fromisoformat(text)
+    except ValueError:
+        raise InputError(f"{option} {text!r} is not a date", fix="write it as YYYY-MM-DD, e.g. 2027-06-30") from None
+
+
+def _write_whole(path: Path, write) -> None:
+    """Write through a temporary file in the same folder, then move it into place."""
+    path = path.resolve()
+    fd, tmp = tempfile.mkstemp(prefix=".hasten-", suffix=path.suffix, dir=path.parent)
+    os.close(fd)
+    try:
+        write(tmp)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+
+
+def _progress(enabled: bool):
+    """A progress bar on a terminal for long traces; nothing otherwise."""
+    if not enabled or not sys.stderr.isatty():
+        return None, None
+    bar = typer.progressbar(length=1, label="tracing the curve", file=sys.stderr)
+    bar.__enter__()
+    state = {"done": 0}
+
+    def tick(done: int, total: int) -> None:
+        bar.length = total
+        bar.update(done - state["done"])
+        state["done"] = done
+
+    return tick, bar
+
+
+# -- commands ------------------------------------------------------------------------
+@app.command()
+def check(project: ProjectArg) -> None:
+    """Validate a project; prints what was found. Exit 0 when valid, 2 when not."""
+    with _errors():
+        p = read_project(project)
+        sched = cpm(p)
+        _echo(f"{project}: valid. {len(p.activities)} activities, {len(p.links)} links, "
+              f"{sum(1 for a in p.activities if a.max_shortening > 0)} can be shortened; "
+              f"normal finish {sched.finish} working days.")
+
+
+@app.command()
+def schedule(
+    project: ProjectArg,
+    as_json: JsonOpt = False,
+    out: Annotated[Optional[Path], typer.Option("--out", help="Also write the table to FILE.csv or FILE.xlsx.")] = None,
+    deadline: Annotated[Optional[str], typer.Option("--deadline", help="Backward pass from this date (YYYY-MM-DD) instead of the early finish; float may go negative.")] = None,
+) -> None:
+    """Forward and backward pass: dates, floats, critical paths."""
+    with _errors():
+        p = read_project(project)
+        clock = CalendarClock(p.calendar, p.start)
+        limit = None if deadline is None else clock.offset_of(_date(deadline, "--deadline"), finish=True)
+        sched = cpm(p, deadline=limit)
+        if out is not None:
+            _write_table(out, render.schedule_rows(p, sched, clock))
+        if as_json:
+            _json(render.schedule_json(p, sched, clock))
+        else:
+            _echo(render.schedule_text(p, sched, clock))
+
+
+def _write_table(out: Path, rows: list[dict]) -> None:
+    import pandas as pd
+
+    frame = pd.DataFrame(rows)
+    if "driving" in frame:
+        frame["driving"] = frame["driving"].map(lambda v: ";".join(v))
+    suffix = out.suffix.lower()
+    if suffix == ".csv":
+        _write_whole(out, lambda tmp: frame.to_csv(tmp, index=False, encoding="utf-8"))
+    elif suffix == ".xlsx":
+        _write_whole(out, lambda tmp: frame.to_excel(tmp, index=False, engine="openpyxl"))
+    else:
+        raise InputError(f"cannot write a table to {out.name!r}", column="--out", value=str(out),
+                         fix="name the output FILE.csv or FILE.xlsx")
+
+
+def _target(study: Study, finish: int | None, by: str | None, earlier: str | None) -> tuple[int, str]:
+    given = [x is not None for x in (finish, by, earlier)]
+    if sum(given) != 1:
+        raise HastenError("give exactly one target: --finish N (working days), --by YYYY-MM-DD, "
+                          "or --earlier 10d / 2w")
+    if finish is not None:
+        return finish, f"{finish} working days"
+    if by is not None:
+        return study.target_by_date(_date(by, "--by")), f"by {by}"
+    return study.target_earlier(earlier), f"{earlier} earlier"
+
+
+@app.command()
+def plan(
+    project: ProjectArg,
+    finish: Annotated[Optional[int], typer.Option("--finish", help="Target finish in working days from the start.")] = None,
+    by: Annotated[Optional[str], typer.Option("--by", help="Target finish date (last day worked), YYYY-MM-DD.")] = None,
+    earlier: Annotated[Optional[str], typer.Option("--earlier", help="Finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+) -> None:
+    """The least-cost plan to finish by a target."""
+    with _errors():
+        study = Study(read_project(project), time_limit=time_limit)
+        target, text = _target(study, finish, by, earlier)
+        try:
+            result = study.plan(target)
+        except HastenError as exc:
+            if getattr(exc, "shortest", None) is not None:
+                raise HastenError(f"target {text} ({target} working days) is below the shortest "
+                                  f"possible finish, {exc.shortest} working days "
+                                  f"({study.clock.project_finish_date(exc.shortest).isoformat()})") from None
+            raise
+        if as_json:
+            _json(render.plan_json(study, result))
+        else:
+            _echo(render.plan_text(study, result))
+
+
+@app.command()
+def curve(
+    project: ProjectArg,
+    longest: Annotated[Optional[int], typer.Option("--from", help="Longest finish to start the trace at (default: the normal finish).")] = None,
+    shortest: Annotated[Optional[int], typer.Option("--to", help="Shortest finish to trace to (default: the shortest possible).")] = None,
+    as_json: JsonOpt = False,
+    csv: Annotated[Optional[Path], typer.Option("--csv", help="Also write the points to FILE.csv.")] = None,
+    plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the curve to FILE.png.")] = None,
+    time_limit: LimitOpt = None,
+) -> None:
+    """The least-cost curve: added cost at every working day of compression."""
+    with _errors():
+        study = Study(read_project(project), time_limit=time_limit)
+        tick, bar = _progress(not as_json)
+        try:
+            points = study.curve(longest, shortest, progress=tick)
+        finally:
+            if bar is not None:
+                bar.__exit__(None, None, None)
+        if csv is not None:
+            _write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv,
+                         render.curve_rows(study, points))
+        if plot is not None:
+            from .charts import curve_chart
+
+            _write_whole(plot, lambda tmp: curve_chart(study, points, tmp))
+        if as_json:
+            _json(render.curve_json(study, points))
+        else:
+            _echo(render.curve_text(study, points))
+
+
+@app.command()
+def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+    """The finish with the least total cost: direct + indirect + damages - bonus."""
+    with _errors():
+        study = Study(read_project(project), time_limit=time_limit)
+        tick, bar = _progress(not as_json)
+        try:
+            result = study.best(progress=tick)
+        finally:
+            if bar is not None:
+                bar.__exit__(None, None, None)
+        if as_json:
+            _json(render.best_json(study, result))
+        else:
+            _echo(render.best_text(study, result))
+
+
+@app.command()
+def budget(
+    project: ProjectArg,
+    spend: Annotated[float, typer.Option("--spend", help="Most added direct cost you will spend.")],
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+) -> None:
+    """The earliest finish whose least added cost is within a budget."""
+    with _errors():
+        study = Study(read_project(project), time_limit=time_limit)
+        result = study.budget(spend)
+        if as_json:
+            _json(render.plan_json(study, result))
+        else:
+            _echo(render.plan_text(study, result, title=f"Earliest finish within {render.money(spend, study.project.currency)}"))
+
+
+@app.command()
+def convert(
+    source: Annotated[Path, typer.Argument(help="Project folder, .xlsx or .json to read.")],
+    target: Annotated[Path, typer.Argument(help="Folder, .xlsx or .json to write (must not exist).")],
+) -> None:
+    """Convert a project between its folder, workbook and JSON forms."""
+    with _errors():
+        convert_project(source, target)
+        _echo(f"wrote {target}")
+
+
+@app.command()
+def demo(
+    folder: Annotated[Optional[Path], typer.Argument(help="Where to write the demo project (default: a new folder here).")] = None,
+) -> None:
+    """Write the bundled demo project and run the main job on it."""
+    with _errors():
+        if folder is None:
+            folder = Path("hasten-demo")
+            k = 2
+            while folder.exists():
+                folder = Path(f"hasten-demo-{k}")
+                k += 1
+        if folder.exists() and any(folder.iterdir()):
+            raise HastenError(f"{folder} is not empty; give a new or empty folder for the demo")
+        folder.mkdir(parents=True, exist_ok=True)
+        source = resources.files("hasten") / "demo"
+        for item in source.iterdir():
+            if item.is_file() and not item.name.startswith((".", "_")):
+                with resources.as_file(item) as path:
+                    shutil.copyfile(path, folder / item.name)
+        p = read_project(folder)
+        study = Study(p)
+        clock = study.clock
+        _echo(f"Demo project written to {folder}/ (an invented job).")
+        _echo(render.schedule_text(p, study.normal, clock).split("\n\n")[0])
+        contract = p.contract.finish
+        if contract is not None and study.target_by_date(contract) < study.normal_finish:
+            target = max(study.target_by_date(contract), study.shortest_finish)
+            _echo("")
+            _echo(render.plan_text(study, study.plan(target), title="Least-cost plan to meet the contract finish"))
+        result = study.best()
+        b = result.best
+        _echo("")
+        _echo(f"Least total cost (direct + overhead + damages - bonus): finish at {b.finish} working days "
+              f"({b.finish_date.isoformat()}), total {render.money(b.total_cost, p.currency)}.")
+        _echo(f"Next: hasten best {folder}   |   hasten curve {folder}   |   hasten schedule {folder}")
+
+
+def main() -> None:  # pragma: no cover - the console script
+    app()

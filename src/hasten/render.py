@@ -1,0 +1,236 @@
+"""Turn results into what a person reads (text tables) or a program reads (JSON-ready
+dicts, table rows). Nothing here prints; the CLI does.
+"""
+
+from __future__ import annotations
+
+import math
+from datetime import date
+
+from tabulate import tabulate
+
+from .calendar import CalendarClock
+from .cautions import plan_cautions
+from .crashing import BestFinish, CurvePoint, Plan, Study
+from .model import Project
+from .network import Schedule
+
+__all__ = [
+    "money",
+    "schedule_rows",
+    "schedule_text",
+    "schedule_json",
+    "plan_text",
+    "plan_json",
+    "curve_text",
+    "curve_json",
+    "curve_rows",
+    "best_text",
+    "best_json",
+]
+
+
+def money(x: float, currency: str = "") -> str:
+    text = f"{x:,.0f}" if abs(x - round(x)) < 0.005 else f"{x:,.2f}"
+    return f"{text} {currency}".rstrip()
+
+
+def _r(x: float) -> float:
+    """Money for JSON: two decimals, no float noise."""
+    return round(x + 0.0, 2)
+
+
+def _d(day: date) -> str:
+    return day.isoformat()
+
+
+def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> list[dict]:
+    """One row per activity with offsets and the dates a person reads."""
+    acts = {a.id: a for a in project.activities}
+    rows = []
+    for r in sched.activities:
+        a = acts[r.id]
+        rows.append({
+            "id": r.id, "name": a.name, "trade": a.trade, "duration": r.duration,
+            "es": r.es, "ef": r.ef, "ls": r.ls, "lf": r.lf,
+            "early_start": _d(clock.start_date(r.es)), "early_finish": _d(clock.finish_date(r.es, r.ef)),
+            "late_start": _d(clock.start_date(r.ls)), "late_finish": _d(clock.finish_date(r.ls, r.lf)),
+            "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
+            "driving": list(r.driving),
+        })
+    return rows
+
+
+def schedule_text(project: Project, sched: Schedule, clock: CalendarClock) -> str:
+    rows = schedule_rows(project, sched, clock)
+    table = tabulate(
+        [[r["id"], r["name"], r["trade"], r["duration"], r["early_start"], r["early_finish"],
+          r["late_start"], r["late_finish"], r["total_float"], r["free_float"],
+          "yes" if r["critical"] else ""] for r in rows],
+        headers=["id", "name", "trade", "days", "early start", "early finish", "late start",
+                 "late finish", "total float", "free float", "critical"],
+        tablefmt="simple", disable_numparse=True)
+    lines = [f"{project.name}: {sched.finish} working days, "
+             f"{_d(clock.start_date(0))} to {_d(clock.project_finish_date(sched.finish))}",
+             "Dates are the first and last day worked; floats in working days.", "", table, ""]
+    lines += _paths(sched)
+    return "\n".join(lines)
+
+
+def _paths(sched: Schedule) -> list[str]:
+    out = []
+    for k, path in enumerate(sched.critical_paths, 1):
+        out.append(f"Critical path {k}: " + " -> ".join(path))
+    if sched.paths_truncated:
+        out.append(f"(only the first {len(sched.critical_paths)} critical paths are listed)")
+    return out
+
+
+def schedule_json(project: Project, sched: Schedule, clock: CalendarClock) -> dict:
+    return {
+        "project": project.name,
+        "start_date": _d(clock.start_date(0)),
+        "finish": sched.finish,
+        "finish_date": _d(clock.project_finish_date(sched.finish)),
+        "deadline": sched.deadline,
+        "critical_paths": [list(p) for p in sched.critical_paths],
+        "critical_paths_truncated": sched.paths_truncated,
+        "activities": schedule_rows(project, sched, clock),
+    }
+
+
+# -- plans ---------------------------------------------------------------------------
+def _finish_line(study: Study, label: str, finish: int) -> str:
+    return f"{label}: {finish} working days ({_d(study.clock.project_finish_date(finish))})"
+
+
+def _cautions(plan: Plan) -> list[str]:
+    return plan_cautions((a.name, a.trade, a.normal, a.duration) for a in plan.shortened)
+
+
+def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> str:
+    cur = study.project.currency
+    lines = [f"{title} for {study.project.name}",
+             _finish_line(study, "Current finish", plan.normal_finish),
+             _finish_line(study, "Target", plan.target),
+             _finish_line(study, "New finish", plan.finish)]
+    if not plan.shortened:
+        lines += ["No acceleration needed: the current plan already finishes by the target.",
+                  f"Added direct cost: {money(0, cur)}"]
+        return "\n".join(lines)
+    lines += [f"Added direct cost: {money(plan.added_cost, cur)} "
+              f"(direct cost {money(plan.normal_direct_cost, cur)} -> {money(plan.direct_cost, cur)})",
+              "",
+              tabulate([[a.id, a.name, a.trade, a.normal, a.duration, a.shortened_by,
+                         money(a.added_cost)] for a in plan.shortened],
+                       headers=["id", "name", "trade", "normal days", "new days", "shortened by",
+                                "added cost"], tablefmt="simple", disable_numparse=True),
+              "",
+              "By trade:",
+              tabulate([[t.trade, t.shortened_days, money(t.added_cost)] for t in plan.trades],
+                       headers=["trade", "days shortened", "added cost"], tablefmt="simple", disable_numparse=True),
+              ""]
+    lines += ["After acceleration:"] + _paths(plan.schedule)
+    if plan.next_day_cost is None:
+        lines.append("One more day: not possible, this is the shortest possible finish.")
+    else:
+        lines.append(f"One more day earlier would cost {money(plan.next_day_cost, cur)} more.")
+    cautions = _cautions(plan)
+    if cautions:
+        lines += ["", "Cautions:"] + [f"- {c}" for c in cautions]
+    return "\n".join(lines)
+
+
+def plan_json(study: Study, plan: Plan) -> dict:
+    clock = study.clock
+    return {
+        "project": study.project.name,
+        "currency": study.project.currency,
+        "target": plan.target,
+        "target_date": _d(clock.project_finish_date(plan.target)),
+        "finish": plan.finish,
+        "finish_date": _d(clock.project_finish_date(plan.finish)),
+        "normal_finish": plan.normal_finish,
+        "normal_finish_date": _d(clock.project_finish_date(plan.normal_finish)),
+        "added_cost": _r(plan.added_cost),
+        "direct_cost": _r(plan.direct_cost),
+        "next_day_cost": None if plan.next_day_cost is None else _r(plan.next_day_cost),
+        "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "normal": a.normal,
+                        "duration": a.duration, "shortened_by": a.shortened_by,
+                        "added_cost": _r(a.added_cost)} for a in plan.activities],
+        "trades": [{"trade": t.trade, "shortened_days": t.shortened_days,
+                    "added_cost": _r(t.added_cost)} for t in plan.trades],
+        "critical_paths": [list(p) for p in plan.schedule.critical_paths],
+        "cautions": _cautions(plan),
+    }
+
+
+# -- the curve -----------------------------------------------------------------------
+def _changes(p: CurvePoint) -> str:
+    return ", ".join(f"{i} {d:+d}" for i, d in p.changes)
+
+
+def curve_rows(study: Study, points: list[CurvePoint]) -> list[dict]:
+    return [{"finish": p.finish, "finish_date": _d(study.clock.project_finish_date(p.finish)),
+             "added_cost": _r(p.added_cost), "day_cost": _r(p.day_cost),
+             "changes": _changes(p)} for p in points]
+
+
+def curve_text(study: Study, points: list[CurvePoint]) -> str:
+    cur = study.project.currency
+    table = tabulate([[p.finish, _d(study.clock.project_finish_date(p.finish)), money(p.added_cost),
+                       money(p.day_cost), _changes(p)] for p in points],
+                     headers=["finish (days)", "finish date", "added cost", "cost of this day",
+                              "changes (days)"], tablefmt="simple", disable_numparse=True)
+    return "\n".join([f"Least-cost curve for {study.project.name} ({cur or 'money'}); "
+                      f"normal finish {study.normal_finish}, shortest possible {study.shortest_finish} "
+                      "working days", table])
+
+
+def curve_json(study: Study, points: list[CurvePoint]) -> dict:
+    return {"normal_finish": study.normal_finish, "shortest_finish": study.shortest_finish,
+            "points": [{"finish": p.finish, "added_cost": _r(p.added_cost), "day_cost": _r(p.day_cost),
+                        "changes": [{"id": i, "days": d} for i, d in p.changes]} for p in points]}
+
+
+# -- best total cost -----------------------------------------------------------------
+def best_text(study: Study, best: BestFinish, *, around: int = 5) -> str:
+    cur = study.project.currency
+    contract = study.project.contract
+    rows = list(best.table)
+    k = next(i for i, r in enumerate(rows) if r.finish == best.best.finish)
+    shown = rows[max(0, k - around): k + around + 1]
+    table = tabulate(
+        [[("* " if r.finish == best.best.finish else "  ") + str(r.finish), _d(r.finish_date),
+          money(r.added_cost), money(r.time.indirect), money(r.time.damages), money(r.time.bonus),
+          money(r.total_cost)] for r in shown],
+        headers=["finish (days)", "finish date", "added direct", "indirect", "damages", "bonus",
+                 "total cost"], tablefmt="simple", disable_numparse=True)
+    lines = [f"Least total cost for {study.project.name}",
+             _finish_line(study, "Current finish", study.normal_finish)]
+    if contract.finish:
+        lines.append(f"Contract finish: {_d(contract.finish)}; damages {money(contract.damages_per_day, cur)} "
+                     f"and bonus {money(contract.bonus_per_day, cur)} per calendar day")
+    lines += [f"Best finish: {best.best.finish} working days ({_d(best.best.finish_date)}), "
+              f"total cost {money(best.best.total_cost, cur)}",
+              "", table, "", plan_text(study, best.plan, title="Plan at the best finish")]
+    return "\n".join(lines)
+
+
+def best_json(study: Study, best: BestFinish) -> dict:
+    b = best.best
+
+    def row(r):
+        return {"finish": r.finish, "finish_date": _d(r.finish_date), "total_cost": _r(r.total_cost),
+                "direct_cost": _r(r.direct_cost), "added_cost": _r(r.added_cost),
+                "indirect_cost": _r(r.time.indirect), "damages": _r(r.time.damages),
+                "bonus": _r(r.time.bonus)}
+
+    out = row(b)
+    out["table"] = [row(r) for r in best.table]
+    out["plan"] = plan_json(study, best.plan)
+    return out
+
+
+def is_number(x: float) -> bool:  # pragma: no cover - tiny helper kept private to tables
+    return not math.isnan(x)
