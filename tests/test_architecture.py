@@ -1,0 +1,58 @@
+"""The direction of imports (DEVELOPERS.md, "Architecture"): the core never imports the
+CLI, file formats or printing, and PuLP / highspy are imported in one module only."""
+
+from __future__ import annotations
+
+import ast
+from pathlib import Path
+
+SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
+CORE = ["model", "errors", "calendar", "network", "solver", "optimise", "crashing", "checks", "costs",
+        "cautions"]
+EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
+
+
+def _imports(path: Path) -> set[str]:
+    names = set()
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Import):
+            names |= {a.name.split(".")[0] for a in node.names}
+        elif isinstance(node, ast.ImportFrom):
+            if node.level:  # relative: from .x import y / from . import x
+                if node.module:
+                    names.add(node.module.split(".")[0])
+                else:
+                    names |= {a.name for a in node.names}
+            elif node.module:
+                parts = node.module.split(".")
+                names.add(parts[1] if parts[0] == "hasten" and len(parts) > 1 else parts[0])
+    return names
+
+
+def test_core_never_imports_the_edges():
+    for name in CORE:
+        found = _imports(SRC / f"{name}.py") & EDGE
+        assert not found, f"{name}.py imports {sorted(found)}"
+
+
+def test_one_module_imports_the_solvers():
+    users = {p.relative_to(SRC).as_posix() for p in SRC.rglob("*.py") if _imports(p) & {"pulp", "highspy"}}
+    assert users == {"solver.py"}
+
+
+def test_only_the_cli_prints():
+    for path in SRC.rglob("*.py"):
+        if path.name == "cli.py":
+            continue
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        calls = [n for n in ast.walk(tree) if isinstance(n, ast.Call) and isinstance(n.func, ast.Name)
+                 and n.func.id in ("print", "exit")]
+        assert not calls, f"{path.relative_to(SRC)} prints or exits"
+
+
+def test_modules_declare_all():
+    for path in SRC.rglob("*.py"):
+        if path.name in ("__main__.py",) or (path.name == "__init__.py" and path.parent.name != "hasten"
+                                             and path.parent.name != "formats"):
+            continue
+        assert "__all__" in path.read_text(encoding="utf-8"), f"{path.relative_to(SRC)} has no __all__"

@@ -1,0 +1,295 @@
+"""What the user sees: the ``hasten`` commands run through typer's CliRunner.
+
+Reference values come from published examples (named beside each check); the demo and
+cases/ projects are invented and only show that the commands work on them.
+"""
+
+from __future__ import annotations
+
+import json
+from datetime import date, timedelta
+from pathlib import Path
+
+import pytest
+from typer.testing import CliRunner
+
+from conftest import load_json, make_project, project_from_example
+from hasten.cli import app
+from hasten.formats import read_project, write_project
+from hasten.model import Activity, Calendar, Contract, Link, LinkType
+
+runner = CliRunner()
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def run(*args: str):
+    return runner.invoke(app, [str(a) for a in args])
+
+
+@pytest.fixture()
+def ques10(tmp_path: Path) -> Path:
+    """Worked solution of a University of Mumbai construction-management exam question
+    (ques10.com), indirect cost 80 per day: optimum 18 days at total cost 5,620."""
+    folder = tmp_path / "ques10"
+    write_project(project_from_example(load_json("examples/ques10_indirect80.json"), indirect=80), folder)
+    return folder
+
+
+@pytest.fixture()
+def hendrickson(tmp_path: Path) -> Path:
+    """Hendrickson & Au, Project Management for Construction, ch. 10, nine-activity example."""
+    folder = tmp_path / "nine"
+    write_project(project_from_example(load_json("examples/hendrickson_9act_cpm.json")), folder)
+    return folder
+
+
+def test_schedule_table_and_json(hendrickson: Path):
+    # Hendrickson & Au, ch. 10 nine-activity example: 30 days, critical path A-C-F-I
+    # (from memory per the example file; the student worksheet there confirms it).
+    out = run("schedule", hendrickson)
+    assert out.exit_code == 0, out.output
+    assert "30 working days" in out.output
+    assert "Critical path 1: A -> C -> F -> I" in out.output
+    data = json.loads(run("schedule", hendrickson, "--json").output)
+    assert data["finish"] == 30
+    assert data["critical_paths"] == [["A", "C", "F", "I"]]
+    rows = {r["id"]: r for r in data["activities"]}
+    assert set(rows["I"]) >= {"id", "es", "ef", "ls", "lf", "total_float", "free_float", "critical"}
+    assert (rows["I"]["es"], rows["I"]["ef"]) == (24, 30)
+    # dates: day 0 is the project start (a Monday in the test helpers), five-day week
+    start = date.fromisoformat(data["start_date"])
+    assert data["finish_date"] == (start + timedelta(days=39)).isoformat()  # Friday of week 6
+
+
+def test_schedule_writes_csv_and_xlsx(hendrickson: Path, tmp_path: Path):
+    import pandas as pd
+
+    for name in ("cpm.csv", "cpm.xlsx"):
+        out = run("schedule", hendrickson, "--out", tmp_path / name)
+        assert out.exit_code == 0, out.output
+        frame = pd.read_csv(tmp_path / name) if name.endswith("csv") else pd.read_excel(tmp_path / name)
+        assert list(frame["id"]) == list("ABCDEFGHI")
+        assert int(frame.loc[frame["id"] == "I", "lf"].iloc[0]) == 30
+    bad = run("schedule", hendrickson, "--out", tmp_path / "cpm.txt")
+    assert bad.exit_code == 2 and "FILE.csv or FILE.xlsx" in bad.output
+
+
+def test_plan_finish_json(ques10: Path):
+    # ques10 worked solution: crash C by 1 and F by 4 to reach 18 days, added cost 280.
+    data = json.loads(run("plan", ques10, "--finish", 18, "--json").output)
+    assert data["finish"] == 18 and data["normal_finish"] == 23
+    assert data["added_cost"] == 280
+    assert data["direct_cost"] == 3900 + 280
+    cut = {a["id"]: a["shortened_by"] for a in data["activities"] if a["shortened_by"]}
+    assert cut == {"C": 1, "F": 4}
+    assert {t["trade"] for t in data["trades"]} == {"(no trade)"}
+    assert sum(t["added_cost"] for t in data["trades"]) == 280
+    # one more day (to 17) costs 420 - 280 in the same worked solution
+    assert data["next_day_cost"] == 140
+
+
+def test_plan_text_shows_table_trades_paths_and_cautions(ques10: Path):
+    out = run("plan", ques10, "--finish", 18)
+    assert out.exit_code == 0, out.output
+    for text in ("Current finish: 23 working days", "New finish: 18 working days", "Added direct cost: 280",
+                 "By trade:", "Critical path", "One more day earlier would cost 140 more", "Cautions:",
+                 "labour law"):
+        assert text in out.output
+
+
+def test_plan_below_shortest_is_a_clear_error(ques10: Path):
+    # ques10 worked solution: all-crash duration 12 days.
+    out = run("plan", ques10, "--finish", 11)
+    assert out.exit_code == 2
+    assert "shortest possible finish, 12 working days" in out.output
+    assert "Traceback" not in out.output
+
+
+def test_plan_at_or_after_current_finish_needs_nothing(ques10: Path):
+    out = run("plan", ques10, "--finish", 30)
+    assert out.exit_code == 0
+    assert "No acceleration needed" in out.output
+    data = json.loads(run("plan", ques10, "--finish", 23, "--json").output)
+    assert data["added_cost"] == 0 and all(a["shortened_by"] == 0 for a in data["activities"])
+
+
+def test_plan_needs_exactly_one_target(ques10: Path):
+    assert run("plan", ques10).exit_code == 2
+    assert run("plan", ques10, "--finish", 20, "--earlier", "2d").exit_code == 2
+    bad = run("plan", ques10, "--earlier", "two weeks")
+    assert bad.exit_code == 2 and "10d" in bad.output
+
+
+def _chain(tmp_path: Path, calendar: Calendar) -> Path:
+    acts = [Activity(f"A{i}", 20, crash_duration=10, cost=1000, crash_cost=2000) for i in range(3)]
+    links = [Link("A0", "A1"), Link("A1", "A2")]
+    folder = tmp_path / calendar.name
+    write_project(make_project(acts, links, calendar=calendar), folder)
+    return folder
+
+
+def test_earlier_two_weeks_counts_calendar_days(tmp_path: Path):
+    # Trade facts, section 5 (legaliq.com, "Calendar Day"): two weeks = 14 calendar days,
+    # which is 10 working days on a five-day week and 12 on a six-day week (no holidays).
+    five = _chain(tmp_path, Calendar((0, 1, 2, 3, 4), (), "mon-fri"))
+    six = _chain(tmp_path, Calendar((0, 1, 2, 3, 4, 5), (), "mon-sat"))
+    for folder, days in ((five, 10), (six, 12)):
+        data = json.loads(run("plan", folder, "--earlier", "2w", "--json").output)
+        assert data["normal_finish"] - data["finish"] == days
+        d10 = json.loads(run("plan", folder, "--earlier", "10d", "--json").output)
+        assert d10["normal_finish"] - d10["finish"] == 10
+
+
+def test_plan_by_date(ques10: Path):
+    start = date.fromisoformat(json.loads(run("schedule", ques10, "--json").output)["start_date"])
+    # working day 18 ends on the Wednesday of the fourth week (start is a Monday)
+    by = start + timedelta(days=3 * 7 + 2)
+    data = json.loads(run("plan", ques10, "--by", by.isoformat(), "--json").output)
+    assert data["finish"] == 18 and data["finish_date"] == by.isoformat()
+    bad = run("plan", ques10, "--by", "2027-13-01")
+    assert bad.exit_code == 2 and "YYYY-MM-DD" in bad.output
+
+
+def test_curve_json_csv_plot(ques10: Path, tmp_path: Path):
+    # ques10 worked solution, published stages: 22 days +40, 18 days +280, 17 days +420.
+    out = run("curve", ques10, "--json", "--csv", tmp_path / "c.csv", "--plot", tmp_path / "c.png")
+    assert out.exit_code == 0, out.output
+    points = {p["finish"]: p for p in json.loads(out.output)["points"]}
+    assert (points[22]["added_cost"], points[18]["added_cost"], points[17]["added_cost"]) == (40, 280, 420)
+    assert min(points) == 12 and max(points) == 23
+    assert points[22]["changes"] == [{"id": "C", "days": -1}]
+    assert points[17]["day_cost"] == 140
+    assert (tmp_path / "c.csv").read_text().startswith("finish,finish_date,added_cost,day_cost,changes")
+    assert (tmp_path / "c.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    part = json.loads(run("curve", ques10, "--from", 20, "--to", 18, "--json").output)
+    assert [p["finish"] for p in part["points"]] == [20, 19, 18]
+    assert part["points"][0]["day_cost"] == 60  # the day from 21 to 20 in the full curve
+
+
+def test_curve_text(ques10: Path):
+    out = run("curve", ques10)
+    assert out.exit_code == 0
+    assert "shortest possible 12 working days" in out.output
+    assert "C -1" in out.output
+
+
+def test_best_matches_published_optimum(ques10: Path):
+    # ques10 worked solution: optimum 18 days, total cost 5,620 (indirect 80 per day).
+    data = json.loads(run("best", ques10, "--json").output)
+    assert data["finish"] == 18 and data["total_cost"] == 5620
+    assert data["indirect_cost"] == 18 * 80 and data["damages"] == 0 and data["bonus"] == 0
+    assert data["direct_cost"] == 3900 + 280
+    text = run("best", ques10).output
+    assert "Best finish: 18 working days" in text and "* 18" in text
+
+
+def test_best_counts_damages_and_bonus(tmp_path: Path):
+    # A three-activity chain (invented, demo data) with damages and a capped bonus:
+    # only the bookkeeping is checked here, against time_costs recomputed by hand below.
+    acts = [Activity(f"A{i}", 10, crash_duration=5, cost=0, crash_cost=5 * 300) for i in range(3)]
+    links = [Link("A0", "A1"), Link("A1", "A2")]
+    p = make_project(acts, links, calendar=Calendar((0, 1, 2, 3, 4, 5, 6), (), "all-days"),
+                     contract=Contract(finish=date(2024, 1, 25), damages_per_day=1000, bonus_per_day=100,
+                                       bonus_cap_days=3))
+    write_project(p, tmp_path / "p")
+    data = json.loads(run("best", tmp_path / "p", "--json").output)
+    rows = {r["finish"]: r for r in data["table"]}
+    # all-days calendar from 2024-01-01: finish 30 -> last day 2024-01-30, 5 days late
+    assert rows[30]["damages"] == 5000 and rows[30]["bonus"] == 0
+    # finish 20 -> 2024-01-20, 5 days early, bonus capped at 3 days
+    assert rows[20]["bonus"] == 300 and rows[20]["added_cost"] == 10 * 300
+    # each day cut costs 300 and saves 1000 until the contract date (finish 25), then earns
+    # at most 100 for three days: the best is finish 25
+    assert data["finish"] == 25
+
+
+def test_budget(ques10: Path):
+    # ques10 worked solution: 280 buys 18 days; 279 only 19 days (curve point 220).
+    assert json.loads(run("budget", ques10, "--spend", 280, "--json").output)["finish"] == 18
+    assert json.loads(run("budget", ques10, "--spend", 279, "--json").output)["finish"] == 19
+    assert json.loads(run("budget", ques10, "--spend", 0, "--json").output)["finish"] == 23
+    assert json.loads(run("budget", ques10, "--spend", 10 ** 9, "--json").output)["finish"] == 12
+    assert run("budget", ques10, "--spend", -5).exit_code == 2
+
+
+def test_check_valid_and_invalid(ques10: Path, tmp_path: Path):
+    out = run("check", ques10)
+    assert out.exit_code == 0 and "valid" in out.output and "8 activities" in out.output
+    bad = tmp_path / "bad"
+    bad.mkdir()
+    (bad / "project.toml").write_text('name = "x"\nstart = 2027-01-04\ncalendar = "mon-fri"\n')
+    (bad / "activities.csv").write_text("id,duration,predecessors\nA,5,\nB,-2,A\n")
+    before = (bad / "activities.csv").read_bytes()
+    out = run("check", bad)
+    assert out.exit_code == 2
+    assert "activities.csv" in out.output and "row 3" in out.output and "duration" in out.output
+    assert "-2" in out.output and "Fix" in out.output and "Traceback" not in out.output
+    assert (bad / "activities.csv").read_bytes() == before
+
+
+def test_cycle_is_printed_as_ids(tmp_path: Path):
+    bad = tmp_path / "loop"
+    bad.mkdir()
+    (bad / "project.toml").write_text('name = "x"\nstart = 2027-01-04\ncalendar = "mon-fri"\n')
+    (bad / "activities.csv").write_text("id,duration,predecessors\nA,5,C\nB,2,A\nC,1,B\n")
+    out = run("schedule", bad)
+    assert out.exit_code == 2
+    assert "A -> B -> C -> A" in out.output or "B -> C -> A -> B" in out.output or "C -> A -> B -> C" in out.output
+
+
+def test_missing_project_is_a_clear_error(tmp_path: Path):
+    out = run("schedule", tmp_path / "nowhere")
+    assert out.exit_code == 2 and "nowhere" in out.output and "Traceback" not in out.output
+
+
+def test_convert_round_trip(ques10: Path, tmp_path: Path):
+    for target in ("p.xlsx", "p.json", "back"):
+        out = run("convert", ques10 if target == "p.xlsx" else tmp_path / "p.xlsx", tmp_path / target)
+        assert out.exit_code == 0, out.output
+    assert read_project(tmp_path / "back") == read_project(ques10)
+    assert read_project(tmp_path / "p.json") == read_project(ques10)
+    again = run("convert", ques10, tmp_path / "p.json")
+    assert again.exit_code == 2  # never overwrites
+
+
+def test_demo_writes_and_runs(tmp_path: Path):
+    out = run("demo", tmp_path / "demo")
+    assert out.exit_code == 0, out.output
+    assert (tmp_path / "demo" / "activities.csv").exists()
+    assert "invented" in out.output and "Least total cost" in out.output
+    assert read_project(tmp_path / "demo").name.endswith("(invented)")
+    assert run("demo", tmp_path / "demo").exit_code == 2  # not over an existing project
+
+
+@pytest.mark.parametrize("case", sorted(p.name for p in (ROOT / "cases").iterdir() if p.is_dir()))
+def test_cases_are_valid_and_plannable(case: str):
+    folder = ROOT / "cases" / case
+    assert run("check", folder).exit_code == 0
+    data = json.loads(run("best", folder, "--json").output)
+    assert data["plan"]["finish"] == data["finish"]
+    assert data["total_cost"] == pytest.approx(data["direct_cost"] + data["indirect_cost"] + data["damages"]
+                                               - data["bonus"])
+
+
+def test_python_dash_m(tmp_path: Path):
+    import subprocess
+    import sys
+
+    out = subprocess.run([sys.executable, "-m", "hasten", "--help"], capture_output=True, text=True)
+    assert out.returncode == 0 and "schedule" in out.stdout
+
+
+def test_readme_examples_run(tmp_path: Path, monkeypatch):
+    """Every ``$ hasten ...`` line in README.md runs, in a copy of cases/ (so nothing is
+    written into the working tree)."""
+    import shlex
+    import shutil
+
+    lines = [ln.strip()[2:] for ln in (ROOT / "README.md").read_text(encoding="utf-8").splitlines()
+             if ln.strip().startswith("$ hasten ")]
+    assert len(lines) >= 10, "README.md shows too few '$ hasten' examples"
+    shutil.copytree(ROOT / "cases", tmp_path / "cases")
+    monkeypatch.chdir(tmp_path)
+    for line in lines:
+        out = runner.invoke(app, shlex.split(line)[1:])
+        assert out.exit_code == 0, f"{line}\n{out.output}"
