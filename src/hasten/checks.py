@@ -13,9 +13,9 @@ from typing import Sequence
 import numpy as np
 
 from .errors import PlanCheckError
-from .model import Activity, LinkType, Project
+from .model import Activity, LinkType, Option, Project
 
-__all__ = ["activity_added_cost", "plan_added_cost", "check_plan", "PlanChecker"]
+__all__ = ["activity_added_cost", "option_added_cost", "plan_added_cost", "check_plan", "PlanChecker"]
 
 
 def activity_added_cost(act: Activity, cut: int) -> float:
@@ -34,9 +34,19 @@ def activity_added_cost(act: Activity, cut: int) -> float:
     return (crash_cost - act.cost) * cut / (act.duration - crash)
 
 
-def plan_added_cost(project: Project, durations: Sequence[int]) -> float:
-    """Added direct cost of running the activities for ``durations`` days."""
-    return sum(activity_added_cost(a, a.duration - d) for a, d in zip(project.activities, durations))
+def option_added_cost(option: Option, duration: int) -> float:
+    """Added cost of performing an activity by ``option`` in ``duration`` days."""
+    return option.added_cost + option.cost_per_day * (option.duration - duration)
+
+
+def plan_added_cost(project: Project, durations: Sequence[int],
+                    choices: Sequence[int] | None = None) -> float:
+    """Added direct cost of running the activities for ``durations`` days, each the normal
+    way (choice -1) or by the option of that index."""
+    if choices is None:
+        choices = [-1] * len(durations)
+    return sum(activity_added_cost(a, a.duration - d) if c < 0 else option_added_cost(a.options[c], d)
+               for a, d, c in zip(project.activities, durations, choices))
 
 
 def _link_arrays(project: Project):
@@ -57,12 +67,12 @@ class PlanChecker:
     def __init__(self, project: Project):
         self.project = project
         acts = project.activities
-        self.lo = np.fromiter((a.shortest for a in acts), dtype=np.int64, count=len(acts))
+        self.lo = np.fromiter((a.shortest_normal for a in acts), dtype=np.int64, count=len(acts))
         self.hi = np.fromiter((a.duration for a in acts), dtype=np.int64, count=len(acts))
         self.pred, self.succ, self.kind, self.lag = _link_arrays(project)
 
     def check(self, durations: Sequence[int], starts: Sequence[int], *, target: int | None = None,
-              claimed_cost: float | None = None) -> tuple[int, float]:
+              claimed_cost: float | None = None, choices: Sequence[int] | None = None) -> tuple[int, float]:
         """Check a plan; returns its finish in working days and its added cost,
         recomputed from the activity data, or raises :class:`PlanCheckError`."""
         acts = self.project.activities
@@ -75,10 +85,18 @@ class PlanChecker:
             k = int(bad[0])
             raise PlanCheckError(f"plan check: {acts[k].id} has a fractional duration or start ({d[k]}, {s[k]})")
         d, s = d.astype(np.int64), s.astype(np.int64)
-        bad = np.flatnonzero((d < self.lo) | (d > self.hi))
+        lo, hi = self.lo, self.hi
+        if choices is not None and any(c >= 0 for c in choices):
+            lo, hi = lo.copy(), hi.copy()
+            for k, c in enumerate(choices):
+                if c >= 0:
+                    if not 0 <= c < len(acts[k].options):
+                        raise PlanCheckError(f"plan check: {acts[k].id} has no option number {c}")
+                    lo[k], hi[k] = acts[k].options[c].shortest, acts[k].options[c].duration
+        bad = np.flatnonzero((d < lo) | (d > hi))
         if len(bad):
             k = int(bad[0])
-            raise PlanCheckError(f"plan check: {acts[k].id} duration {d[k]} is outside {self.lo[k]}..{self.hi[k]}")
+            raise PlanCheckError(f"plan check: {acts[k].id} duration {d[k]} is outside {lo[k]}..{hi[k]}")
         bad = np.flatnonzero(s < 0)
         if len(bad):
             raise PlanCheckError(f"plan check: {acts[int(bad[0])].id} starts before the project start")
@@ -95,7 +113,7 @@ class PlanChecker:
         finish = int(f.max()) if len(f) else 0
         if target is not None and finish > target:
             raise PlanCheckError(f"plan check: finish {finish} is after the target {target}")
-        cost = plan_added_cost(self.project, durations)
+        cost = plan_added_cost(self.project, durations, choices)
         if claimed_cost is not None and abs(cost - claimed_cost) > 1e-6 * max(1.0, abs(cost)):
             raise PlanCheckError(f"plan check: added cost recomputed as {cost:.2f}, "
                                  f"the optimiser claimed {claimed_cost:.2f}")
@@ -103,6 +121,8 @@ class PlanChecker:
 
 
 def check_plan(project: Project, durations: Sequence[int], starts: Sequence[int], *,
-               target: int | None = None, claimed_cost: float | None = None) -> tuple[int, float]:
+               target: int | None = None, claimed_cost: float | None = None,
+               choices: Sequence[int] | None = None) -> tuple[int, float]:
     """Check one plan of ``project`` (see :class:`PlanChecker`)."""
-    return PlanChecker(project).check(durations, starts, target=target, claimed_cost=claimed_cost)
+    return PlanChecker(project).check(durations, starts, target=target, claimed_cost=claimed_cost,
+                                      choices=choices)

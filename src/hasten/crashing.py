@@ -13,7 +13,7 @@ from datetime import date
 from typing import Callable, Sequence
 
 from .calendar import CalendarClock
-from .checks import PlanChecker, activity_added_cost
+from .checks import PlanChecker, activity_added_cost, option_added_cost
 from .costs import TimeCosts, time_costs
 from .errors import HastenError, InfeasibleTargetError
 from .model import Project
@@ -43,6 +43,7 @@ class ActivityChange:
     duration: int
     shortened_by: int
     added_cost: float
+    option: str = ""  # the discrete option used, "" for the normal way
 
 
 @dataclass(frozen=True)
@@ -65,20 +66,18 @@ class Plan:
     trades: tuple[TradeTotal, ...]
     schedule: Schedule  # early dates with the plan's durations
     next_day_cost: float | None  # least cost of finishing one more day earlier, None at the limit
+    proven: bool = True  # False: a time limit stopped the solver; best plan found so far
+    bound: float | None = None  # proven lower bound on the added cost, when not proven
+    gap: float | None = None  # relative gap between the plan and the bound, when not proven
 
     @property
     def direct_cost(self) -> float:
         return self.normal_direct_cost + self.added_cost
 
     @property
-    def shortened(self) -> tuple[ActivityChange, ...]:
-        return tuple(a for a in self.activities if a.shortened_by > 0)
-
-    @property
-    def lengthened(self) -> tuple[ActivityChange, ...]:
-        """Activities left longer than a shorter plan might suggest never appear: durations
-        never exceed normal. Kept for symmetry with ``shortened``."""
-        return tuple(a for a in self.activities if a.shortened_by < 0)
+    def changed(self) -> tuple[ActivityChange, ...]:
+        """Activities shortened or performed by a discrete option."""
+        return tuple(a for a in self.activities if a.shortened_by or a.option)
 
 
 @dataclass(frozen=True)
@@ -87,6 +86,9 @@ class CurvePoint:
     added_cost: float
     day_cost: float  # cost of this last day: added cost here less at one day later
     changes: tuple[tuple[str, int], ...]  # (activity id, change in days) from the point before
+    switches: tuple[tuple[str, str], ...] = ()  # (activity id, option now used; "" = normal)
+    proven: bool = True
+    gap: float | None = None
 
 
 @dataclass(frozen=True)
@@ -166,10 +168,15 @@ class Study:
         return self.clock.shift_calendar_days(self.normal_finish, n)
 
     # -- plans -------------------------------------------------------------------------
-    def _solve(self, target: int, *, tie_break: bool = True) -> Solution:
-        if target >= self.normal_finish:
+    @property
+    def discrete(self) -> bool:
+        """True when some activity has discrete options (the model is a MILP)."""
+        return any(a.options for a in self.project.activities)
+
+    def _solve(self, target: int, *, tie_break: bool = True, start=None) -> Solution:
+        if target >= self.normal_finish and not self.discrete:
             return Solution(tuple(self.network.durations), 0.0, 0.0)
-        sol = self.model.least_cost(target, tie_break=tie_break)
+        sol = self.model.least_cost(target, tie_break=tie_break, start=start)
         if sol is None:
             raise InfeasibleTargetError(target, self.shortest_finish)
         return sol
@@ -178,7 +185,8 @@ class Study:
         """Finish and added cost (recomputed from the activity data) of a solution that
         has passed the independent check on its early-start dates."""
         return self.checker.check(sol.durations, self.network.forward(sol.durations),
-                                  target=target, claimed_cost=sol.added_cost)
+                                  target=target, claimed_cost=sol.added_cost,
+                                  choices=sol.choices or None)
 
     def plan(self, target: int, *, next_day: bool = True) -> Plan:
         """The least-cost plan to finish by ``target`` working days."""
@@ -192,58 +200,76 @@ class Study:
             except InfeasibleTargetError:
                 pass  # this is the shortest possible finish
             else:
-                next_cost = self._checked(nxt, step - 1)[1] - cost
+                if nxt.proven:  # an unproven difference is no marginal cost
+                    next_cost = self._checked(nxt, step - 1)[1] - cost
         sched = schedule(self.network, sol.durations)
-        return self._plan(target, finish, sol.durations, cost, sched, next_cost)
+        return self._plan(target, finish, sol, cost, sched, next_cost)
 
-    def _plan(self, target: int, finish: int, durations: Sequence[int], added_cost: float,
+    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float,
               sched: Schedule, next_cost: float | None) -> Plan:
         changes = []
         trades: dict[str, list] = {}
-        for act, d in zip(self.project.activities, durations):
+        choices = sol.choices or (-1,) * len(sol.durations)
+        for act, d, c in zip(self.project.activities, sol.durations, choices):
             cut = act.duration - d
-            cost = activity_added_cost(act, cut)
-            changes.append(ActivityChange(act.id, act.name, act.trade, act.duration, d, cut, cost))
-            if cut:
+            if c < 0:
+                cost, way = activity_added_cost(act, cut), ""
+            else:
+                cost, way = option_added_cost(act.options[c], d), act.options[c].name
+            changes.append(ActivityChange(act.id, act.name, act.trade, act.duration, d, cut, cost, way))
+            if cut or way:
                 t = trades.setdefault(act.trade or "(no trade)", [0, 0.0])
                 t[0] += cut
                 t[1] += cost
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
-        return Plan(target, finish, self.normal_finish, added_cost,
-                    self.project.normal_direct_cost, tuple(changes), trade_rows, sched, next_cost)
+        return Plan(target, finish, self.normal_finish, added_cost, self.project.normal_direct_cost,
+                    tuple(changes), trade_rows, sched, next_cost, sol.proven, sol.bound, sol.gap)
 
     # -- the curve ---------------------------------------------------------------------
     def curve(self, longest: int | None = None, shortest: int | None = None,
               progress: Progress | None = None) -> list[CurvePoint]:
         """Least added cost at every whole working day from ``longest`` (default: the
-        normal finish) down to ``shortest`` (default: the shortest possible finish)."""
+        normal finish) down to ``shortest`` (default: the shortest possible finish).
+
+        Linear costs: traced downwards, each day re-solved warm from the last basis.
+        With discrete options (not convex): each day solved exactly as a MILP, traced
+        upwards so that each plan is a feasible start for the next day.
+        """
         hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
         lo = self.shortest_finish if shortest is None else shortest
         if lo > hi:
             raise HastenError(f"the curve range is empty: {lo} is after {hi}")
-        points: list[CurvePoint] = []
-        prev: Sequence[int] | None = None
-        prev_cost = 0.0
-        total = hi - lo + 1
-        for k, target in enumerate(range(hi, lo - 1, -1)):
-            sol = self._solve(target, tie_break=False)  # raises below the shortest finish
-            cost = self._checked(sol, target)[1]
-            if prev is None:
-                changes: tuple = ()
-                day_cost = 0.0
-                if target < self.normal_finish:
-                    before = self._solve(target + 1, tie_break=False)
-                    day_cost = cost - self._checked(before, target + 1)[1]
-            else:
-                changes = tuple((self.network.ids[i], d - p)
-                                for i, (d, p) in enumerate(zip(sol.durations, prev)) if d != p)
-                day_cost = cost - prev_cost
-            points.append(CurvePoint(target, cost, day_cost, changes))
-            prev, prev_cost = sol.durations, cost
+        top = hi + 1 if hi < self.normal_finish else hi  # one day more, for the first day's cost
+        targets = list(range(top, lo - 1, -1))
+        if self.discrete:
+            targets.reverse()
+        solved: dict[int, tuple[Solution, float]] = {}
+        start = None
+        for k, target in enumerate(targets):
+            sol = self._solve(target, tie_break=False, start=start)  # raises below the shortest
+            solved[target] = (sol, self._checked(sol, target)[1])
+            start = self.model.last_values if self.discrete else None
             if progress:
-                progress(k + 1, total)
+                progress(k + 1, len(targets))
+        ids = self.network.ids
+        points: list[CurvePoint] = []
+        for target in range(hi, lo - 1, -1):
+            sol, cost = solved[target]
+            before = solved.get(target + 1)
+            if before is None:
+                points.append(CurvePoint(target, cost, 0.0, (), (), sol.proven, sol.gap))
+                continue
+            prev, prev_cost = before
+            changes = tuple((ids[i], d - p) for i, (d, p) in enumerate(zip(sol.durations, prev.durations))
+                            if d != p)
+            switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
+                             enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
+            points.append(CurvePoint(target, cost, cost - prev_cost, changes, switches, sol.proven, sol.gap))
         return points
+
+    def _way(self, i: int, choice: int) -> str:
+        return "" if choice < 0 else self.project.activities[i].options[choice].name
 
     # -- total cost --------------------------------------------------------------------
     def total_cost_point(self, finish: int, added_cost: float) -> TotalCostPoint:

@@ -15,6 +15,7 @@ __all__ = [
     "LinkType",
     "Link",
     "CrashStep",
+    "Option",
     "Activity",
     "Calendar",
     "Costs",
@@ -65,6 +66,27 @@ class CrashStep:
 
 
 @dataclass(frozen=True)
+class Option:
+    """A discrete way to perform an activity (a second crew, a Saturday shift, a faster
+    material): its own duration and added direct cost, all or nothing.
+
+    ``crash_duration`` and ``cost_per_day`` optionally allow further linear shortening of
+    the option, down to ``crash_duration`` at ``cost_per_day`` per working day.
+    """
+
+    name: str
+    duration: int
+    added_cost: float
+    note: str = ""
+    crash_duration: int | None = None
+    cost_per_day: float = 0.0
+
+    @property
+    def shortest(self) -> int:
+        return self.duration if self.crash_duration is None else self.crash_duration
+
+
+@dataclass(frozen=True)
 class Activity:
     """One activity. ``crash_duration`` equal to ``duration`` means it cannot be shortened.
 
@@ -80,17 +102,29 @@ class Activity:
     cost: float = 0.0
     crash_cost: float | None = None
     steps: tuple[CrashStep, ...] = ()
+    options: tuple[Option, ...] = ()  # at most one is chosen, or none (normal)
 
     @property
-    def shortest(self) -> int:
-        """Shortest possible duration in working days."""
+    def shortest_normal(self) -> int:
+        """Shortest duration without a discrete option (crash steps or linear crashing)."""
         if self.steps:
             return self.duration - sum(s.days for s in self.steps)
         return self.duration if self.crash_duration is None else self.crash_duration
 
     @property
+    def shortest(self) -> int:
+        """Shortest possible duration in working days, over every option."""
+        return min([self.shortest_normal] + [o.shortest for o in self.options])
+
+    @property
+    def longest(self) -> int:
+        """Longest possible duration: normal, or a slower option."""
+        return max([self.duration] + [o.duration for o in self.options])
+
+    @property
     def max_shortening(self) -> int:
-        return self.duration - self.shortest
+        """Most working days the crash steps (not the options) can take off."""
+        return self.duration - self.shortest_normal
 
     @property
     def is_milestone(self) -> bool:

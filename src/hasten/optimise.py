@@ -56,6 +56,10 @@ class Solution:
     durations: tuple[int, ...]
     objective: float
     added_cost: float
+    choices: tuple[int, ...] = ()  # per activity: index of the chosen option, -1 for none
+    proven: bool = True  # False when a time limit stopped the solver first
+    bound: float | None = None  # proven lower bound on the objective when not proven
+    gap: float | None = None  # relative gap when not proven
 
 
 def _convex(network: Network) -> None:
@@ -96,27 +100,64 @@ class CrashModel:
         self.cut_owner = np.asarray(owner, dtype=np.int64)
         self.cut_cost = np.asarray(per_day, dtype=float)
         self.cuts = lm.add_columns(np.zeros(len(owner)), np.asarray(days, dtype=float))
+        self._option_columns(network)
         self._rows(network)
-        self.cost_cap = lm.add_row(self.cuts, self.cut_cost, -INF, INF)
-        lm.define_objective(Objective.COST.value, self.cuts, self.cut_cost)
+        cost_cols = np.concatenate([self.cuts, self.opt_x, self.opt_w])
+        cost_coef = np.concatenate([self.cut_cost, self.opt_cost, self.w_cost])
+        self.cost_cap = lm.add_row(cost_cols, cost_coef, -INF, INF)
+        lm.define_objective(Objective.COST.value, cost_cols, cost_coef)
         lm.define_objective(Objective.FINISH.value, [self.finish], [1.0])
         self._last = None
 
+    def _option_columns(self, net: Network) -> None:
+        """Discrete options: a 0/1 column ``x`` per option ("chosen") and, for an option
+        that can be shortened further, a column ``w`` for its extra days."""
+        owner, index, delta, cost = [], [], [], []
+        w_of, w_room, w_cost = [], [], []
+        for i, act in enumerate(net.project.activities):
+            for k, opt in enumerate(act.options):
+                owner.append(i)
+                index.append(k)
+                delta.append(act.duration - opt.duration)
+                cost.append(opt.added_cost)
+                if opt.shortest < opt.duration:
+                    w_of.append(len(owner) - 1)
+                    w_room.append(opt.duration - opt.shortest)
+                    w_cost.append(opt.cost_per_day)
+        lm = self.lp
+        self.opt_owner = np.asarray(owner, dtype=np.int64)
+        self.opt_index = np.asarray(index, dtype=np.int64)
+        self.opt_delta = np.asarray(delta, dtype=float)
+        self.opt_cost = np.asarray(cost, dtype=float)
+        self.opt_x = lm.add_columns(np.zeros(len(owner)), 1.0, integer=True)
+        self.w_of = np.asarray(w_of, dtype=np.int64)  # which option each w belongs to
+        self.w_room = np.asarray(w_room, dtype=float)
+        self.w_cost = np.asarray(w_cost, dtype=float)
+        self.opt_w = lm.add_columns(np.zeros(len(w_of)), self.w_room)
+
+    @property
+    def discrete(self) -> bool:
+        """True when the model has option columns (a MILP)."""
+        return len(self.opt_x) > 0
+
     def _rows(self, net: Network) -> None:
         n, lm = len(net), self.lp
-        # duration rows: f_i - s_i + sum_k y_ik = D_i
+        # duration rows: f_i - s_i + sum_k y_ik + sum_o (D_i - d_o) x_io + sum_o w_io = D_i
         per = np.bincount(self.cut_owner, minlength=n)
-        starts = np.concatenate([[0], np.cumsum(2 + per)[:-1]])
-        index = np.empty(int((2 + per).sum()), dtype=np.int64)
-        value = np.ones(len(index))
-        index[starts] = self.end
-        index[starts + 1] = self.start
-        value[starts + 1] = -1.0
-        order = np.argsort(self.cut_owner, kind="stable")
-        slot = np.repeat(starts + 2, per) + (np.arange(len(order)) - np.repeat(np.cumsum(per) - per, per))
-        index[slot] = self.cuts[order]
         durations = np.asarray(net.durations, dtype=float)
-        lm.add_rows(starts, index, value, durations, durations)
+        if not self.discrete:  # the common case, built without a Python loop
+            starts = np.concatenate([[0], np.cumsum(2 + per)[:-1]])
+            index = np.empty(int((2 + per).sum()), dtype=np.int64)
+            value = np.ones(len(index))
+            index[starts] = self.end
+            index[starts + 1] = self.start
+            value[starts + 1] = -1.0
+            order = np.argsort(self.cut_owner, kind="stable")
+            slot = np.repeat(starts + 2, per) + (np.arange(len(order)) - np.repeat(np.cumsum(per) - per, per))
+            index[slot] = self.cuts[order]
+            lm.add_rows(starts, index, value, durations, durations)
+        else:
+            self._duration_rows_with_options(net, durations)
         # links: later - earlier >= lag
         pred = np.asarray(net.pred, dtype=np.int64)
         succ = np.asarray(net.succ, dtype=np.int64)
@@ -140,50 +181,103 @@ class CrashModel:
         lm.add_rows(np.arange(0, 2 * len(free), 2), index, np.tile([1.0, -1.0], len(free)),
                     -INF, 0.0)
 
+    def _duration_rows_with_options(self, net: Network, durations: np.ndarray) -> None:
+        n, lm = len(net), self.lp
+        terms: list[list[tuple[int, float]]] = [[(int(self.end[i]), 1.0), (int(self.start[i]), -1.0)]
+                                                for i in range(n)]
+        for col, i in zip(self.cuts.tolist(), self.cut_owner.tolist()):
+            terms[i].append((col, 1.0))
+        for col, i, dl in zip(self.opt_x.tolist(), self.opt_owner.tolist(), self.opt_delta.tolist()):
+            terms[i].append((col, dl))
+        for col, o in zip(self.opt_w.tolist(), self.w_of.tolist()):
+            terms[int(self.opt_owner[o])].append((col, 1.0))
+        self._add_term_rows(terms, durations, durations)
+        # at most one option per activity; crash steps only without an option; an option's
+        # extra days only when it is chosen
+        choose, exclusive = [], []
+        room = np.bincount(self.cut_owner, weights=np.asarray(lm.col_upper)[self.cuts], minlength=n)
+        by_act: dict[int, list[int]] = {}
+        for col, i in zip(self.opt_x.tolist(), self.opt_owner.tolist()):
+            by_act.setdefault(i, []).append(col)
+        for i, cols in by_act.items():
+            if len(cols) > 1:
+                choose.append([(c, 1.0) for c in cols])
+            if room[i] > 0:
+                exclusive.append([(int(c), 1.0) for c, o in zip(self.cuts.tolist(), self.cut_owner.tolist())
+                                  if o == i] + [(c, float(room[i])) for c in cols])
+        self._add_term_rows(choose, -INF, 1.0)
+        self._add_term_rows(exclusive, -INF, [room[i] for i in by_act if room[i] > 0])
+        self._add_term_rows([[(int(w), 1.0), (int(self.opt_x[o]), -float(r))]
+                             for w, o, r in zip(self.opt_w, self.w_of, self.w_room)], -INF, 0.0)
+
+    def _add_term_rows(self, terms: list[list[tuple[int, float]]], lower, upper) -> None:
+        if not terms:
+            return
+        starts = np.concatenate([[0], np.cumsum([len(t) for t in terms])[:-1]])
+        index = [c for t in terms for c, _ in t]
+        value = [v for t in terms for _, v in t]
+        self.lp.add_rows(starts, index, value, lower, upper)
+
     # -- solving -----------------------------------------------------------------------
     def _run(self, objective: Objective, target: int | None, cap: float | None, *,
-             aside: bool = False):
+             aside: bool = False, start: np.ndarray | None = None):
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
-        least-cost questions that are asked over and over."""
+        least-cost questions that are asked over and over. ``start`` is a known feasible
+        solution to start a MILP from."""
         lm = self.lp.copy() if aside else self.lp
         lm.use_objective(objective.value)
         lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
         lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))
-        result = lm.solve()
+        result = lm.solve(start=start)
         if result.status == "infeasible":
             return None
-        if result.status != "optimal":
-            raise SolverError(f"the solver stopped before an optimum ({result.status})")
+        if result.values is None:
+            raise SolverError("the time limit ran out before any plan was found; "
+                              "allow more time with --time-limit")
         return result
 
-    def _solution(self, values: np.ndarray) -> Solution | None:
+    def _solution(self, values: np.ndarray, result=None) -> Solution | None:
+        """The solution in whole days, or ``None`` if it is fractional."""
+        n = len(self.net)
         y = values[self.cuts]
-        cut = np.bincount(self.cut_owner, weights=y, minlength=len(self.net))
+        x = values[self.opt_x]
+        w = values[self.opt_w]
+        cut = np.bincount(self.cut_owner, weights=y, minlength=n)
+        if self.discrete:
+            cut += np.bincount(self.opt_owner, weights=self.opt_delta * x, minlength=n)
+            cut += np.bincount(self.opt_owner[self.w_of], weights=w, minlength=n)
         whole = np.rint(cut)
-        if np.any(np.abs(cut - whole) > _INT_TOL):
+        if np.any(np.abs(cut - whole) > _INT_TOL) or np.any(np.abs(x - np.rint(x)) > _INT_TOL):
             return None
         durations = tuple(int(d) for d in np.asarray(self.net.durations) - whole.astype(np.int64))
-        added = float(y @ self.cut_cost)
-        return Solution(durations, float(values @ self.lp._objective_vector()), added)
+        choices = np.full(n, -1, dtype=np.int64)
+        chosen = np.flatnonzero(x > 0.5)
+        choices[self.opt_owner[chosen]] = self.opt_index[chosen]
+        added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
+        proven = result is None or result.status == "optimal"
+        return Solution(durations, float(values @ self.lp._objective_vector()), added,
+                        tuple(int(c) for c in choices), proven,
+                        None if proven else result.bound, None if proven else result.gap)
 
     def solve(self, objective: Objective, *, target: int | None = None,
-              cap: float | None = None) -> Solution | None:
+              cap: float | None = None, start: np.ndarray | None = None) -> Solution | None:
         """Solve for ``objective`` with finish <= ``target`` and added cost <= ``cap``.
 
         Returns ``None`` when no plan meets the target and cap. A fractional optimum
         (not expected, see the module notes) is solved again with integer shortening.
         """
-        result = self._run(objective, target, cap)
+        result = self._run(objective, target, cap, start=start)
         if result is None:
             return None
-        sol = self._solution(result.values)
+        sol = self._solution(result.values, result)
         if sol is None:
-            self.lp.set_integer(self.cuts, True)
+            shortening = np.concatenate([self.cuts, self.opt_w])
+            self.lp.set_integer(shortening, True)
             try:
                 result = self._run(objective, target, cap)
             finally:
-                self.lp.set_integer(self.cuts, False)
-            sol = None if result is None else self._solution(result.values)
+                self.lp.set_integer(shortening, False)
+            sol = None if result is None else self._solution(result.values, result)
         self._last = result
         return sol
 
@@ -193,16 +287,25 @@ class CrashModel:
         result = self._run(Objective.FINISH, None, None, aside=True)
         if result is None:  # pragma: no cover - starts >= 0 always leave a solution
             raise SolverError("the acceleration model has no solution at all")
+        if result.status != "optimal":
+            raise SolverError("the time limit ran out before the shortest possible finish was "
+                              "proven; allow more time with --time-limit")
         return math.ceil(result.values[self.finish] - _INT_TOL)
 
-    def least_cost(self, target: int, *, tie_break: bool = True) -> Solution | None:
+    @property
+    def last_values(self) -> np.ndarray | None:
+        """All column values of the last least-cost solve (a start for the next MILP)."""
+        return None if self._last is None else self._last.values
+
+    def least_cost(self, target: int, *, tie_break: bool = True,
+                   start: np.ndarray | None = None) -> Solution | None:
         """Least added direct cost to finish by ``target``.
 
         With ``tie_break``, among the plans of that least cost the one with the fewest
         shortened activities, then the fewest crash days (see :meth:`_fewest_crashed`).
         Returns ``None`` when ``target`` is below the shortest possible finish.
         """
-        best = self.solve(Objective.COST, target=target)
+        best = self.solve(Objective.COST, target=target, start=start)
         if best is None or not tie_break or best.added_cost == 0:
             return best
         fewer = self._fewest_crashed(self._last, target)
@@ -260,7 +363,7 @@ class CrashModel:
         out = lm.solve()
         if out.values is None or out.status not in ("optimal", "stopped"):
             return None
-        return self._solution(out.values[: self.lp.num_cols])
+        return self._solution(out.values[: self.lp.num_cols], out)
 
     def earliest_finish_within(self, budget: float) -> int:
         """The earliest whole-day finish whose least added cost is within ``budget``.

@@ -105,7 +105,7 @@ def _finish_line(study: Study, label: str, finish: int) -> str:
 
 
 def _cautions(plan: Plan) -> list[str]:
-    return plan_cautions((a.name, a.trade, a.normal, a.duration) for a in plan.shortened)
+    return plan_cautions((a.name, a.trade, a.normal, a.duration) for a in plan.changed)
 
 
 def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> str:
@@ -114,31 +114,46 @@ def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> st
              _finish_line(study, "Current finish", plan.normal_finish),
              _finish_line(study, "Target", plan.target),
              _finish_line(study, "New finish", plan.finish)]
-    if not plan.shortened:
+    lines += _proof(plan, cur)
+    if not plan.changed:
         lines += ["No acceleration needed: the current plan already finishes by the target.",
                   f"Added direct cost: {money(0, cur)}"]
         return "\n".join(lines)
+    with_options = any(a.option for a in plan.changed)
+    rows = [[a.id, a.name, a.trade] + ([a.option or "normal"] if with_options else [])
+            + [a.normal, a.duration, a.shortened_by, money(a.added_cost)] for a in plan.changed]
+    headers = (["id", "name", "trade"] + (["way"] if with_options else [])
+               + ["normal days", "new days", "shortened by", "added cost"])
     lines += [f"Added direct cost: {money(plan.added_cost, cur)} "
               f"(direct cost {money(plan.normal_direct_cost, cur)} -> {money(plan.direct_cost, cur)})",
               "",
-              tabulate([[a.id, a.name, a.trade, a.normal, a.duration, a.shortened_by,
-                         money(a.added_cost)] for a in plan.shortened],
-                       headers=["id", "name", "trade", "normal days", "new days", "shortened by",
-                                "added cost"], tablefmt="simple", disable_numparse=True),
+              tabulate(rows, headers=headers, tablefmt="simple", disable_numparse=True),
               "",
               "By trade:",
               tabulate([[t.trade, t.shortened_days, money(t.added_cost)] for t in plan.trades],
                        headers=["trade", "days shortened", "added cost"], tablefmt="simple", disable_numparse=True),
               ""]
     lines += ["After acceleration:"] + _paths(plan.schedule)
-    if plan.next_day_cost is None:
-        lines.append("One more day: not possible, this is the shortest possible finish.")
+    if plan.next_day_cost is None and not plan.proven:
+        lines.append("One more day: not priced, the solver was stopped by the time limit.")
+    elif plan.next_day_cost is None:
+        lines.append("One more day: not possible (or not proven in the time allowed).")
     else:
         lines.append(f"One more day earlier would cost {money(plan.next_day_cost, cur)} more.")
     cautions = _cautions(plan)
     if cautions:
         lines += ["", "Cautions:"] + [f"- {c}" for c in cautions]
     return "\n".join(lines)
+
+
+def _proof(plan: Plan, cur: str) -> list[str]:
+    """A plain statement when the plan is not proven optimal."""
+    if plan.proven:
+        return []
+    return [f"NOT PROVEN OPTIMAL: the time limit stopped the solver. This is the best plan found "
+            f"({money(plan.added_cost, cur)}); no plan can cost less than "
+            f"{money(plan.bound if plan.bound is not None else float('nan'), cur)} "
+            f"(gap {100 * (plan.gap or 0):.2f}%). Allow more time with --time-limit for a proof."]
 
 
 def plan_json(study: Study, plan: Plan) -> dict:
@@ -155,9 +170,13 @@ def plan_json(study: Study, plan: Plan) -> dict:
         "added_cost": _r(plan.added_cost),
         "direct_cost": _r(plan.direct_cost),
         "next_day_cost": None if plan.next_day_cost is None else _r(plan.next_day_cost),
+        "proven_optimal": plan.proven,
+        "lower_bound": None if plan.bound is None else _r(plan.bound),
+        "gap": plan.gap,
         "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "normal": a.normal,
                         "duration": a.duration, "shortened_by": a.shortened_by,
-                        "added_cost": _r(a.added_cost)} for a in plan.activities],
+                        "option": a.option or None, "added_cost": _r(a.added_cost)}
+                       for a in plan.activities],
         "trades": [{"trade": t.trade, "shortened_days": t.shortened_days,
                     "added_cost": _r(t.added_cost)} for t in plan.trades],
         "critical_paths": [list(p) for p in plan.schedule.critical_paths],
@@ -167,7 +186,9 @@ def plan_json(study: Study, plan: Plan) -> dict:
 
 # -- the curve -----------------------------------------------------------------------
 def _changes(p: CurvePoint) -> str:
-    return ", ".join(f"{i} {d:+d}" for i, d in p.changes)
+    text = [f"{i} {d:+d}" for i, d in p.changes]
+    text += [f"{i} now {way or 'normal'}" for i, way in p.switches]
+    return ", ".join(text) + ("" if p.proven else f" [not proven, gap {100 * (p.gap or 0):.1f}%]")
 
 
 def curve_rows(study: Study, points: list[CurvePoint]) -> list[dict]:
@@ -190,7 +211,9 @@ def curve_text(study: Study, points: list[CurvePoint]) -> str:
 def curve_json(study: Study, points: list[CurvePoint]) -> dict:
     return {"normal_finish": study.normal_finish, "shortest_finish": study.shortest_finish,
             "points": [{"finish": p.finish, "added_cost": _r(p.added_cost), "day_cost": _r(p.day_cost),
-                        "changes": [{"id": i, "days": d} for i, d in p.changes]} for p in points]}
+                        "changes": [{"id": i, "days": d} for i, d in p.changes],
+                        "switches": [{"id": i, "option": way or None} for i, way in p.switches],
+                        "proven_optimal": p.proven, "gap": p.gap} for p in points]}
 
 
 # -- best total cost -----------------------------------------------------------------

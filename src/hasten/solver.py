@@ -239,7 +239,8 @@ class LinearModel:
         return any(self.col_integer)
 
     # -- solving ------------------------------------------------------------------------
-    def solve(self) -> Result:
+    def solve(self, start: np.ndarray | None = None) -> Result:
+        """Solve. ``start``: a feasible solution to start a MILP from (HiGHS only)."""
         if self.objective is None:
             raise SolverError("no objective chosen")
         if self._backend is None:
@@ -247,6 +248,8 @@ class LinearModel:
         elif self._pending_cols or self._pending_rows:
             self._backend.add_structure(self, self._pending_cols, self._pending_rows)
         self._pending_cols = self._pending_rows = 0
+        if start is not None and self.is_mip:
+            self._backend.set_start(np.asarray(start, dtype=float))
         return self._backend.run()
 
 
@@ -299,6 +302,12 @@ class _HighsBackend:
     def set_row_bounds(self, row: int, lower: float, upper: float) -> None:
         inf = highspy.kHighsInf
         self.h.changeRowBounds(row, -inf if lower == -INF else lower, inf if upper == INF else upper)
+
+    def set_start(self, values: np.ndarray) -> None:
+        sol = highspy.HighsSolution()
+        sol.col_value = list(values)
+        sol.value_valid = True
+        self.h.setSolution(sol)
 
     def set_time_limit(self, seconds: float | None) -> None:
         self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
@@ -366,6 +375,9 @@ class _PulpBackend:
 
     def set_time_limit(self, seconds) -> None:
         pass
+
+    def set_start(self, values) -> None:
+        pass  # CBC through PuLP: warm starts are not passed on
 
     def set_rows_bounds(self, rows, lower, upper) -> None:
         pass

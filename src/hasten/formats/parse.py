@@ -21,12 +21,13 @@ from hasten.formats.cells import Where, number_value, text_value, whole_value
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
 from hasten.formats.settings import parse_settings
 from hasten.formats.tables import Row, Table, Tables
-from hasten.model import Activity, CrashStep, Link, LinkType, Project
+from hasten.model import Activity, CrashStep, Link, LinkType, Option, Project
 
 __all__ = [
     "ACTIVITY_COLUMNS",
     "LINK_COLUMNS",
     "STEP_COLUMNS",
+    "OPTION_COLUMNS",
     "parse_tables",
 ]
 
@@ -36,6 +37,8 @@ ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")
 STEP_COLUMNS = ("id", "days", "cost_per_day")
+OPTION_COLUMNS = ("id", "option", "duration", "added_cost", "note", "crash_duration", "cost_per_day")
+OPTION_REQUIRED = ("id", "option", "duration", "added_cost")
 _ID_FORBIDDEN = (";", ":", ",")
 _ID_WITH_LAG = re.compile(r"(.+?)\s*([+-]\s*\d+)")
 
@@ -57,6 +60,15 @@ class _LinkSpec:
     text: str
     pred_text: str
     succ_where: Where | None = None
+
+
+@dataclass(frozen=True)
+class _OptionRow:
+    """One discrete option and the row it came from."""
+
+    id: str
+    option: Option
+    where: Where
 
 
 @dataclass(frozen=True)
@@ -289,7 +301,7 @@ def _check_steps(row: _ActivityRow, steps: list[_StepRow]) -> None:
                 "step first, so it cannot take them in this order",
                 after.step.cost_per_day,
                 "sort the steps by cost per day, cheapest first, or model them as discrete "
-                "options (a later feature)")
+                "options (options table)")
     total = sum(s.step.days for s in steps)
     rows = ", ".join(str(s.where.row) for s in steps)
     if total > activity.duration:
@@ -319,12 +331,81 @@ def _with_steps(row: _ActivityRow, steps: list[_StepRow]) -> Activity:
     if steps:
         _check_steps(row, steps)
         return replace(activity, steps=tuple(s.step for s in steps))
-    if activity.crash_cost is None and activity.shortest < activity.duration:
+    if activity.crash_cost is None and activity.shortest_normal < activity.duration:
         raise row.where.at("crash_cost").error(
-            f"'{activity.id}' can be shortened to {activity.shortest} days but its crash cost "
+            f"'{activity.id}' can be shortened to {activity.shortest_normal} days but its crash cost "
             "is empty, so the cost of crashing is unknown", "",
             "write the total direct cost at crash duration, or give crash steps for it")
     return activity
+
+
+# ---------------------------------------------------------------- discrete options
+
+def _added_cost(text: str, where: Where) -> float:
+    """The added direct cost of an option; negative for a slower, cheaper method."""
+    return number_value(text, where, minimum=None)
+
+
+def _option(row: Row, table: Table) -> Option:
+    """One option from its row, with the checks that need only this row."""
+    name = _required(row, table, "option", text_value, "a name for this way of doing the work, "
+                     "e.g. 'second crew'")
+    duration = _required(row, table, "duration", whole_value,
+                         "the option's duration in whole working days")
+    added = _required(row, table, "added_cost", _added_cost,
+                      "the direct cost the option adds to the activity's cost (0 if none, "
+                      "negative if it saves money)")
+    crash = _optional(row, table, "crash_duration", whole_value)
+    per_day = _optional(row, table, "cost_per_day", number_value)
+    if crash is not None and crash > duration:
+        raise _cell(row, table, "crash_duration")[1].error(
+            f"the crash duration is longer than the option's duration ({duration})",
+            row.cells["crash_duration"],
+            f"write a crash duration of {duration} or less, or leave it empty")
+    if crash is not None and per_day is None:
+        raise _cell(row, table, "cost_per_day")[1].error(
+            "the option has a crash duration but no cost per day, so the cost of shortening "
+            "it is unknown", "", "write the added cost per working day saved, or leave "
+            "crash_duration empty")
+    if per_day is not None and crash is None:
+        raise _cell(row, table, "crash_duration")[1].error(
+            "the option has a cost per day but no crash duration, so it is unknown how far "
+            "it can be shortened", "", "write the shortest duration of the option, or leave "
+            "cost_per_day empty")
+    return Option(name=name, duration=duration, added_cost=added,
+                  note=_optional(row, table, "note", text_value, ""),
+                  crash_duration=crash, cost_per_day=0.0 if per_day is None else per_day)
+
+
+def _option_rows(table: Table | None, activities: Sequence[_ActivityRow]) -> dict[str, list[_OptionRow]]:
+    """Options grouped by activity id, each group in file order."""
+    if table is None or not table.rows:
+        return {}
+    _check_columns(table, OPTION_COLUMNS, OPTION_REQUIRED)
+    by_id = {r.activity.id: r for r in activities}
+    ids = list(by_id)
+    groups: dict[str, list[_OptionRow]] = {}
+    for row in table.rows:
+        ident = _required(row, table, "id", text_value, "the id of the activity")
+        where = _cell(row, table, "id")[1]
+        if ident not in by_id:
+            raise _unknown_id(ident, ids, where, ident, "activity")
+        owner = by_id[ident]
+        if owner.activity.is_milestone:
+            raise where.error(
+                f"'{ident}' is a milestone (duration 0 at {_place(owner.where)}), so it has no "
+                "other way of being done", ident,
+                "remove this option, or give the activity its normal duration")
+        option = _option(row, table)
+        group = groups.setdefault(ident, [])
+        for other in group:
+            if other.option.name == option.name:
+                raise _cell(row, table, "option")[1].error(
+                    f"the option '{option.name}' of '{ident}' is given twice: rows "
+                    f"{other.where.row} and {row.line}", option.name,
+                    "give each option of an activity its own name")
+        group.append(_OptionRow(ident, option, Where(table.source, row.line)))
+    return groups
 
 
 # ---------------------------------------------------------------- the whole project
@@ -336,7 +417,11 @@ def parse_tables(tables: Tables) -> Project:
     ids = [r.activity.id for r in rows]
     links = _resolve_links(_column_links(tables.activities) + _table_links(tables.links), ids)
     steps = _step_rows(tables.crash_steps, ids)
-    activities = tuple(_with_steps(r, steps.get(r.activity.id, [])) for r in rows)
+    options = _option_rows(tables.options, rows)
+    activities = tuple(
+        replace(_with_steps(r, steps.get(r.activity.id, [])),
+                options=tuple(o.option for o in options.get(r.activity.id, [])))
+        for r in rows)
     _check_acyclic(links)
     return Project(
         name=settings.name,
