@@ -14,6 +14,7 @@ import numpy as np
 
 from .errors import PlanCheckError
 from .model import Activity, LinkType, Option, Project
+from .status import DONE
 
 __all__ = ["activity_added_cost", "option_added_cost", "plan_added_cost", "check_plan", "PlanChecker"]
 
@@ -49,32 +50,65 @@ def plan_added_cost(project: Project, durations: Sequence[int],
                for a, d, c in zip(project.activities, durations, choices))
 
 
-def _link_arrays(project: Project):
-    """Link endpoints, kinds and lags as arrays, from the project's own link list."""
+def _link_arrays(project: Project, dropped=frozenset()):
+    """Link endpoints, kinds and lags as arrays, from the project's own link list less the
+    links that progress has overridden."""
     pos = {a.id: k for k, a in enumerate(project.activities)}
-    links = project.links
+    links = [k for e, k in enumerate(project.links) if e not in dropped]
     pred = np.fromiter((pos[k.pred] for k in links), dtype=np.int64, count=len(links))
     succ = np.fromiter((pos[k.succ] for k in links), dtype=np.int64, count=len(links))
     lag = np.fromiter((k.lag for k in links), dtype=np.int64, count=len(links))
     code = {LinkType.FS: 0, LinkType.SS: 1, LinkType.FF: 2, LinkType.SF: 3}
     kind = np.fromiter((code[k.type] for k in links), dtype=np.int64, count=len(links))
-    return pred, succ, kind, lag
+    return links, pred, succ, kind, lag
+
+
+def _step_cost(steps, cut: int) -> float:
+    total, left = 0.0, cut
+    for step in steps:
+        take = min(left, step.days)
+        total += take * step.cost_per_day
+        left -= take
+    return total
 
 
 class PlanChecker:
-    """Checks plans of one project; the project's link arrays are built once."""
+    """Checks plans of one network (a project with its progress applied).
 
-    def __init__(self, project: Project):
+    The plan is checked on the whole timeline: each activity's start (its actual start
+    when it has one) and finish; every link still in force must hold between them, work
+    not started may not start before the data date or its not-before date, finished work
+    must keep its actual dates, and the costs are recomputed from the activity data.
+    """
+
+    def __init__(self, network):
+        self.net = network
+        project = network.project
         self.project = project
-        acts = project.activities
-        self.lo = np.fromiter((a.shortest_normal for a in acts), dtype=np.int64, count=len(acts))
-        self.hi = np.fromiter((a.duration for a in acts), dtype=np.int64, count=len(acts))
-        self.pred, self.succ, self.kind, self.lag = _link_arrays(project)
+        self.lo = np.asarray(network.shortest, dtype=np.int64)
+        self.hi = np.asarray(network.durations, dtype=np.int64)
+        self.links, self.pred, self.succ, self.kind, self.lag = _link_arrays(project, network.status.dropped)
+        clock, status = network.clock, network.status
+        self.earliest = np.zeros(len(project.activities), dtype=np.int64)
+        for k, (a, st) in enumerate(zip(project.activities, status.activities)):
+            if a.not_before is not None:
+                self.earliest[k] = clock.offset_of(a.not_before, finish=False)
+            if status.data_offset is not None and st.state != DONE:
+                self.earliest[k] = max(self.earliest[k], status.data_offset)
+        self.done = np.array([st.state == DONE for st in status.activities], dtype=bool)
+        self.actual = np.array([-1 if st.start is None else st.start for st in status.activities],
+                               dtype=np.int64)
+        self.done_finish = np.array([st.release + st.duration if st.state == DONE else -1
+                                     for st in status.activities], dtype=np.int64)
 
     def check(self, durations: Sequence[int], starts: Sequence[int], *, target: int | None = None,
-              claimed_cost: float | None = None, choices: Sequence[int] | None = None) -> tuple[int, float]:
-        """Check a plan; returns its finish in working days and its added cost,
-        recomputed from the activity data, or raises :class:`PlanCheckError`."""
+              claimed_cost: float | None = None, choices: Sequence[int] | None = None,
+              claimed_penalty: float | None = None) -> tuple[int, float, float]:
+        """Check a plan given as durations and starts of the part still to schedule.
+
+        Returns its finish, its added direct cost and the damages of activities past
+        their own deadlines, all recomputed here, or raises :class:`PlanCheckError`.
+        """
         acts = self.project.activities
         if len(durations) != len(acts) or len(starts) != len(acts):
             raise PlanCheckError("plan check: the plan does not cover every activity")
@@ -85,44 +119,80 @@ class PlanChecker:
             k = int(bad[0])
             raise PlanCheckError(f"plan check: {acts[k].id} has a fractional duration or start ({d[k]}, {s[k]})")
         d, s = d.astype(np.int64), s.astype(np.int64)
-        lo, hi = self.lo, self.hi
-        if choices is not None and any(c >= 0 for c in choices):
-            lo, hi = lo.copy(), hi.copy()
+        options = self.net.options
+        lo, hi = self.lo.copy(), self.hi.copy()
+        if choices is not None:
             for k, c in enumerate(choices):
                 if c >= 0:
-                    if not 0 <= c < len(acts[k].options):
+                    if not 0 <= c < len(options[k]):
                         raise PlanCheckError(f"plan check: {acts[k].id} has no option number {c}")
-                    lo[k], hi[k] = acts[k].options[c].shortest, acts[k].options[c].duration
+                    lo[k], hi[k] = options[k][c].shortest, options[k][c].duration
+                else:
+                    lo[k] = self.hi[k] - sum(x.days for x in self.net.steps[k])
         bad = np.flatnonzero((d < lo) | (d > hi))
         if len(bad):
             k = int(bad[0])
             raise PlanCheckError(f"plan check: {acts[k].id} duration {d[k]} is outside {lo[k]}..{hi[k]}")
-        bad = np.flatnonzero(s < 0)
-        if len(bad):
-            raise PlanCheckError(f"plan check: {acts[int(bad[0])].id} starts before the project start")
-        pred, succ, kind = self.pred, self.succ, self.kind
         f = s + d
+        bad = np.flatnonzero(self.done & ((s != self.actual) | (f != self.done_finish)))
+        if len(bad):
+            raise PlanCheckError(f"plan check: finished {acts[int(bad[0])].id} moved from its actual dates")
+        bad = np.flatnonzero(~self.done & (s < self.earliest))
+        if len(bad):
+            raise PlanCheckError(f"plan check: {acts[int(bad[0])].id} starts before the data date "
+                                 "or its not-before date")
+        shown = np.where(self.actual >= 0, self.actual, s)  # an actual start stands
+        pred, succ, kind = self.pred, self.succ, self.kind
         # the successor's constrained end (start for FS/SS, finish for FF/SF) against the
         # predecessor's end (finish for FS/FF, start for SS/SF) plus the lag
-        later = np.where(kind <= 1, s[succ], f[succ])
-        earlier = np.where((kind == 0) | (kind == 2), f[pred], s[pred])
+        later = np.where(kind <= 1, shown[succ], f[succ])
+        earlier = np.where((kind == 0) | (kind == 2), f[pred], shown[pred])
         broken = np.flatnonzero(later < earlier + self.lag)
         if len(broken):
-            link = self.project.links[int(broken[0])]
+            link = self.links[int(broken[0])]
             raise PlanCheckError(f"plan check: link {link.pred} -> {link.succ} ({link.text()}) is broken")
         finish = int(f.max()) if len(f) else 0
         if target is not None and finish > target:
             raise PlanCheckError(f"plan check: finish {finish} is after the target {target}")
-        cost = plan_added_cost(self.project, durations, choices)
+        cost = sum(self.added_costs(d, choices))
         if claimed_cost is not None and abs(cost - claimed_cost) > 1e-6 * max(1.0, abs(cost)):
             raise PlanCheckError(f"plan check: added cost recomputed as {cost:.2f}, "
                                  f"the optimiser claimed {claimed_cost:.2f}")
-        return finish, cost
+        penalty = self.penalty(f)
+        if claimed_penalty is not None and penalty > claimed_penalty + 1e-6 * max(1.0, abs(penalty)):
+            raise PlanCheckError(f"plan check: damages recomputed as {penalty:.2f}, "
+                                 f"the optimiser claimed {claimed_penalty:.2f}")
+        return finish, cost, penalty
+
+    def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None) -> list[float]:
+        """Added direct cost of each activity: its option's cost, or its crash steps in order."""
+        out = []
+        for k, d in enumerate(durations):
+            c = -1 if not choices else choices[k]
+            if c >= 0:
+                out.append(option_added_cost(self.net.options[k][c], int(d)))
+            else:
+                out.append(_step_cost(self.net.steps[k], int(self.hi[k] - d)) if d < self.hi[k] else 0.0)
+        return out
+
+    def penalty(self, finishes) -> float:
+        """Damages of activities finishing after their own deadlines (per calendar day)."""
+        clock, total = self.net.clock, 0.0
+        for k, a in enumerate(self.project.activities):
+            if a.deadline is not None and a.damages_per_day:
+                late = (clock.project_finish_date(int(finishes[k])) - a.deadline).days
+                total += a.damages_per_day * max(0, late)
+        return total
 
 
-def check_plan(project: Project, durations: Sequence[int], starts: Sequence[int], *,
+def check_plan(network, durations: Sequence[int], starts: Sequence[int], *,
                target: int | None = None, claimed_cost: float | None = None,
-               choices: Sequence[int] | None = None) -> tuple[int, float]:
-    """Check one plan of ``project`` (see :class:`PlanChecker`)."""
-    return PlanChecker(project).check(durations, starts, target=target, claimed_cost=claimed_cost,
+               choices: Sequence[int] | None = None) -> tuple[int, float, float]:
+    """Check one plan (see :class:`PlanChecker`); ``network`` is a
+    :class:`hasten.network.Network` or a project."""
+    if isinstance(network, Project):
+        from .network import Network
+
+        network = Network(network)
+    return PlanChecker(network).check(durations, starts, target=target, claimed_cost=claimed_cost,
                                       choices=choices)

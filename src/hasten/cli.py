@@ -26,6 +26,7 @@ from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
 from .network import schedule as cpm
+from .recovery import recovery
 
 __all__ = ["app", "main"]
 
@@ -247,6 +248,23 @@ def budget(
             _json(render.plan_json(study, result))
         else:
             _echo(render.plan_text(study, result, title=f"Earliest finish within {render.money(spend, study.project.currency)}"))
+
+
+@app.command()
+def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+    """After a delay: do nothing, recover fully, or recover at the least total cost."""
+    with _errors():
+        study = Study(read_project(project), time_limit=time_limit)
+        tick, bar = _progress(not as_json)
+        try:
+            result = recovery(study, progress=tick)
+        finally:
+            if bar is not None:
+                bar.__exit__(None, None, None)
+        if as_json:
+            _json(render.recovery_json(study, result))
+        else:
+            _echo(render.recovery_text(study, result))
 
 
 @app.command()

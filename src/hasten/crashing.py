@@ -12,8 +12,7 @@ from dataclasses import dataclass
 from datetime import date
 from typing import Callable, Sequence
 
-from .calendar import CalendarClock
-from .checks import PlanChecker, activity_added_cost, option_added_cost
+from .checks import PlanChecker
 from .costs import TimeCosts, time_costs
 from .errors import HastenError, InfeasibleTargetError
 from .model import Project
@@ -69,6 +68,7 @@ class Plan:
     proven: bool = True  # False: a time limit stopped the solver; best plan found so far
     bound: float | None = None  # proven lower bound on the added cost, when not proven
     gap: float | None = None  # relative gap between the plan and the bound, when not proven
+    penalty: float = 0.0  # damages of interim milestones (own deadlines) in this plan
 
     @property
     def direct_cost(self) -> float:
@@ -89,6 +89,7 @@ class CurvePoint:
     switches: tuple[tuple[str, str], ...] = ()  # (activity id, option now used; "" = normal)
     proven: bool = True
     gap: float | None = None
+    penalty: float = 0.0  # damages of interim milestones at this finish
 
 
 @dataclass(frozen=True)
@@ -98,10 +99,11 @@ class TotalCostPoint:
     direct_cost: float
     added_cost: float
     time: TimeCosts
+    milestone_damages: float = 0.0  # damages of interim milestones past their own deadlines
 
     @property
     def total_cost(self) -> float:
-        return self.direct_cost + self.time.net
+        return self.direct_cost + self.time.net + self.milestone_damages
 
 
 @dataclass(frozen=True)
@@ -130,9 +132,9 @@ class Study:
     def __init__(self, project: Project, *, time_limit: float | None = None):
         self.project = project
         self.network = Network(project)
-        self.clock = CalendarClock(project.calendar, project.start)
+        self.clock = self.network.clock
         self.normal = schedule(self.network)
-        self.checker = PlanChecker(project)
+        self.checker = PlanChecker(self.network)
         self.time_limit = time_limit
         self._model: CrashModel | None = None
         self._shortest: int | None = None
@@ -170,53 +172,63 @@ class Study:
     # -- plans -------------------------------------------------------------------------
     @property
     def discrete(self) -> bool:
-        """True when some activity has discrete options (the model is a MILP)."""
-        return any(a.options for a in self.project.activities)
+        """True when some activity still to do has discrete options (the model is a MILP)."""
+        return any(self.network.options)
 
-    def _solve(self, target: int, *, tie_break: bool = True, start=None) -> Solution:
-        if target >= self.normal_finish and not self.discrete:
+    @property
+    def penalised(self) -> bool:
+        """True when an activity still to do has its own deadline and damages."""
+        return any(a.deadline is not None and a.damages_per_day and not fixed
+                   for a, fixed in zip(self.project.activities, self.network.fixed))
+
+    def _solve(self, target: int, *, tie_break: bool = True, start=None, strict: bool = False) -> Solution:
+        if target >= self.normal_finish and not (self.discrete or self.penalised):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
-        sol = self.model.least_cost(target, tie_break=tie_break, start=start)
+        target = min(target, self.normal_finish) if self.penalised else target
+        sol = self.model.least_cost(target, tie_break=tie_break, start=start, strict=strict)
         if sol is None:
+            if strict and target >= self.shortest_finish:
+                raise HastenError("no plan meets every interim milestone deadline by this finish")
             raise InfeasibleTargetError(target, self.shortest_finish)
         return sol
 
-    def _checked(self, sol: Solution, target: int) -> tuple[int, float]:
-        """Finish and added cost (recomputed from the activity data) of a solution that
-        has passed the independent check on its early-start dates."""
+    def _checked(self, sol: Solution, target: int) -> tuple[int, float, float]:
+        """Finish, added cost and damages of own deadlines (recomputed from the activity
+        data) of a solution that has passed the independent check on its early dates."""
         return self.checker.check(sol.durations, self.network.forward(sol.durations),
                                   target=target, claimed_cost=sol.added_cost,
-                                  choices=sol.choices or None)
+                                  choices=sol.choices or None, claimed_penalty=sol.penalty)
 
-    def plan(self, target: int, *, next_day: bool = True) -> Plan:
-        """The least-cost plan to finish by ``target`` working days."""
-        sol = self._solve(target)
-        finish, cost = self._checked(sol, target)
+    def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
+        """The least-cost plan to finish by ``target`` working days; with ``strict`` every
+        interim milestone must also meet its own deadline."""
+        sol = self._solve(target, strict=strict)
+        finish, cost, penalty = self._checked(sol, target)
         next_cost = None
         step = min(target, self.normal_finish)
         if next_day and step > 0:
             try:
-                nxt = self._solve(step - 1, tie_break=False)
-            except InfeasibleTargetError:
+                nxt = self._solve(step - 1, tie_break=False, strict=strict)
+            except HastenError:
                 pass  # this is the shortest possible finish
             else:
                 if nxt.proven:  # an unproven difference is no marginal cost
-                    next_cost = self._checked(nxt, step - 1)[1] - cost
+                    _, next_added, next_penalty = self._checked(nxt, step - 1)
+                    next_cost = next_added + next_penalty - cost - penalty
         sched = schedule(self.network, sol.durations)
-        return self._plan(target, finish, sol, cost, sched, next_cost)
+        return self._plan(target, finish, sol, cost, penalty, sched, next_cost)
 
-    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float,
+    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, penalty: float,
               sched: Schedule, next_cost: float | None) -> Plan:
         changes = []
         trades: dict[str, list] = {}
         choices = sol.choices or (-1,) * len(sol.durations)
-        for act, d, c in zip(self.project.activities, sol.durations, choices):
-            cut = act.duration - d
-            if c < 0:
-                cost, way = activity_added_cost(act, cut), ""
-            else:
-                cost, way = option_added_cost(act.options[c], d), act.options[c].name
-            changes.append(ActivityChange(act.id, act.name, act.trade, act.duration, d, cut, cost, way))
+        costs = self.checker.added_costs(sol.durations, sol.choices or None)
+        for act, normal, d, c, cost, options in zip(self.project.activities, self.network.durations,
+                                                    sol.durations, choices, costs, self.network.options):
+            cut = normal - d
+            way = options[c].name if c >= 0 else ""
+            changes.append(ActivityChange(act.id, act.name, act.trade, normal, d, cut, cost, way))
             if cut or way:
                 t = trades.setdefault(act.trade or "(no trade)", [0, 0.0])
                 t[0] += cut
@@ -224,7 +236,7 @@ class Study:
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
         return Plan(target, finish, self.normal_finish, added_cost, self.project.normal_direct_cost,
-                    tuple(changes), trade_rows, sched, next_cost, sol.proven, sol.bound, sol.gap)
+                    tuple(changes), trade_rows, sched, next_cost, sol.proven, sol.bound, sol.gap, penalty)
 
     # -- the curve ---------------------------------------------------------------------
     def curve(self, longest: int | None = None, shortest: int | None = None,
@@ -244,38 +256,39 @@ class Study:
         targets = list(range(top, lo - 1, -1))
         if self.discrete:
             targets.reverse()
-        solved: dict[int, tuple[Solution, float]] = {}
+        solved: dict[int, tuple[Solution, float, float]] = {}
         start = None
         for k, target in enumerate(targets):
             sol = self._solve(target, tie_break=False, start=start)  # raises below the shortest
-            solved[target] = (sol, self._checked(sol, target)[1])
+            solved[target] = (sol, *self._checked(sol, target)[1:])
             start = self.model.last_values if self.discrete else None
             if progress:
                 progress(k + 1, len(targets))
         ids = self.network.ids
         points: list[CurvePoint] = []
         for target in range(hi, lo - 1, -1):
-            sol, cost = solved[target]
+            sol, cost, penalty = solved[target]
             before = solved.get(target + 1)
             if before is None:
-                points.append(CurvePoint(target, cost, 0.0, (), (), sol.proven, sol.gap))
+                points.append(CurvePoint(target, cost, 0.0, (), (), sol.proven, sol.gap, penalty))
                 continue
-            prev, prev_cost = before
+            prev, prev_cost, prev_penalty = before
             changes = tuple((ids[i], d - p) for i, (d, p) in enumerate(zip(sol.durations, prev.durations))
                             if d != p)
             switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
                              enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
-            points.append(CurvePoint(target, cost, cost - prev_cost, changes, switches, sol.proven, sol.gap))
+            points.append(CurvePoint(target, cost, cost + penalty - prev_cost - prev_penalty, changes,
+                                     switches, sol.proven, sol.gap, penalty))
         return points
 
     def _way(self, i: int, choice: int) -> str:
         return "" if choice < 0 else self.project.activities[i].options[choice].name
 
     # -- total cost --------------------------------------------------------------------
-    def total_cost_point(self, finish: int, added_cost: float) -> TotalCostPoint:
+    def total_cost_point(self, finish: int, added_cost: float, penalty: float = 0.0) -> TotalCostPoint:
         return TotalCostPoint(finish, self.clock.project_finish_date(finish),
                               self.project.normal_direct_cost + added_cost, added_cost,
-                              time_costs(self.project, self.clock, finish))
+                              time_costs(self.project, self.clock, finish), penalty)
 
     def best(self, progress: Progress | None = None) -> BestFinish:
         """The finish with the least total cost (direct + indirect + damages - bonus).
@@ -283,7 +296,7 @@ class Study:
         Ties go to the later finish: the same money for less acceleration.
         """
         points = self.curve(progress=progress)
-        table = tuple(self.total_cost_point(p.finish, p.added_cost) for p in reversed(points))
+        table = tuple(self.total_cost_point(p.finish, p.added_cost, p.penalty) for p in reversed(points))
         best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
         return BestFinish(best, table, self.plan(best.finish))
 

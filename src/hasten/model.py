@@ -103,6 +103,15 @@ class Activity:
     crash_cost: float | None = None
     steps: tuple[CrashStep, ...] = ()
     options: tuple[Option, ...] = ()  # at most one is chosen, or none (normal)
+    # progress at the data date (see hasten.status)
+    actual_start: date | None = None
+    actual_finish: date | None = None  # the last day worked
+    remaining: int | None = None  # working days left; derived from percent_complete if absent
+    percent_complete: float | None = None
+    # dates and constraints
+    not_before: date | None = None  # start no earlier than this date (delivery, access)
+    deadline: date | None = None  # an interim milestone's own deadline (last day allowed)
+    damages_per_day: float = 0.0  # damages per calendar day the milestone is late
 
     @property
     def shortest_normal(self) -> int:
@@ -182,6 +191,7 @@ class Project:
     currency: str = ""
     costs: Costs = field(default_factory=Costs)
     contract: Contract = field(default_factory=Contract)
+    data_date: date | None = None  # [status] data_date: progress is reported up to this date
 
     def activity(self, activity_id: str) -> Activity:
         for a in self.activities:

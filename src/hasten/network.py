@@ -18,8 +18,10 @@ from graphlib import CycleError as _GraphCycle
 from graphlib import TopologicalSorter
 from typing import Sequence
 
+from .calendar import CalendarClock
 from .errors import CycleError
 from .model import LinkType, Project
+from .status import DONE, STARTED, WAITING, apply_status
 
 __all__ = [
     "Network",
@@ -45,43 +47,94 @@ class Network:
 
     def __init__(self, project: Project):
         self.project = project
-        self.ids: list[str] = [a.id for a in project.activities]
+        self.clock = CalendarClock(project.calendar, project.start)
+        self.status = apply_status(project, self.clock)
+        acts, states = project.activities, self.status.activities
+        self.ids: list[str] = [a.id for a in acts]
         self.index: dict[str, int] = {a: i for i, a in enumerate(self.ids)}
-        self.durations: list[int] = [a.duration for a in project.activities]
-        self.shortest: list[int] = [a.shortest for a in project.activities]
         n = len(self.ids)
         idx = self.index
-        self.pred: list[int] = [idx[k.pred] for k in project.links]
-        self.succ: list[int] = [idx[k.succ] for k in project.links]
-        self.kind: list[int] = [_KIND[k.type] for k in project.links]
-        self.lag: list[int] = [k.lag for k in project.links]
+        # what is left to schedule: durations at normal pace, crash steps, options
+        self.durations: list[int] = [s.duration for s in states]
+        self.steps = [s.steps for s in states]
+        self.options = [a.options if s.state == WAITING else () for a, s in zip(acts, states)]
+        self.shortest: list[int] = [min([d - sum(x.days for x in st)] + [o.shortest for o in opts])
+                                    for d, st, opts in zip(self.durations, self.steps, self.options)]
+        self.release: list[int] = [s.release for s in states]  # earliest start
+        self.fixed: list[bool] = [s.state == DONE for s in states]  # start fixed at release
+        self.finish_release: list[int] = [0] * n  # earliest finish, from links to fixed events
+        self.shown_start: list[int | None] = [s.start for s in states]  # actual start, if any
+        self._cycle_check(project, idx)
+        self.pred: list[int] = []
+        self.succ: list[int] = []
+        self.kind: list[int] = []
+        self.lag: list[int] = []
+        self.link_index: list[int] = []  # position of each link in project.links
+        for e, k in enumerate(project.links):
+            if e in self.status.dropped:
+                continue
+            i, j = idx[k.pred], idx[k.succ]
+            if not self._compile_link(k, i, j, states):
+                continue
+            self.pred.append(i)
+            self.succ.append(j)
+            self.kind.append(_KIND[k.type])
+            self.lag.append(k.lag)
+            self.link_index.append(e)
         self.in_links: list[list[int]] = [[] for _ in range(n)]
         self.out_links: list[list[int]] = [[] for _ in range(n)]
         for e, (i, j) in enumerate(zip(self.pred, self.succ)):
             self.out_links[i].append(e)
             self.in_links[j].append(e)
-        self.order: list[int] = self._topological_order()
 
-    def __len__(self) -> int:
-        return len(self.ids)
+    def _compile_link(self, link, i: int, j: int, states) -> bool:
+        """Keep a link between two schedulable events; a link whose predecessor event is
+        already fixed by progress becomes an earliest start or finish of the successor;
+        a link into an event already in the past is history. Returns True to keep it."""
+        si, sj = states[i].state, states[j].state
+        on_start = link.type in (LinkType.FS, LinkType.SS)
+        if sj == DONE or (sj == STARTED and on_start):
+            return False
+        from_finish = link.type in (LinkType.FS, LinkType.FF)
+        if si == DONE:
+            at = states[i].release + (states[i].duration if from_finish else 0)
+        elif si == STARTED and not from_finish:
+            at = states[i].start
+        else:
+            return True
+        if on_start:
+            self.release[j] = max(self.release[j], at + link.lag)
+        else:
+            self.finish_release[j] = max(self.finish_release[j], at + link.lag)
+        return False
 
-    def _topological_order(self) -> list[int]:
-        sorter = TopologicalSorter({j: [self.pred[e] for e in self.in_links[j]]
-                                    for j in range(len(self.ids))})
+    def _cycle_check(self, project: Project, idx: dict[str, int]) -> None:
+        preds: dict[int, list[int]] = {j: [] for j in range(len(idx))}
+        for k in project.links:
+            preds[idx[k.succ]].append(idx[k.pred])
         try:
-            return list(sorter.static_order())
+            self.order: list[int] = list(TopologicalSorter(preds).static_order())
         except _GraphCycle as exc:
             loop = exc.args[1][:-1]  # graphlib repeats the first node at the end
             raise CycleError([self.ids[i] for i in reversed(loop)]) from None
 
+    def __len__(self) -> int:
+        return len(self.ids)
+
     # -- the two passes ------------------------------------------------------------
     def forward(self, d: Sequence[int]) -> list[int]:
-        """Early starts for durations ``d``."""
+        """Early starts (of what is left to schedule) for durations ``d``."""
         es = [0] * len(self.ids)
         pred, kind, lag, in_links = self.pred, self.kind, self.lag, self.in_links
+        release, finish_release, fixed = self.release, self.finish_release, self.fixed
         for j in self.order:
-            best = 0
             dj = d[j]
+            if fixed[j]:
+                es[j] = release[j]
+                continue
+            best = release[j]
+            if finish_release[j] - dj > best:
+                best = finish_release[j] - dj
             for e in in_links[j]:
                 i = pred[e]
                 k = kind[e]
@@ -97,6 +150,12 @@ class Network:
                     best = b
             es[j] = best
         return es
+
+    def forward_finish(self, d: Sequence[int] | None = None) -> int:
+        """Finish of the early-start schedule (normal durations by default)."""
+        d = self.durations if d is None else d
+        es = self.forward(d)
+        return max((es[i] + d[i] for i in range(len(d))), default=0)
 
     def backward(self, d: Sequence[int], finish: int) -> list[int]:
         """Late starts for durations ``d`` when every activity must finish by ``finish``."""
@@ -147,6 +206,7 @@ class ActivityDates:
     free_float: int
     critical: bool
     driving: tuple[str, ...]  # predecessors whose links control the early start
+    state: str = WAITING  # progress at the data date: finished, started or not started
 
 
 @dataclass(frozen=True)
@@ -169,9 +229,7 @@ class Schedule:
 
 def early_finish(network: Network, durations: Sequence[int] | None = None) -> int:
     """Project finish (working days) of the early-start schedule, forward pass only."""
-    d = network.durations if durations is None else durations
-    es = network.forward(d)
-    return max((es[i] + d[i] for i in range(len(d))), default=0)
+    return network.forward_finish(durations)
 
 
 def schedule(project_or_network: Project | Network, durations: Sequence[int] | None = None,
@@ -191,7 +249,8 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     horizon = finish if deadline is None else deadline
     ls = net.backward(d, horizon)
     tf = [ls[i] - es[i] for i in range(n)]
-    least = min(tf, default=0)
+    live = [not f for f in net.fixed]  # finished work has no float and is never critical
+    least = min((t for t, a in zip(tf, live) if a), default=0)
 
     free = [finish - es[i] - d[i] for i in range(n)]
     driving: list[list[int]] = [[] for _ in range(n)]
@@ -202,13 +261,22 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
             free[i] = s
         if s == 0:
             driving[j].append(i)
-    critical = [t == least for t in tf]
+    critical = [t == least and a for t, a in zip(tf, live)]
     paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
-    acts = tuple(
-        ActivityDates(net.ids[i], d[i], es[i], es[i] + d[i], ls[i], ls[i] + d[i], tf[i], free[i],
-                      critical[i], tuple(net.ids[p] for p in driving[i]))
-        for i in range(n))
-    return Schedule(finish, acts, paths, deadline, truncated)
+    states = net.status.activities
+    rows = []
+    for i in range(n):
+        shown = net.shown_start[i]
+        start = es[i] if shown is None else shown
+        if net.fixed[i]:
+            rows.append(ActivityDates(net.ids[i], d[i], start, es[i] + d[i], start, es[i] + d[i], 0, 0,
+                                      False, (), states[i].state))
+            continue
+        late_start = ls[i] if shown is None else start
+        rows.append(ActivityDates(net.ids[i], d[i], start, es[i] + d[i], late_start, ls[i] + d[i], tf[i],
+                                  free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
+                                  states[i].state))
+    return Schedule(finish, tuple(rows), paths, deadline, truncated)
 
 
 def _critical_paths(net: Network, critical: list[bool], driving: list[list[int]],

@@ -57,14 +57,14 @@ class Solution:
     objective: float
     added_cost: float
     choices: tuple[int, ...] = ()  # per activity: index of the chosen option, -1 for none
+    penalty: float = 0.0  # damages of activities past their own deadlines, as solved
     proven: bool = True  # False when a time limit stopped the solver first
     bound: float | None = None  # proven lower bound on the objective when not proven
     gap: float | None = None  # relative gap when not proven
 
 
 def _convex(network: Network) -> None:
-    for act in network.project.activities:
-        steps = act.segments()
+    for act, steps in zip(network.project.activities, network.steps):
         for a, b in zip(steps, steps[1:]):
             if b.cost_per_day < a.cost_per_day:
                 raise HastenError(
@@ -88,12 +88,13 @@ class CrashModel:
         n = len(network)
         lm = LinearModel(solver=solver, time_limit=time_limit)
         self.lp = lm
-        self.start = lm.add_columns(np.zeros(n), INF)
-        self.end = lm.add_columns(np.zeros(n), INF)
+        release = np.asarray(network.release, dtype=float)
+        self.start = lm.add_columns(release, np.where(network.fixed, release, INF))
+        self.end = lm.add_columns(np.asarray(network.finish_release, dtype=float), INF)
         self.finish = int(lm.add_columns([0.0], INF)[0])
         owner, days, per_day = [], [], []
-        for i, act in enumerate(network.project.activities):
-            for step in act.segments():
+        for i, steps in enumerate(network.steps):
+            for step in steps:
                 owner.append(i)
                 days.append(step.days)
                 per_day.append(step.cost_per_day)
@@ -104,21 +105,24 @@ class CrashModel:
         self._rows(network)
         cost_cols = np.concatenate([self.cuts, self.opt_x, self.opt_w])
         cost_coef = np.concatenate([self.cut_cost, self.opt_cost, self.w_cost])
-        self.cost_cap = lm.add_row(cost_cols, cost_coef, -INF, INF)
-        lm.define_objective(Objective.COST.value, cost_cols, cost_coef)
+        self.cost_cap = lm.add_row(cost_cols, cost_coef, -INF, INF)  # acceleration spend only
+        self._penalty_columns(network)
+        lm.define_objective(Objective.COST.value, np.concatenate([cost_cols, self.late]),
+                            np.concatenate([cost_coef, self.late_cost]))
         lm.define_objective(Objective.FINISH.value, [self.finish], [1.0])
         self._last = None
+        self._strict = False
 
     def _option_columns(self, net: Network) -> None:
         """Discrete options: a 0/1 column ``x`` per option ("chosen") and, for an option
         that can be shortened further, a column ``w`` for its extra days."""
         owner, index, delta, cost = [], [], [], []
         w_of, w_room, w_cost = [], [], []
-        for i, act in enumerate(net.project.activities):
-            for k, opt in enumerate(act.options):
+        for i, options in enumerate(net.options):
+            for k, opt in enumerate(options):
                 owner.append(i)
                 index.append(k)
-                delta.append(act.duration - opt.duration)
+                delta.append(net.durations[i] - opt.duration)
                 cost.append(opt.added_cost)
                 if opt.shortest < opt.duration:
                     w_of.append(len(owner) - 1)
@@ -134,6 +138,42 @@ class CrashModel:
         self.w_room = np.asarray(w_room, dtype=float)
         self.w_cost = np.asarray(w_cost, dtype=float)
         self.opt_w = lm.add_columns(np.zeros(len(w_of)), self.w_room)
+
+    def _penalty_columns(self, net: Network) -> None:
+        """Damages of activities with a deadline (interim milestones): per calendar day late.
+
+        For a finish offset ``f`` the damages are ``g(f) = rate * max(0, calendar days from
+        the deadline to the finish date)``, a step function of ``f``. Column ``b_k`` in
+        [0, 1] stands for "late by at least k working days" and costs the k-th step
+        ``g(M + k) - g(M + k - 1)``; the row ``f - sum_k b_k <= M`` lets the finish pass the
+        deadline offset ``M`` only by paying. Steps that grow (or stay) make a convex
+        function and the LP is exact; otherwise (a weekend adds three calendar days at
+        once) the columns become 0/1 and must be taken in order.
+        """
+        clock, lm = net.clock, self.lp
+        horizon = self.horizon = max(net.forward_finish(), 1)
+        cols, costs, self.penalised = [], [], []
+        for i, act in enumerate(net.project.activities):
+            if act.deadline is None or not act.damages_per_day or net.fixed[i]:
+                continue
+            limit = clock.offset_of(act.deadline, finish=True)
+            if limit >= horizon:
+                continue
+            g = [act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
+                 for f in range(limit, horizon + 1)]
+            steps = np.diff(g)
+            b = lm.add_columns(np.zeros(len(steps)), 1.0)
+            lm.add_row(np.concatenate([[self.end[i]], b]), np.concatenate([[1.0], -np.ones(len(b))]),
+                       -INF, float(limit))
+            if np.any(np.diff(steps) < 0):
+                lm.set_integer(b, True)
+                for k in range(len(b) - 1):  # late by k+1 days only if late by k days
+                    lm.add_row([b[k + 1], b[k]], [1.0, -1.0], -INF, 0.0)
+            cols.append(b)
+            costs.append(steps)
+            self.penalised.append(i)
+        self.late = np.concatenate(cols) if cols else np.zeros(0, dtype=np.int64)
+        self.late_cost = np.concatenate(costs) if costs else np.zeros(0)
 
     @property
     def discrete(self) -> bool:
@@ -220,7 +260,7 @@ class CrashModel:
 
     # -- solving -----------------------------------------------------------------------
     def _run(self, objective: Objective, target: int | None, cap: float | None, *,
-             aside: bool = False, start: np.ndarray | None = None):
+             aside: bool = False, start: np.ndarray | None = None, strict: bool = False):
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
         least-cost questions that are asked over and over. ``start`` is a known feasible
         solution to start a MILP from."""
@@ -228,6 +268,9 @@ class CrashModel:
         lm.use_objective(objective.value)
         lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
         lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))
+        if len(self.late) and strict != self._strict:
+            lm.set_cols_bounds(self.late, 0.0, 0.0 if strict else 1.0)  # strict: no milestone late
+            self._strict = strict
         result = lm.solve(start=start)
         if result.status == "infeasible":
             return None
@@ -254,19 +297,20 @@ class CrashModel:
         chosen = np.flatnonzero(x > 0.5)
         choices[self.opt_owner[chosen]] = self.opt_index[chosen]
         added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
+        penalty = float(values[self.late] @ self.late_cost) if len(self.late) else 0.0
         proven = result is None or result.status == "optimal"
         return Solution(durations, float(values @ self.lp._objective_vector()), added,
-                        tuple(int(c) for c in choices), proven,
+                        tuple(int(c) for c in choices), penalty, proven,
                         None if proven else result.bound, None if proven else result.gap)
 
-    def solve(self, objective: Objective, *, target: int | None = None,
-              cap: float | None = None, start: np.ndarray | None = None) -> Solution | None:
+    def solve(self, objective: Objective, *, target: int | None = None, cap: float | None = None,
+              start: np.ndarray | None = None, strict: bool = False) -> Solution | None:
         """Solve for ``objective`` with finish <= ``target`` and added cost <= ``cap``.
 
         Returns ``None`` when no plan meets the target and cap. A fractional optimum
         (not expected, see the module notes) is solved again with integer shortening.
         """
-        result = self._run(objective, target, cap, start=start)
+        result = self._run(objective, target, cap, start=start, strict=strict)
         if result is None:
             return None
         sol = self._solution(result.values, result)
@@ -274,7 +318,7 @@ class CrashModel:
             shortening = np.concatenate([self.cuts, self.opt_w])
             self.lp.set_integer(shortening, True)
             try:
-                result = self._run(objective, target, cap)
+                result = self._run(objective, target, cap, strict=strict)
             finally:
                 self.lp.set_integer(shortening, False)
             sol = None if result is None else self._solution(result.values, result)
@@ -297,19 +341,21 @@ class CrashModel:
         """All column values of the last least-cost solve (a start for the next MILP)."""
         return None if self._last is None else self._last.values
 
-    def least_cost(self, target: int, *, tie_break: bool = True,
-                   start: np.ndarray | None = None) -> Solution | None:
+    def least_cost(self, target: int, *, tie_break: bool = True, start: np.ndarray | None = None,
+                   strict: bool = False) -> Solution | None:
         """Least added direct cost to finish by ``target``.
 
         With ``tie_break``, among the plans of that least cost the one with the fewest
         shortened activities, then the fewest crash days (see :meth:`_fewest_crashed`).
-        Returns ``None`` when ``target`` is below the shortest possible finish.
+        With ``strict`` no activity may pass its own deadline. Returns ``None`` when no
+        plan meets the target (and, if strict, every deadline).
         """
-        best = self.solve(Objective.COST, target=target, start=start)
-        if best is None or not tie_break or best.added_cost == 0:
+        best = self.solve(Objective.COST, target=target, start=start, strict=strict)
+        if best is None or not tie_break or best.added_cost == 0 or self.lp.is_mip:
             return best
         fewer = self._fewest_crashed(self._last, target)
-        if fewer is not None and fewer.added_cost <= best.added_cost + 1e-6 * max(1.0, best.added_cost):
+        total = best.added_cost + best.penalty
+        if fewer is not None and fewer.added_cost + fewer.penalty <= total + 1e-6 * max(1.0, abs(total)):
             return fewer
         return best
 

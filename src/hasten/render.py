@@ -27,6 +27,9 @@ __all__ = [
     "curve_rows",
     "best_text",
     "best_json",
+    "instructions",
+    "recovery_text",
+    "recovery_json",
 ]
 
 
@@ -257,3 +260,96 @@ def best_json(study: Study, best: BestFinish) -> dict:
 
 def is_number(x: float) -> bool:  # pragma: no cover - tiny helper kept private to tables
     return not math.isnan(x)
+
+
+# -- recovery ------------------------------------------------------------------------
+def instructions(plan: Plan | None, currency: str = "") -> list[str]:
+    """Per-trade instructions: "electrical: shorten 'Level 3 rough-in' by 4 working days at 7,200"."""
+    if plan is None:
+        return []
+    out = []
+    for a in sorted(plan.changed, key=lambda a: (a.trade or "(no trade)", a.id)):
+        what = f"'{a.name or a.id}' ({a.id})"
+        if a.option:
+            how = f"use '{a.option}'" + (f" and shorten by {a.shortened_by} working days" if a.shortened_by > 0 else "")
+        elif a.shortened_by > 0:
+            how = f"shorten by {a.shortened_by} working day{'s' if a.shortened_by != 1 else ''}"
+        else:
+            how = f"lengthen by {-a.shortened_by} working days"
+        verb, rest = how.split(" ", 1)
+        out.append(f"{a.trade or '(no trade)'}: {verb} {what} {rest} at {money(a.added_cost, currency)}")
+    return out
+
+
+def _course_row(c, cur: str) -> list[str]:
+    if not c.possible:
+        return [c.label, "not possible", "", "", "", "", "", ""]
+    return [c.label, f"{c.finish} ({_d(c.finish_date)})", money(c.acceleration_cost),
+            money(c.contract_damages + c.milestone_damages), money(c.damages_avoided),
+            money(c.indirect_saved), money(c.bonus_gained), money(c.net_effect)]
+
+
+def recovery_text(study: Study, rec) -> str:
+    cur = study.project.currency
+    lines = [f"Recovery for {study.project.name}"]
+    if rec.data_date:
+        lines.append(f"Data date: {_d(rec.data_date)}")
+    lines.append(f"Forecast finish: {rec.forecast_finish} working days ({_d(rec.forecast_date)})")
+    if rec.contract_finish:
+        state = (f"{rec.days_late} calendar day{'' if rec.days_late == 1 else 's'} late" if rec.days_late else "on time")
+        lines.append(f"Contract finish: {_d(rec.contract_finish)}: forecast {state}")
+    for m in rec.milestones:
+        state = f"{m.days_late} calendar day{'' if m.days_late == 1 else 's'} late, damages {money(m.damages, cur)}" if m.days_late else "on time"
+        lines.append(f"Milestone {m.id} {m.name}: deadline {_d(m.deadline)}, forecast {_d(m.forecast)}: {state}")
+    for w in rec.warnings:
+        lines.append(f"Warning: {w}")
+    lines += ["", tabulate([_course_row(c, cur) for c in rec.courses],
+                           headers=["course", "finish (days, date)", "acceleration", "damages",
+                                    "damages avoided", "indirect saved", "bonus gained", "net effect"],
+                           tablefmt="simple", disable_numparse=True),
+              "Net effect = damages avoided + indirect saved + bonus gained - acceleration cost, "
+              "against doing nothing; positive saves money."]
+    for c in rec.courses:
+        if not c.possible:
+            lines += ["", f"{c.label}: {c.note}."]
+        elif c.plan is not None and c.plan.changed:
+            lines += ["", f"{c.label} ({c.note}):"] + [f"- {t}" for t in instructions(c.plan, cur)]
+            if not c.plan.proven:
+                lines += _proof(c.plan, cur)
+    plans = [c.plan for c in rec.courses if c.plan is not None and c.plan.changed]
+    cautions = []
+    for p in plans:
+        for text in _cautions(p):
+            if text not in cautions:
+                cautions.append(text)
+    if cautions:
+        lines += ["", "Cautions:"] + [f"- {c}" for c in cautions]
+    return "\n".join(lines)
+
+
+def recovery_json(study: Study, rec) -> dict:
+    def course(c):
+        out = {"course": c.label, "possible": c.possible, "note": c.note}
+        if c.possible:
+            out.update({"finish": c.finish, "finish_date": _d(c.finish_date),
+                        "acceleration_cost": _r(c.acceleration_cost), "contract_damages": _r(c.contract_damages),
+                        "milestone_damages": _r(c.milestone_damages), "indirect_cost": _r(c.indirect),
+                        "bonus": _r(c.bonus), "damages_avoided": _r(c.damages_avoided),
+                        "indirect_saved": _r(c.indirect_saved), "bonus_gained": _r(c.bonus_gained),
+                        "net_effect": _r(c.net_effect), "total_cost": _r(c.total_cost),
+                        "instructions": instructions(c.plan, study.project.currency),
+                        "plan": None if c.plan is None else plan_json(study, c.plan)})
+        return out
+
+    return {
+        "project": study.project.name,
+        "data_date": None if rec.data_date is None else _d(rec.data_date),
+        "forecast_finish": rec.forecast_finish,
+        "forecast_finish_date": _d(rec.forecast_date),
+        "contract_finish": None if rec.contract_finish is None else _d(rec.contract_finish),
+        "days_late": rec.days_late,
+        "milestones": [{"id": m.id, "name": m.name, "deadline": _d(m.deadline), "forecast": _d(m.forecast),
+                        "days_late": m.days_late, "damages": _r(m.damages)} for m in rec.milestones],
+        "courses": [course(c) for c in rec.courses],
+        "warnings": list(rec.warnings),
+    }

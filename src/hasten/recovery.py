@@ -1,0 +1,120 @@
+"""The recovery question: the job is late at its data date; what is it worth to recover?
+
+Three courses side by side, each priced against doing nothing:
+
+- do nothing: the forecast with progress applied; pay the damages;
+- recover fully: the least-cost plan that meets the contract finish and every interim
+  milestone deadline (if any plan can);
+- least total cost: the finish and plan with the least direct + indirect + damages - bonus,
+  which may recover only part of the delay.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from datetime import date
+
+from .crashing import Plan, Study, TotalCostPoint
+from .errors import HastenError
+
+__all__ = ["MilestoneForecast", "Course", "Recovery", "recovery"]
+
+
+@dataclass(frozen=True)
+class MilestoneForecast:
+    id: str
+    name: str
+    deadline: date
+    forecast: date
+    days_late: int  # calendar days; 0 when on time
+    damages: float
+
+
+@dataclass(frozen=True)
+class Course:
+    """One course of action, priced against doing nothing."""
+
+    label: str
+    possible: bool
+    finish: int | None
+    finish_date: date | None
+    acceleration_cost: float
+    contract_damages: float
+    milestone_damages: float
+    indirect: float
+    bonus: float
+    damages_avoided: float
+    indirect_saved: float
+    bonus_gained: float
+    plan: Plan | None
+    note: str = ""
+
+    @property
+    def net_effect(self) -> float:
+        """Money saved (positive) or lost against doing nothing."""
+        return self.damages_avoided + self.indirect_saved + self.bonus_gained - self.acceleration_cost
+
+    @property
+    def total_cost(self) -> float:
+        return self.acceleration_cost + self.contract_damages + self.milestone_damages + self.indirect - self.bonus
+
+
+@dataclass(frozen=True)
+class Recovery:
+    data_date: date | None
+    forecast_finish: int
+    forecast_date: date
+    contract_finish: date | None
+    days_late: int  # calendar days past the contract finish (0 when on time)
+    milestones: tuple[MilestoneForecast, ...]
+    courses: tuple[Course, ...]
+    warnings: tuple[str, ...]
+
+
+def _course(study: Study, label: str, point: TotalCostPoint, plan: Plan | None, base: TotalCostPoint,
+            note: str = "") -> Course:
+    t = point.time
+    damages = t.damages + point.milestone_damages
+    base_damages = base.time.damages + base.milestone_damages
+    return Course(label, True, point.finish, point.finish_date, point.added_cost, t.damages,
+                  point.milestone_damages, t.indirect, t.bonus, base_damages - damages,
+                  base.time.indirect - t.indirect, t.bonus - base.time.bonus, plan, note)
+
+
+def recovery(study: Study, progress=None) -> Recovery:
+    """Price the three courses for a project with its progress applied."""
+    project, clock, net = study.project, study.clock, study.network
+    normal = study.normal
+    finishes = [a.ef for a in normal.activities]
+    milestones = []
+    for a, f in zip(project.activities, finishes):
+        if a.deadline is None:
+            continue
+        forecast = clock.project_finish_date(f)
+        late = max(0, (forecast - a.deadline).days)
+        milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
+    base = study.total_cost_point(study.normal_finish, 0.0, study.checker.penalty(finishes))
+    courses = [Course("do nothing", True, base.finish, base.finish_date, 0.0, base.time.damages,
+                      base.milestone_damages, base.time.indirect, base.time.bonus, 0.0, 0.0, 0.0, None,
+                      "pay the damages")]
+    # recover fully: meet the contract finish and every milestone deadline
+    contract = project.contract.finish
+    target = study.normal_finish if contract is None else min(study.target_by_date(contract),
+                                                              study.normal_finish)
+    try:
+        full = study.plan(target, strict=True)
+    except HastenError:
+        shortest = study.shortest_finish
+        courses.append(Course("recover fully", False, None, None, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0,
+                              None, f"not possible: the shortest possible finish is {shortest} working days "
+                                    f"({clock.project_finish_date(shortest).isoformat()}), or a milestone "
+                                    "deadline cannot be met"))
+    else:
+        point = study.total_cost_point(full.finish, full.added_cost, full.penalty)
+        courses.append(_course(study, "recover fully", point, full, base, "meets every date"))
+    best = study.best(progress=progress)
+    courses.append(_course(study, "least total cost", best.best, best.plan, base,
+                           "may recover only part of the delay"))
+    days_late = 0 if contract is None else max(0, (base.finish_date - contract).days)
+    return Recovery(project.data_date, study.normal_finish, base.finish_date, contract, days_late,
+                    tuple(milestones), tuple(courses), net.status.warnings)

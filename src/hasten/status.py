@@ -1,0 +1,140 @@
+"""Progress at the data date, and the date constraints of each activity.
+
+With a data date, work done is history and only remaining work can move:
+
+- finished (actual start and actual finish): fixed at its actual dates, cannot be shortened;
+- started (actual start, no actual finish): starts at its actual start; its remaining
+  working days (``remaining``, or ``percent_complete`` of the duration, rounded up) run
+  from the data date; it can be shortened by the unused part of its crash allowance in
+  proportion to the remaining work (rounded down), taking its crash steps in order;
+- not started: starts on or after the data date.
+
+An activity with ``not_before`` starts on or after that date too.
+
+Out-of-sequence progress: a link whose successor's constrained event is already fixed in
+the past (the start of a started or finished successor, the finish of a finished one) is
+kept only if the actual dates satisfy it. Otherwise it is dropped with a warning that names
+it: the actual dates stand (progress override) and the successor's remaining work is not
+held back by it. Links that constrain a started successor's finish (FF, SF) are kept.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from .calendar import CalendarClock
+from .errors import InputError
+from .model import Activity, CrashStep, LinkType, Project
+
+__all__ = ["ActivityStatus", "Status", "apply_status", "DONE", "STARTED", "WAITING"]
+
+DONE, STARTED, WAITING = "finished", "started", "not started"
+
+
+@dataclass(frozen=True)
+class ActivityStatus:
+    """What is left to schedule of one activity.
+
+    ``duration`` and ``release`` describe the part still to be scheduled: for a finished
+    activity its actual span (fixed at ``release``); for a started one its remaining work,
+    resuming on or after the data date; otherwise the whole activity.
+    """
+
+    state: str  # DONE, STARTED or WAITING
+    duration: int  # working days still to schedule, at normal pace (actual span when finished)
+    release: int  # earliest (for finished: the fixed) start of that part
+    start: int | None  # actual start offset of a finished or started activity
+    steps: tuple[CrashStep, ...]  # crash steps still available, in order of use
+
+
+@dataclass(frozen=True)
+class Status:
+    data_offset: int | None  # working-day offset of the data date (first day of remaining work)
+    activities: tuple[ActivityStatus, ...]
+    dropped: frozenset[int]  # indexes of project.links no longer in force
+    warnings: tuple[str, ...]
+
+    @property
+    def progressed(self) -> bool:
+        return self.data_offset is not None
+
+
+def _truncate(steps: tuple[CrashStep, ...], days: int) -> tuple[CrashStep, ...]:
+    out, left = [], days
+    for s in steps:
+        if left <= 0:
+            break
+        out.append(CrashStep(min(s.days, left), s.cost_per_day))
+        left -= s.days
+    return tuple(out)
+
+
+def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> ActivityStatus:
+    release = 0
+    if act.not_before is not None:
+        release = max(release, clock.offset_of(act.not_before, finish=False))
+    if data is None or (act.actual_start is None and act.actual_finish is None):
+        if data is not None:
+            release = max(release, data)
+        return ActivityStatus(WAITING, act.duration, release, None, act.segments())
+    if act.actual_start is None:
+        raise InputError(f"activity {act.id} has an actual finish but no actual start",
+                         column="actual_start", value=None, fix="give the date work started")
+    if act.actual_start > data_date or (act.actual_finish and act.actual_finish >= data_date):
+        raise InputError(f"activity {act.id} has actual dates on or after the data date {data_date}",
+                         column="actual_finish" if act.actual_finish else "actual_start",
+                         value=str(act.actual_finish or act.actual_start),
+                         fix="actual dates are history: keep them before the data date, or move the data date")
+    start = clock.offset_of(act.actual_start, finish=False)
+    if act.actual_finish is not None:
+        if act.actual_finish < act.actual_start:
+            raise InputError(f"activity {act.id} finishes before it starts", column="actual_finish",
+                             value=str(act.actual_finish), fix="check both actual dates")
+        finish = max(clock.offset_of(act.actual_finish, finish=True), start)
+        return ActivityStatus(DONE, finish - start, start, start, ())
+    elapsed = max(data - start, 0)  # working days since the actual start
+    if act.remaining is not None:
+        remaining = act.remaining
+    elif act.percent_complete is not None:
+        remaining = math.ceil(act.duration * (100.0 - act.percent_complete) / 100.0 - 1e-9)
+    else:
+        remaining = max(act.duration - elapsed, 0)
+    if remaining > act.duration:
+        raise InputError(f"activity {act.id} has more work remaining ({remaining} days) than its "
+                         f"duration ({act.duration})", column="remaining", value=remaining,
+                         fix="lower the remaining days or raise the duration")
+    allowance = (act.max_shortening * remaining) // act.duration if act.duration else 0
+    return ActivityStatus(STARTED, remaining, max(release, data), start,
+                          _truncate(act.segments(), allowance))
+
+
+def apply_status(project: Project, clock: CalendarClock) -> Status:
+    """Progress and date constraints of every activity, and the links still in force."""
+    data = None if project.data_date is None else clock.offset_of(project.data_date, finish=False)
+    states = tuple(_one(a, clock, data, project.data_date) for a in project.activities)
+    dropped, warnings = set(), []
+    if data is not None:
+        pos = {a.id: k for k, a in enumerate(project.activities)}
+        for e, link in enumerate(project.links):
+            i, j = states[pos[link.pred]], states[pos[link.succ]]
+            on_start = link.type in (LinkType.FS, LinkType.SS)
+            later_fixed = (j.start is not None) if on_start else (j.state == DONE)
+            if not later_fixed:
+                continue
+            later = j.start if on_start else j.release + j.duration
+            from_finish = link.type in (LinkType.FS, LinkType.FF)
+            if from_finish:
+                earlier = i.release + i.duration if i.state == DONE else None
+            else:
+                earlier = i.start
+            if earlier is not None and later >= earlier + link.lag:
+                continue  # satisfied by the actual dates
+            dropped.add(e)
+            what = "start" if on_start else "finish"
+            warnings.append(
+                f"out-of-sequence progress: link {link.pred} -> {link.succ} ({link.type.value}"
+                f"{'' if not link.lag else f'{link.lag:+d}'}) does not hold: {link.succ} has an actual "
+                f"{what} before {link.pred} allowed it. The actual dates stand and the link no longer "
+                f"holds back {link.succ} (progress override)")
+    return Status(data, states, frozenset(dropped), tuple(warnings))
