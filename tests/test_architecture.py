@@ -8,7 +8,7 @@ from pathlib import Path
 
 SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
 CORE = ["model", "errors", "calendar", "network", "solver", "optimise", "crashing", "checks", "costs",
-        "cautions"]
+        "cautions", "status", "recovery", "options"]
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 

@@ -12,6 +12,7 @@ import os
 import shutil
 import string
 import tempfile
+from dataclasses import replace
 from datetime import date
 from pathlib import Path
 
@@ -25,7 +26,7 @@ from hasten.formats import (convert, parse_predecessors, parse_tables, read_proj
                             write_project)
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.model import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
-                          Project)
+                          Option, Project)
 
 DATA = Path(__file__).parent / "data" / "formats"
 HALL = DATA / "hall"
@@ -37,9 +38,15 @@ HALL_PROJECT = Project(
     start=date(2025, 3, 3),
     activities=(
         Activity("010", 3, "Baustelle einrichten", "General", None, 4500.0, None),
-        Activity("020", 5, "Abbruch Innenwände", "Demolition", 3, 9000.0, 12600.0),
-        Activity("030", 8, "Dachdämmung – Süd", "Roofing", None, 21000.0, None),
-        Activity("040", 6, "Électricité", "Electrical", 4, 14000.0, 17000.0),
+        Activity("020", 5, "Abbruch Innenwände", "Demolition", 3, 9000.0, 12600.0,
+                 options=(Option("Fertigteile", 4, 0.0),)),
+        Activity("030", 8, "Dachdämmung – Süd", "Roofing", None, 21000.0, None, options=(
+            Option("zweite Kolonne", 6, 2500.0, "second crew, from the sister site"),
+            Option("Samstagsschicht", 7, 1200.5, 'Zuschlag "Samstag"', 6, 900.0),
+            Option("Nachtschicht", 6, 3000.0),  # dominated, but readers keep every option
+        )),
+        Activity("040", 6, "Électricité", "Electrical", 4, 14000.0, 17000.0,
+                 options=(Option("kleinere Kolonne", 8, -1500.0, "slower; one electrician less"),)),
         Activity("050", 4, "Estrich", "Screed", 4, 7600.0, 7600.0),
         Activity("060", 5, "Malerarbeiten", "Painting", None, 6500.0, None,
                  (CrashStep(1, 400.0), CrashStep(1, 650.25))),
@@ -272,6 +279,34 @@ BAD_FOLDER_CASES = {
                     "curency", "did you mean 'currency'"),
     "missing name": ("project.toml", 'name = "Gemeindesaal Nord – refurbishment"', "",
                      None, "name", None, "missing"),
+    "option for unknown id": ("options.csv", "040,kleinere", "04O,kleinere", 6, "id", "04O",
+                              "did you mean '040'"),
+    "option name twice": ("options.csv", "030,Nachtschicht", "030,zweite Kolonne", 4, "option",
+                          "zweite Kolonne", "rows 2 and 4"),
+    "option name empty": ("options.csv", "020,Fertigteile", "020,", 7, "option", "", "empty"),
+    "option duration not whole": ("options.csv", "zweite Kolonne,6,", "zweite Kolonne,6.5,",
+                                  2, "duration", "6.5", "whole"),
+    "option duration negative": ("options.csv", "zweite Kolonne,6,", "zweite Kolonne,-6,",
+                                 2, "duration", "-6", "negative"),
+    "option duration empty": ("options.csv", "zweite Kolonne,6,", "zweite Kolonne,,",
+                              2, "duration", "", "empty"),
+    "option added cost not a number": ("options.csv", "6,2500,", "6,2.500 €,", 2, "added_cost",
+                                       "2.500 €", "not a plain number"),
+    "option added cost empty": ("options.csv", "6,2500,", "6,,", 2, "added_cost", "", "empty"),
+    "option crash duration above duration": ("options.csv", ",6,900", ",8,900", 3,
+                                             "crash_duration", "8", "longer than the option's"),
+    "option crash duration negative": ("options.csv", ",6,900", ",-1,900", 3, "crash_duration",
+                                       "-1", "negative"),
+    "option cost per day without crash duration": ("options.csv", ",6,900", ",,900", 3,
+                                                   "crash_duration", "", "no crash duration"),
+    "option crash duration without cost per day": ("options.csv", ",6,900", ",6,", 3,
+                                                   "cost_per_day", "", "no cost per day"),
+    "option cost per day negative": ("options.csv", ",6,900", ",6,-900", 3, "cost_per_day",
+                                     "-900", "negative"),
+    "option on a milestone": ("options.csv", "020,Fertigteile", "070,Fertigteile", 7, "id",
+                              "070", "milestone"),
+    "option unknown column": ("options.csv", "added_cost,note", "add_cost,note", 1, "add_cost",
+                              "add_cost", "did you mean 'added_cost'"),
 }
 
 
@@ -342,7 +377,8 @@ def test_missing_sheet(tmp_path):
     book.save(tmp_path / "p.xlsx")
     error = read_error(tmp_path / "p.xlsx")
     check_error(error, file="p.xlsx", row=None, column=None, value=None,
-                says="the sheet 'activities' is missing (sheets found: project, crash_steps)")
+                says="the sheet 'activities' is missing (sheets found: project, crash_steps, "
+                     "options)")
 
 
 def test_workbook_rows_are_sheet_rows(tmp_path):
@@ -396,6 +432,33 @@ def test_json_rows_are_list_positions(tmp_path):
                 column="duration", value="-3", says="negative")
 
 
+def test_options_errors_in_workbook_and_json(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    assert book["options"]["B5"].value == "Nachtschicht"
+    book["options"]["B5"] = "zweite Kolonne"
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet options)", row=5,
+                column="option", value="zweite Kolonne", says="rows 3 and 5")
+
+    write_project(HALL_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["options"][2]["crash_duration"] = 9
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (options)", row=3,
+                column="crash_duration", value="9", says="longer than the option's duration (7)")
+
+
+def test_options_may_be_left_out_of_json(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    del data["options"]
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    assert read_project(tmp_path / "p.json") == Project(**{
+        **HALL_PROJECT.__dict__,
+        "activities": tuple(replace(a, options=()) for a in HALL_PROJECT.activities)})
+
+
 def test_json_syntax_error_names_the_line(tmp_path):
     (tmp_path / "p.json").write_text('{"project": {"name": "x",\n "start": 2025-03-03}}',
                                      encoding="utf-8")
@@ -428,7 +491,11 @@ def test_parse_tables_is_the_shared_core():
 def test_written_layouts(tmp_path):
     write_project(HALL_PROJECT, tmp_path / "p.xlsx")
     book = openpyxl.load_workbook(tmp_path / "p.xlsx")
-    assert book.sheetnames == ["project", "activities", "crash_steps"]
+    assert book.sheetnames == ["project", "activities", "crash_steps", "options"]
+    # options in activity order (020 before 030), each activity's in file order
+    assert [c.value for c in book["options"][4]] == ["030", "Samstagsschicht", 7, 1200.5,
+                                                     'Zuschlag "Samstag"', 6, 900]
+    assert [c.value for c in book["options"][3]][5:] == [None, None]
     settings = {row[0]: row[1] for row in book["project"].iter_rows(min_row=2, values_only=True)}
     assert settings["holidays"] == "2025-04-18, 2025-05-01"
     assert settings["contract.finish"] == "2025-06-27"
@@ -438,7 +505,11 @@ def test_written_layouts(tmp_path):
 
     write_project(HALL_PROJECT, tmp_path / "p.json")
     data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
-    assert list(data) == ["project", "activities", "links", "crash_steps"]
+    assert list(data) == ["project", "activities", "links", "crash_steps", "options"]
+    assert data["options"][3] == {"id": "030", "option": "Nachtschicht", "duration": 6,
+                                  "added_cost": 3000, "note": "", "crash_duration": None,
+                                  "cost_per_day": None}
+    assert data["options"][4]["added_cost"] == -1500
     assert data["project"]["contract"]["bonus_cap_days"] == 10
     assert data["activities"][6]["predecessors"] == "060; 030:FF; 040:SF-1"
     assert data["links"] == []
@@ -446,7 +517,11 @@ def test_written_layouts(tmp_path):
 
     write_project(HALL_PROJECT, tmp_path / "f")
     assert sorted(p.name for p in (tmp_path / "f").iterdir()) == [
-        "activities.csv", "crash_steps.csv", "project.toml"]
+        "activities.csv", "crash_steps.csv", "options.csv", "project.toml"]
+    assert (tmp_path / "f" / "options.csv").read_text(encoding="utf-8").splitlines()[:3] == [
+        "id,option,duration,added_cost,note,crash_duration,cost_per_day",
+        "020,Fertigteile,4,0,,,",
+        '030,zweite Kolonne,6,2500,"second crew, from the sister site",,']
 
 
 def test_links_out_of_reading_order_go_to_links_table(tmp_path):
@@ -490,7 +565,8 @@ def test_overwriting_a_folder_removes_stale_tables_only(hall):
     assert (hall / "notes.txt").read_text(encoding="utf-8") == "keep me"
     assert read_project(hall) == HALL_PROJECT
     assert sorted(p.name for p in hall.iterdir()) == [
-        "README.md", "activities.csv", "crash_steps.csv", "notes.txt", "project.toml"]
+        "README.md", "activities.csv", "crash_steps.csv", "notes.txt", "options.csv",
+        "project.toml"]
 
 
 def test_failed_write_leaves_nothing_behind(tmp_path, monkeypatch):
@@ -526,6 +602,13 @@ def test_failed_folder_write_leaves_old_files_alone(hall, monkeypatch):
     (dict(calendar=Calendar((0, 1, 2, 3, 4, 5), (), "mon-fri")), "project.calendar.name"),
     (dict(links=(Link("010", "020"), Link("020", "010"))), "loop"),
     (dict(links=(Link("010", "999"),)), "unknown"),
+    (dict(links=(), activities=(Activity("010", 3, options=(Option(" padded ", 2, 10.0),)),)),
+     r"project.activities\[0\].options\[0\].name"),
+    (dict(links=(), activities=(Activity("010", 3, options=(Option("x", 2, 10.0, cost_per_day=5.0),)),)),
+     "no crash duration"),
+    (dict(links=(), activities=(Activity("010", 0, options=(Option("x", 2, 10.0),)),)), "milestone"),
+    (dict(links=(), activities=(Activity("010", 3, options=(Option("x", 2, 1.0), Option("x", 1, 2.0))),)),
+     "given twice"),
 ])
 def test_refuses_projects_that_would_not_read_back(tmp_path, change, says):
     fields = {**HALL_PROJECT.__dict__, **change}
@@ -566,9 +649,27 @@ def activity(draw, ident: str) -> Activity:
 
 
 @st.composite
+def option(draw, name: str) -> Option:
+    duration = draw(st.integers(0, 40))
+    added = draw(MONEY | MONEY.map(lambda x: -x))  # an option may save money
+    crash = draw(st.none() | st.integers(0, duration))
+    return Option(name, duration, added, draw(TEXT), crash,
+                  0.0 if crash is None else draw(MONEY))
+
+
+@st.composite
+def with_options(draw, activity: Activity) -> Activity:
+    """Up to three options (none on a milestone), names unique per activity."""
+    if activity.is_milestone:
+        return activity
+    names = draw(st.lists(TEXT.filter(bool), max_size=3, unique=True))
+    return replace(activity, options=tuple(draw(option(n)) for n in names))
+
+
+@st.composite
 def project(draw) -> Project:
     ids = draw(st.lists(ID, min_size=1, max_size=7, unique=True))
-    activities = tuple(draw(activity(i)) for i in ids)
+    activities = tuple(draw(activity(i).flatmap(with_options)) for i in ids)
     pairs = [(a, b) for a in range(len(ids)) for b in range(a + 1, len(ids))]
     chosen = draw(st.lists(st.tuples(st.sampled_from(pairs), st.sampled_from(list(LinkType))),
                            unique=True, max_size=10)) if pairs else []

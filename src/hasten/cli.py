@@ -25,6 +25,8 @@ from .crashing import Study
 from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
+from .formats.research import read_research
+from .options import drop_dominated
 from .network import schedule as cpm
 from .recovery import recovery
 
@@ -168,7 +170,7 @@ def plan(
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
-        study = Study(read_project(project), time_limit=time_limit)
+        study, notes = _study(project, time_limit)
         target, text = _target(study, finish, by, earlier)
         try:
             result = study.plan(target)
@@ -179,8 +181,9 @@ def plan(
                                   f"({study.clock.project_finish_date(exc.shortest).isoformat()})") from None
             raise
         if as_json:
-            _json(render.plan_json(study, result))
+            _json(render.plan_json(study, result) | {"notes": notes})
         else:
+            _notes(notes)
             _echo(render.plan_text(study, result))
 
 
@@ -196,7 +199,7 @@ def curve(
 ) -> None:
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
-        study = Study(read_project(project), time_limit=time_limit)
+        study, notes = _study(project, time_limit)
         tick, bar = _progress(not as_json)
         try:
             points = study.curve(longest, shortest, progress=tick)
@@ -211,8 +214,9 @@ def curve(
 
             _write_whole(plot, lambda tmp: curve_chart(study, points, tmp))
         if as_json:
-            _json(render.curve_json(study, points))
+            _json(render.curve_json(study, points) | {"notes": notes})
         else:
+            _notes(notes)
             _echo(render.curve_text(study, points))
 
 
@@ -220,7 +224,7 @@ def curve(
 def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
-        study = Study(read_project(project), time_limit=time_limit)
+        study, notes = _study(project, time_limit)
         tick, bar = _progress(not as_json)
         try:
             result = study.best(progress=tick)
@@ -228,8 +232,9 @@ def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = N
             if bar is not None:
                 bar.__exit__(None, None, None)
         if as_json:
-            _json(render.best_json(study, result))
+            _json(render.best_json(study, result) | {"notes": notes})
         else:
+            _notes(notes)
             _echo(render.best_text(study, result))
 
 
@@ -242,11 +247,12 @@ def budget(
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
-        study = Study(read_project(project), time_limit=time_limit)
+        study, notes = _study(project, time_limit)
         result = study.budget(spend)
         if as_json:
-            _json(render.plan_json(study, result))
+            _json(render.plan_json(study, result) | {"notes": notes})
         else:
+            _notes(notes)
             _echo(render.plan_text(study, result, title=f"Earliest finish within {render.money(spend, study.project.currency)}"))
 
 
@@ -254,7 +260,7 @@ def budget(
 def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
-        study = Study(read_project(project), time_limit=time_limit)
+        study, notes = _study(project, time_limit)
         tick, bar = _progress(not as_json)
         try:
             result = recovery(study, progress=tick)
@@ -262,8 +268,9 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
             if bar is not None:
                 bar.__exit__(None, None, None)
         if as_json:
-            _json(render.recovery_json(study, result))
+            _json(render.recovery_json(study, result) | {"notes": notes})
         else:
+            _notes(notes)
             _echo(render.recovery_text(study, result))
 
 
@@ -276,6 +283,35 @@ def convert(
     with _errors():
         convert_project(source, target)
         _echo(f"wrote {target}")
+
+
+@app.command("import")
+def import_(
+    source: Annotated[Path, typer.Argument(help="A research instance: PSPLIB .mm or .sm, or Patterson .rcp.")],
+    target: Annotated[Path, typer.Argument(help="Project folder, .xlsx or .json to write (must not exist).")],
+) -> None:
+    """Import a research instance (PSPLIB multi- or single-mode, Patterson format) as a project.
+
+    Multi-mode jobs: the longest mode is the normal way, the other modes become options
+    costing the difference in nonrenewable resources; renewable resources are ignored.
+    """
+    with _errors():
+        project = read_research(source)
+        write_project(project, target)
+        options = sum(len(a.options) for a in project.activities)
+        _echo(f"wrote {target}: {len(project.activities)} activities, {len(project.links)} links, "
+              f"{options} options")
+
+
+def _study(path: Path, time_limit: float | None) -> tuple[Study, list[str]]:
+    """Read a project, drop options beaten on time and cost, and set up the study."""
+    project, notes = drop_dominated(read_project(path))
+    return Study(project, time_limit=time_limit), notes
+
+
+def _notes(notes: list[str]) -> None:
+    for note in notes:
+        _echo(f"Note: {note}")
 
 
 @app.command()

@@ -285,7 +285,7 @@ class CrashModel:
         y = values[self.cuts]
         x = values[self.opt_x]
         w = values[self.opt_w]
-        cut = np.bincount(self.cut_owner, weights=y, minlength=n)
+        cut = np.bincount(self.cut_owner, weights=y, minlength=n).astype(float)
         if self.discrete:
             cut += np.bincount(self.opt_owner, weights=self.opt_delta * x, minlength=n)
             cut += np.bincount(self.opt_owner[self.w_of], weights=w, minlength=n)
@@ -410,6 +410,16 @@ class CrashModel:
         if out.values is None or out.status not in ("optimal", "stopped"):
             return None
         return self._solution(out.values[: self.lp.num_cols], out)
+
+    def relaxed_cost(self, target: int) -> float | None:
+        """The LP relaxation's least cost at ``target`` (options taken fractionally): a
+        lower bound on the MILP optimum. Solved on a copy; ``None`` if infeasible."""
+        lm = self.lp.copy()
+        lm.col_integer = [False] * lm.num_cols
+        lm.use_objective(Objective.COST.value)
+        lm.set_col_bounds(self.finish, 0.0, float(target))
+        result = lm.solve()
+        return None if result.status == "infeasible" else float(result.objective)
 
     def earliest_finish_within(self, budget: float) -> int:
         """The earliest whole-day finish whose least added cost is within ``budget``.

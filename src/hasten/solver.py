@@ -304,10 +304,10 @@ class _HighsBackend:
         self.h.changeRowBounds(row, -inf if lower == -INF else lower, inf if upper == INF else upper)
 
     def set_start(self, values: np.ndarray) -> None:
-        sol = highspy.HighsSolution()
-        sol.col_value = list(values)
-        sol.value_valid = True
-        self.h.setSolution(sol)
+        """Not passed on. Seen with HiGHS 1.16: a MILP re-solved after a bound change with
+        the previous plan given as a start (whole or only its integer columns) ended with
+        status "optimal" on a worse plan than a solve without the start (PSPLIB j1012_10 at
+        deadlines 11-12). Correct answers come first; each MILP is solved without a start."""
 
     def set_time_limit(self, seconds: float | None) -> None:
         self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
@@ -332,6 +332,15 @@ class _HighsBackend:
         h.run()
         status = h.getModelStatus()
         S = highspy.HighsModelStatus
+        if status in (S.kSolveError, S.kPostsolveError):
+            # Seen with HiGHS 1.16 on small MILPs that presolve reduces to nothing: "solution
+            # has untransformed violations" and a solve error. Solve again without presolve.
+            h.setOptionValue("presolve", "off")
+            try:
+                h.run()
+            finally:
+                h.setOptionValue("presolve", "choose")
+            status = h.getModelStatus()
         info = h.getInfo()
         if status == S.kOptimal:
             sol = h.getSolution()

@@ -8,19 +8,22 @@ Canonical choices:
   project's link order is the order reading gives back (grouped by successor in activity
   order); otherwise all links go into the links table, in order, and the column stays empty;
 * crash steps go into the crash steps table, in activity order, each activity's steps in order;
+* discrete options go into the options table, in activity order, each activity's options in
+  order; an option's ``crash_duration`` and ``cost_per_day`` stay empty when it cannot be
+  shortened (``cost_per_day`` is written whenever ``crash_duration`` is);
 * whole-valued money amounts are written as integers (``12000``, not ``12000.0``).
 """
 
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass, fields, is_dataclass
+from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
-from hasten.model import Activity, Link, Project
+from hasten.model import Activity, Link, Option, Project
 
 __all__ = ["Document", "to_document", "document_tables", "first_difference"]
 
@@ -33,6 +36,7 @@ class Document:
     activities: list[dict[str, object]]
     links: list[dict[str, object]]
     crash_steps: list[dict[str, object]]
+    options: list[dict[str, object]] = field(default_factory=list)
 
 
 def _in_reading_order(project: Project) -> bool:
@@ -56,6 +60,21 @@ def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
     }
 
 
+def _option_row(activity: Activity, option: Option) -> dict[str, object]:
+    plain = option.crash_duration is None and option.cost_per_day == 0
+    return {
+        "id": activity.id,
+        "option": option.name,
+        "duration": option.duration,
+        "added_cost": _plain(option.added_cost),
+        "note": option.note,
+        "crash_duration": option.crash_duration,
+        # a cost per day without a crash duration is written too, so that the check before
+        # writing refuses it instead of losing it
+        "cost_per_day": None if plain else _plain(option.cost_per_day),
+    }
+
+
 def to_document(project: Project) -> Document:
     """The canonical written form of ``project``."""
     in_column = _in_reading_order(project)
@@ -71,6 +90,7 @@ def to_document(project: Project) -> Document:
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}
                      for a in project.activities for s in a.steps],
+        options=[_option_row(a, o) for a in project.activities for o in a.options],
     )
 
 
@@ -90,6 +110,7 @@ def document_tables(document: Document, labels: Mapping[str, str]) -> Tables:
         activities=table("activities", ACTIVITY_COLUMNS, document.activities),
         links=table("links", LINK_COLUMNS, document.links),
         crash_steps=table("crash_steps", STEP_COLUMNS, document.crash_steps),
+        options=table("options", OPTION_COLUMNS, document.options),
     )
 
 

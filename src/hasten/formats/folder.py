@@ -1,4 +1,9 @@
-"""The folder form: ``project.toml``, ``activities.csv`` and optional ``links.csv``, ``crash_steps.csv``.
+"""The folder form: ``project.toml``, ``activities.csv`` and optional ``links.csv``,
+``crash_steps.csv`` and ``options.csv``.
+
+``options.csv`` lists discrete ways to perform an activity, one per row, with the columns
+``id``, ``option``, ``duration``, ``added_cost`` and optional ``note``, ``crash_duration``,
+``cost_per_day`` (the option's own linear shortening; both or neither).
 
 CSV files are read as UTF-8 (a byte-order mark is allowed) with any line endings; every cell
 is text. Row numbers in messages are CSV line numbers as a spreadsheet shows them: the
@@ -20,7 +25,7 @@ from hasten.errors import InputError
 from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import flatten, nest
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.formats.tomlwrite import toml_text
@@ -32,8 +37,10 @@ FILES = {
     "activities": "activities.csv",
     "links": "links.csv",
     "crash_steps": "crash_steps.csv",
+    "options": "options.csv",
 }
-_OPTIONAL = ("links", "crash_steps")
+_OPTIONAL = ("links", "crash_steps", "options")
+_COLUMNS = {"links": LINK_COLUMNS, "crash_steps": STEP_COLUMNS, "options": OPTION_COLUMNS}
 _TOML_PLACE = re.compile(r"\(at line (\d+), column (\d+)\)")
 
 
@@ -131,7 +138,7 @@ def write(document: Document, folder: Path) -> None:
         FILES["settings"]: lambda path: path.write_text(text, encoding="utf-8", newline="\n"),
         FILES["activities"]: _csv_writer(ACTIVITY_COLUMNS, document.activities),
     }
-    for key, columns in (("links", LINK_COLUMNS), ("crash_steps", STEP_COLUMNS)):
+    for key, columns in _COLUMNS.items():
         records = getattr(document, key)
         if records:
             files[FILES[key]] = _csv_writer(columns, records)

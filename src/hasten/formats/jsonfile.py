@@ -1,4 +1,5 @@
-"""The JSON form: one object with ``project``, ``activities``, ``links`` and ``crash_steps``.
+"""The JSON form: one object with ``project``, ``activities``, ``links``, ``crash_steps``
+and ``options``.
 
 Layout::
 
@@ -10,9 +11,11 @@ Layout::
                      "crash_duration": 3, "cost": 12000, "crash_cost": 15000,
                      "predecessors": "B; C:SS+2"}, ...],
      "links": [{"predecessor": "A", "successor": "B", "type": "FS", "lag": 0}, ...],
-     "crash_steps": [{"id": "A", "days": 1, "cost_per_day": 500}, ...]}
+     "crash_steps": [{"id": "A", "days": 1, "cost_per_day": 500}, ...],
+     "options": [{"id": "A", "option": "second crew", "duration": 3, "added_cost": 2400,
+                  "note": "", "crash_duration": null, "cost_per_day": null}, ...]}
 
-``links`` and ``crash_steps`` may be left out. Dates are ISO text; an absent crash value is
+``links``, ``crash_steps`` and ``options`` may be left out. Dates are ISO text; an absent crash value is
 ``null``. Row numbers in messages are the 1-based position of the item in its list.
 """
 
@@ -32,7 +35,7 @@ from hasten.formats.tables import Settings, Tables, table_from_records
 __all__ = ["KEYS", "labels", "read", "write"]
 
 KEYS = {"settings": "project", "activities": "activities", "links": "links",
-        "crash_steps": "crash_steps"}
+        "crash_steps": "crash_steps", "options": "options"}
 _REQUIRED = ("project", "activities")
 
 
@@ -79,7 +82,7 @@ def read(path: Path) -> Tables:
         raise Where(names["settings"]).error("expected an object", type(project).__name__,
                                              'write "project": {"name": ..., "start": ...}')
     optional = {key: table_from_records(names[key], data[KEYS[key]]) if KEYS[key] in data else None
-                for key in ("links", "crash_steps")}
+                for key in ("links", "crash_steps", "options")}
     return Tables(
         settings=Settings(names["settings"], flatten(project, Where(names["settings"]))),
         activities=table_from_records(names["activities"], data["activities"]),
@@ -103,6 +106,7 @@ def write(document: Document, path: Path) -> None:
         "activities": document.activities,
         "links": document.links,
         "crash_steps": document.crash_steps,
+        "options": document.options,
     }
     text = json.dumps(data, ensure_ascii=False, indent=2) + "\n"
     write_file(path, lambda tmp: tmp.write_text(text, encoding="utf-8", newline="\n"))

@@ -64,6 +64,7 @@ class Tables:
     activities: Table
     links: Table | None = None
     crash_steps: Table | None = None
+    options: Table | None = None
 
 
 def _is_blank(cells: Sequence[object]) -> bool:

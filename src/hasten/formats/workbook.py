@@ -1,4 +1,5 @@
-"""The workbook form (``.xlsx``): sheets ``project``, ``activities``, ``links``, ``crash_steps``.
+"""The workbook form (``.xlsx``): sheets ``project``, ``activities``, ``links``, ``crash_steps``,
+``options``.
 
 Layout:
 
@@ -8,8 +9,9 @@ Layout:
   the dates separated by commas (``2025-12-25, 2025-12-26``); a key may appear only once.
   ``calendar`` is a name (``mon-fri``) or the working weekdays separated by commas.
   Keys under ``status.`` and ``calendars.`` are reserved and ignored.
-* ``activities``, ``links`` and ``crash_steps`` have the same columns as the CSV files;
-  ``links`` and ``crash_steps`` are optional (written only when they have rows).
+* ``activities``, ``links``, ``crash_steps`` and ``options`` have the same columns as the
+  CSV files; ``links``, ``crash_steps`` and ``options`` are optional (written only when they
+  have rows).
 
 Dates are written as ISO text (``2025-03-03``); date cells typed in a spreadsheet are read
 too. Ids and names are written as text cells. Numbers are written as number cells unless a
@@ -32,14 +34,14 @@ from hasten.errors import InputError
 from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 
 __all__ = ["SHEETS", "labels", "read", "write"]
 
 SHEETS = {"settings": "project", "activities": "activities", "links": "links",
-          "crash_steps": "crash_steps"}
-_OPTIONAL = ("links", "crash_steps")
+          "crash_steps": "crash_steps", "options": "options"}
+_OPTIONAL = ("links", "crash_steps", "options")
 _SETTINGS_COLUMNS = ("key", "value")
 
 
@@ -102,7 +104,8 @@ def read(path: Path) -> Tables:
         settings = _settings(sheets[SHEETS["settings"]], names["settings"])
     finally:
         book.close()
-    return Tables(settings, tables["activities"], tables["links"], tables["crash_steps"])
+    return Tables(settings, tables["activities"], tables["links"], tables["crash_steps"],
+                  tables["options"])
 
 
 def _cell_value(value: object) -> object:
@@ -143,7 +146,7 @@ def write(document: Document, path: Path) -> None:
     _fill(book.active, _SETTINGS_COLUMNS,
           [{"key": k, "value": v} for k, v in document.settings.items()])
     for key, columns in (("activities", ACTIVITY_COLUMNS), ("links", LINK_COLUMNS),
-                         ("crash_steps", STEP_COLUMNS)):
+                         ("crash_steps", STEP_COLUMNS), ("options", OPTION_COLUMNS)):
         records = getattr(document, key)
         if records or key == "activities":
             _fill(book.create_sheet(SHEETS[key]), columns, records)

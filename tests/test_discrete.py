@@ -1,0 +1,187 @@
+"""Discrete acceleration options (the MILP): checks against outside references.
+
+- PSPLIB multi-mode j10 instances (Kolisch & Sprecher 1997, EJOR 96(1):205-216) read as a
+  discrete time/cost problem: every point of the curves in dtctp_curves_enumerated.csv
+  (computed by full enumeration of all 3^10 mode choices by the authors of our shared data
+  folder, not published) must equal our optimum; the shortest finish must equal the file's
+  MPM-Time (critical-path length with each job in its shortest mode).
+- Brute-force enumeration on small random projects mixing options and linear crashing.
+- The LP relaxation is never above the MILP optimum.
+"""
+
+from __future__ import annotations
+
+import csv
+import itertools
+import re
+from pathlib import Path
+
+import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
+from conftest import PROPERTY, make_project, own_finish
+from hasten.crashing import Study
+from hasten.formats.research import read_research
+from hasten.model import Activity, Link, LinkType, Option
+from hasten.network import Network
+from hasten.optimise import CrashModel
+
+DATA = Path(__file__).parent / "data" / "psplib_mm"
+J10 = ["j102_2.mm", "j1010_1.mm", "j1012_10.mm", "j1024_1.mm"]
+
+
+def _enumerated() -> dict[str, dict[int, float]]:
+    curves: dict[str, dict[int, float]] = {}
+    with open(DATA / "dtctp_curves_enumerated.csv", newline="") as fh:
+        for row in csv.DictReader(fh):
+            curves.setdefault(row["instance"], {})[int(row["deadline"])] = float(row["min_cost"])
+    return curves
+
+
+def _mpm_time(path: Path) -> int:
+    """The header's MPM-Time, read with a regex of our own (not through the importer)."""
+    text = path.read_text()
+    block = text[text.index("PROJECT INFORMATION"):]
+    numbers = re.findall(r"^\s*1\s+(\d+)\s+(\d+)\s+(\d+)\s+(\d+)\s+(\d+)\s*$", block, re.M)[0]
+    return int(numbers[-1])
+
+
+@pytest.mark.parametrize("name", J10)
+def test_psplib_j10_curve_matches_enumeration(name: str):
+    # dtctp_curves_enumerated.csv: computed by full enumeration (see tests/data/psplib_mm/README.md)
+    expected = _enumerated()[name]
+    study = Study(read_research(DATA / name))
+    assert study.shortest_finish == min(expected)
+    assert study.normal_finish == max(expected)
+    points = study.curve()
+    assert {p.finish for p in points} == set(expected)
+    for p in points:
+        assert p.proven
+        assert study.project.normal_direct_cost + p.added_cost == pytest.approx(expected[p.finish]), p.finish
+
+
+@pytest.mark.parametrize("name", J10 + ["j3010_1.mm"])
+def test_psplib_shortest_finish_is_mpm_time(name: str):
+    # Kolisch & Sprecher (1997), PSPLIB .mm header: MPM-Time = CPM length, every job in its shortest mode
+    study = Study(read_research(DATA / name))
+    assert study.shortest_finish == _mpm_time(DATA / name)
+
+
+def _ways(act: Activity) -> list[tuple[int, float, int]]:
+    """Every (duration, added cost, choice) an activity can take: linear crashing of the
+    normal way (choice -1) or each option with its own further shortening."""
+    out = []
+    slope = 0.0 if act.duration == act.shortest_normal else (act.crash_cost - act.cost) / (act.duration - act.shortest_normal)
+    for d in range(act.shortest_normal, act.duration + 1):
+        out.append((d, slope * (act.duration - d), -1))
+    for k, o in enumerate(act.options):
+        for d in range(o.shortest, o.duration + 1):
+            out.append((d, o.added_cost + o.cost_per_day * (o.duration - d), k))
+    return out
+
+
+@st.composite
+def option_projects(draw):
+    """Small random projects (3..5 activities, FS/SS/FF links with lags) where some
+    activities have linear crashing, some discrete options, some both."""
+    n = draw(st.integers(3, 5))
+    acts = []
+    for i in range(n):
+        d = draw(st.integers(1, 6))
+        c = draw(st.integers(max(1, d - 2), d))
+        slope = draw(st.integers(1, 9)) * 10
+        opts = []
+        for k in range(draw(st.integers(0, 2))):
+            od = draw(st.integers(1, d + 1))
+            oc = draw(st.integers(0, 60))
+            if draw(st.booleans()):
+                opts.append(Option(f"o{k}", od, float(oc), crash_duration=max(1, od - 1),
+                                   cost_per_day=float(draw(st.integers(1, 9)) * 10)))
+            else:
+                opts.append(Option(f"o{k}", od, float(oc)))
+        acts.append(Activity(f"A{i}", d, crash_duration=c, cost=100.0, crash_cost=100.0 + slope * (d - c),
+                             options=tuple(opts)))
+    links = []
+    for j in range(1, n):
+        for i in draw(st.sets(st.integers(0, j - 1), min_size=1, max_size=2)):
+            kind = draw(st.sampled_from([LinkType.FS, LinkType.FS, LinkType.SS, LinkType.FF]))
+            links.append(Link(f"A{i}", f"A{j}", kind, draw(st.integers(0, 2))))
+    return make_project(acts, links)
+
+
+def _brute_force(project) -> dict[int, float]:
+    """Least added cost at every reachable finish, by enumerating every combination of ways
+    and taking the early-start finish of each (a forward pass of the test helpers)."""
+    best: dict[int, float] = {}
+    choices = [_ways(a) for a in project.activities]
+    for combo in itertools.product(*choices):
+        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+        finish = own_finish(project, durations)
+        cost = sum(w[1] for w in combo)
+        best[finish] = min(best.get(finish, float("inf")), cost)
+    # the least cost to finish BY each day
+    out, running = {}, float("inf")
+    for t in range(min(best), max(best) + 1):
+        running = min(running, best.get(t, float("inf")))
+        out[t] = running
+    return out
+
+
+@PROPERTY
+@given(option_projects())
+def test_options_against_brute_force(project):
+    reference = _brute_force(project)
+    study = Study(project)
+    assert study.shortest_finish == min(reference)
+    for target in range(min(reference), study.normal_finish + 1):
+        plan = study.plan(target, next_day=False)
+        assert plan.proven
+        assert plan.added_cost == pytest.approx(reference[target], abs=1e-6), target
+
+
+@PROPERTY
+@given(option_projects())
+def test_lp_relaxation_never_above_milp(project):
+    study = Study(project)
+    model = CrashModel(Network(project))
+    for target in range(study.shortest_finish, study.normal_finish + 1):
+        milp = study.plan(target, next_day=False).added_cost
+        assert model.relaxed_cost(target) <= milp + 1e-6
+
+
+def test_time_limit_never_claims_optimality(tmp_path):
+    """A time limit too short to prove anything: the plan is marked not proven, with its
+    bound and gap, or the command says no plan was found in time; it never claims an optimum."""
+    import random
+
+    from typer.testing import CliRunner
+
+    from hasten.cli import app
+    from hasten.formats import write_project
+
+    rng = random.Random(7)  # invented data, for this behaviour only
+    acts, links = [], []
+    for i in range(400):
+        d = rng.randint(4, 12)
+        opts = tuple(Option(f"m{k}", d - k - 1, float(rng.randint(1, 50) * (k + 1))) for k in range(3))
+        acts.append(Activity(f"T{i}", d, options=opts))
+        for p in rng.sample(range(max(0, i - 30), i), min(i, 2)):
+            links.append(Link(f"T{p}", f"T{i}"))
+    write_project(make_project(acts, links), tmp_path / "big")
+    normal = Study(make_project(acts, links)).normal_finish
+    out = CliRunner().invoke(app, ["plan", str(tmp_path / "big"), "--finish", str(normal - 30),
+                                   "--time-limit", "0.05", "--json"])
+    if out.exit_code == 2:
+        assert "time limit" in out.output and "--time-limit" in out.output
+        return
+    assert out.exit_code == 0, out.output
+    import json
+
+    data = json.loads(out.output[out.output.index("{"):])
+    if not data["proven_optimal"]:
+        assert data["lower_bound"] is not None and data["gap"] is not None
+        assert data["lower_bound"] <= data["added_cost"] + 1e-6
+        text = CliRunner().invoke(app, ["plan", str(tmp_path / "big"), "--finish", str(normal - 30),
+                                        "--time-limit", "0.05"]).output
+        assert "NOT PROVEN OPTIMAL" in text or "time limit" in text
