@@ -289,6 +289,7 @@ def test_readme_examples_run(tmp_path: Path, monkeypatch):
              if ln.strip().startswith("$ hasten ")]
     assert len(lines) >= 10, "README.md shows too few '$ hasten' examples"
     shutil.copytree(ROOT / "cases", tmp_path / "cases")
+    shutil.copytree(ROOT / "tests" / "data" / "psplib_mm", tmp_path / "tests" / "data" / "psplib_mm")
     monkeypatch.chdir(tmp_path)
     for line in lines:
         out = runner.invoke(app, shlex.split(line)[1:])
