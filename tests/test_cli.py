@@ -268,7 +268,7 @@ def test_cases_are_valid_and_plannable(case: str):
     data = json.loads(run("best", folder, "--json").output)
     assert data["plan"]["finish"] == data["finish"]
     assert data["total_cost"] == pytest.approx(data["direct_cost"] + data["indirect_cost"] + data["damages"]
-                                               - data["bonus"])
+                                               + data["milestone_damages"] - data["bonus"])
 
 
 def test_python_dash_m(tmp_path: Path):

@@ -1,8 +1,9 @@
 """Tests of the file-format layer (hasten.formats): reading, writing, converting, validating.
 
-All data here is invented for these tests (tests/data/formats/hall is a made-up project);
-these are format checks, not reference checks of any schedule or cost result. Expected
-values below are written out by hand from the data files, never computed by our code.
+All data here is invented for these tests (tests/data/formats/hall is a made-up project,
+tests/data/formats/yard a made-up project with a progress update); these are format checks,
+not reference checks of any schedule or cost result. Expected values below are written out
+by hand from the data files, never computed by our code.
 """
 
 from __future__ import annotations
@@ -13,7 +14,7 @@ import shutil
 import string
 import tempfile
 from dataclasses import replace
-from datetime import date
+from datetime import date, datetime, timedelta
 from pathlib import Path
 
 import openpyxl
@@ -163,14 +164,17 @@ def test_multiline_quoted_name_keeps_row_numbers_of_later_rows(hall):
     check_error(read_error(hall), file="activities.csv", row=5, column="duration", value="x")
 
 
-def test_reserved_sections_are_ignored_but_other_sections_refused(hall):
-    (hall / "project.toml").write_text(
-        (hall / "project.toml").read_text(encoding="utf-8") + "\n[calendars]\nsite = 1\n",
-        encoding="utf-8")
-    assert read_project(hall) == HALL_PROJECT
-    edit(hall / "project.toml", "[status]", "[stauts]")
+def test_unknown_sections_and_status_keys_are_refused(hall):
+    text = (hall / "project.toml").read_text(encoding="utf-8")
+    (hall / "project.toml").write_text(text + "\n[stauts]\ndata_date = 2025-04-01\n",
+                                       encoding="utf-8")
     check_error(read_error(hall), file="project.toml", row=None, column="stauts",
                 value="stauts", says="unknown key")
+    # [status] is read now: a key other than data_date is a typo, not a reserved note
+    (hall / "project.toml").write_text(text + '\n[status]\nnote = "weekly update"\n',
+                                       encoding="utf-8")
+    check_error(read_error(hall), file="project.toml", row=None, column="status.note",
+                value="status.note", says="did you mean 'status.data_date'")
 
 
 def test_minimal_project_uses_defaults(tmp_path):
@@ -486,6 +490,335 @@ def test_parse_tables_is_the_shared_core():
     assert "there are no activities" in str(caught.value)
 
 
+# ---------------------------------------------------------------- progress and dates
+
+YARD = DATA / "yard"
+
+# The yard project written out by hand from tests/data/formats/yard.
+YARD_PROJECT = Project(
+    name="Lagerhalle Ost – progress update",
+    start=date(2025, 3, 3),
+    activities=(
+        Activity("A", 3, "Site set-up", "General", None, 2000.0, None,
+                 actual_start=date(2025, 3, 3), actual_finish=date(2025, 3, 5)),
+        Activity("B", 10, "Groundworks", "Earthworks", 8, 15000.0, 19000.0,
+                 actual_start=date(2025, 3, 6), actual_finish=date(2025, 3, 21), remaining=0,
+                 percent_complete=100.0),
+        Activity("C", 12, "Steel frame", "Steel", 10, 40000.0, 46000.0,
+                 actual_start=date(2025, 3, 24), remaining=5, percent_complete=40.0,
+                 not_before=date(2025, 3, 24)),
+        Activity("D", 8, "Roof sheeting", "Roofing", 6, 22000.0, 26000.0,
+                 actual_start=date(2025, 4, 1), percent_complete=62.5),
+        Activity("E", 10, "Cladding", "Cladding", None, 18000.0, None,
+                 not_before=date(2025, 4, 22)),
+        Activity("F", 0, "Handover of the loading bay", "", None, 0.0, None,
+                 deadline=date(2025, 5, 9), damages_per_day=1500.5),
+        Activity("G", 7, "Fit-out", "Finishes", 5, 12000.0, 15000.0, deadline=date(2025, 5, 23)),
+        Activity("H", 0, "Completion"),
+    ),
+    links=(
+        Link("A", "B"),
+        Link("B", "C"),
+        Link("C", "D", SS, 4),
+        Link("C", "E"),
+        Link("D", "E", SS, 2),
+        Link("E", "F"),
+        Link("F", "G"),
+        Link("G", "H"),
+        Link("D", "H", FF, 0),
+    ),
+    calendar=Calendar((0, 1, 2, 3, 4), (date(2025, 4, 18),), "mon-fri"),
+    currency="EUR",
+    costs=Costs(400.0),
+    contract=Contract(date(2025, 5, 30), 800.0),
+    data_date=date(2025, 4, 7),
+)
+PROGRESS_HEADER = ["actual_start", "actual_finish", "remaining", "percent_complete",
+                   "not_before", "deadline", "damages_per_day"]
+
+
+@pytest.fixture
+def yard(tmp_path: Path) -> Path:
+    """A private copy of the yard folder."""
+    return Path(shutil.copytree(YARD, tmp_path / "yard"))
+
+
+def test_yard_folder_reads_as_written_by_hand():
+    assert read_project(YARD) == YARD_PROJECT
+
+
+def test_progress_round_trip_folder_xlsx_json_folder(tmp_path):
+    current = YARD_PROJECT
+    for name in ("p.xlsx", "p.json", "again"):
+        write_project(current, tmp_path / name)
+        current = read_project(tmp_path / name)
+        assert current == YARD_PROJECT, name
+
+
+def test_progress_written_layouts(tmp_path):
+    write_project(YARD_PROJECT, tmp_path / "f")
+    assert (tmp_path / "f" / "project.toml").read_text(encoding="utf-8").endswith(
+        "\n[status]\ndata_date = 2025-04-07\n")
+    lines = (tmp_path / "f" / "activities.csv").read_text(encoding="utf-8").splitlines()
+    assert lines[0].split(",")[8:] == PROGRESS_HEADER
+    assert lines[3] == "C,Steel frame,Steel,12,10,40000,46000,B,2025-03-24,,5,40,2025-03-24,,"
+    assert lines[6] == "F,Handover of the loading bay,,0,,0,,E,,,,,,2025-05-09,1500.5"
+    assert lines[7] == "G,Fit-out,Finishes,7,5,12000,15000,F,,,,,,2025-05-23,"
+
+    write_project(YARD_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    assert data["project"]["status"] == {"data_date": "2025-04-07"}
+    assert {k: data["activities"][3][k] for k in PROGRESS_HEADER} == {
+        "actual_start": "2025-04-01", "actual_finish": None, "remaining": None,
+        "percent_complete": 62.5, "not_before": None, "deadline": None, "damages_per_day": None}
+
+    write_project(YARD_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    settings = {row[0]: row[1] for row in book["project"].iter_rows(min_row=2, values_only=True)}
+    assert settings["status.data_date"] == "2025-04-07"
+    assert [c.value for c in book["activities"][1]][8:] == PROGRESS_HEADER
+    assert [c.value for c in book["activities"][7]][8:] == [None] * 5 + ["2025-05-09", 1500.5]
+
+
+def test_only_the_progress_columns_in_use_are_written(tmp_path):
+    # a project without progress keeps the plan columns only; one with a single not_before
+    # gains that column alone
+    write_project(HALL_PROJECT, tmp_path / "plain")
+    header = (tmp_path / "plain" / "activities.csv").read_text(encoding="utf-8").splitlines()[0]
+    assert header == "id,name,trade,duration,crash_duration,cost,crash_cost,predecessors"
+    assert "status" not in (tmp_path / "plain" / "project.toml").read_text(encoding="utf-8")
+    acts = list(HALL_PROJECT.activities)
+    acts[2] = replace(acts[2], not_before=date(2025, 3, 10))
+    project = replace(HALL_PROJECT, activities=tuple(acts))
+    write_project(project, tmp_path / "one")
+    lines = (tmp_path / "one" / "activities.csv").read_text(encoding="utf-8").splitlines()
+    assert lines[0].endswith(",predecessors,not_before")
+    assert lines[3].endswith(",2025-03-10") and lines[2].endswith(",")
+    assert read_project(tmp_path / "one") == project
+
+
+def test_typed_date_cells_and_nulls_are_read(tmp_path):
+    """Date cells in a workbook and nulls in JSON read like ISO text and empty cells."""
+    write_project(YARD_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    settings = book["project"]
+    row = next(r for r in range(1, settings.max_row + 1)
+               if settings.cell(r, 1).value == "status.data_date")
+    settings.cell(row, 2).value = datetime(2025, 4, 7)
+    assert book["activities"]["I3"].value == "2025-03-06"  # B's actual start
+    book["activities"]["I3"] = datetime(2025, 3, 6)
+    assert book["activities"]["M4"].value == "2025-03-24"  # C's not_before (no blank row)
+    book["activities"]["M4"] = date(2025, 3, 24)
+    book.save(tmp_path / "p.xlsx")
+    assert read_project(tmp_path / "p.xlsx") == YARD_PROJECT
+
+    write_project(YARD_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    for record in data["activities"][4:]:  # E.. have no actual dates: keys may go
+        del record["actual_start"], record["actual_finish"]
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    assert read_project(tmp_path / "p.json") == YARD_PROJECT
+
+
+def test_remaining_wins_over_percent_complete():
+    # C gives remaining 5 and percent_complete 40; 40 percent of 12 days would leave 8
+    # (ceil(12 * 0.6) = 8, hand arithmetic). Both are kept, and progress uses remaining.
+    from hasten.calendar import CalendarClock
+    from hasten.status import apply_status
+    project = read_project(YARD)
+    c = project.activity("C")
+    assert (c.remaining, c.percent_complete) == (5, 40.0)
+    status = apply_status(project, CalendarClock(project.calendar, project.start))
+    assert status.activities[2].duration == 5
+    # D gives percent_complete 62.5 only: 8 * (100 - 62.5) / 100 = 3 days left (hand arithmetic)
+    assert status.activities[3].duration == 3
+
+
+def test_deadline_without_damages_and_zero_damages_without_deadline_are_allowed(yard):
+    edit(yard / "activities.csv", "B,2025-03-24,,5,40,2025-03-24,,",
+         "B,2025-03-24,,5,40,2025-03-24,,0")
+    project = read_project(yard)
+    assert project.activity("G").deadline == date(2025, 5, 23)
+    assert project.activity("G").damages_per_day == 0.0
+    assert project.activity("C").damages_per_day == 0.0 and project.activity("C").deadline is None
+
+
+def test_actual_start_on_the_data_date_is_allowed(yard):
+    # started on the data date itself: no work done yet, but it has begun
+    edit(yard / "activities.csv", "C:SS+4,2025-04-01,", "C:SS+4,2025-04-07,")
+    assert read_project(yard).activity("D").actual_start == date(2025, 4, 7)
+
+
+def test_calendars_section_is_refused(hall):
+    (hall / "project.toml").write_text(
+        (hall / "project.toml").read_text(encoding="utf-8") + "\n[calendars]\nsite = 1\n",
+        encoding="utf-8")
+    error = read_error(hall)
+    check_error(error, file="project.toml", row=None, column="calendars", value="calendars",
+                says="per-activity calendars are not supported yet; every activity uses the "
+                     "project calendar")
+    assert error.fix.startswith("remove it: every activity uses the project calendar")
+
+
+def test_calendar_column_is_refused(hall):
+    edit(hall / "activities.csv", ",predecessors\n", ",predecessors,calendar\n")
+    error = read_error(hall)
+    check_error(error, file="activities.csv", row=1, column="calendar", value="calendar",
+                says="per-activity calendars are not supported yet; every activity uses the "
+                     "project calendar")
+    assert error.fix.startswith("remove the column: every activity uses the project calendar")
+
+
+def test_calendars_in_workbook_and_json_are_refused(tmp_path):
+    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    book["project"].append(("calendars.site", "mon-sat"))
+    last = book["project"].max_row
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet project)", row=last,
+                column="calendars.site", value="calendars.site", says="not supported yet")
+
+    write_project(HALL_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["activities"][1]["calendar"] = "night"
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (activities)", row=None,
+                column="calendar", value="calendar", says="not supported yet")
+
+
+# (file, old text, new text, row, column, value, words the message must contain)
+BAD_PROGRESS_CASES = {
+    "data date not a date": ("project.toml", "data_date = 2025-04-07", 'data_date = "7.4.2025"',
+                             None, "status.data_date", "7.4.2025", "YYYY-MM-DD"),
+    "data date before the start": ("project.toml", "data_date = 2025-04-07",
+                                   "data_date = 2025-02-28", None, "status.data_date",
+                                   "2025-02-28", "before the project start (2025-03-03)"),
+    "actual start not a date": ("activities.csv", "2000,,,2025-03-03,", "2000,,,03/03/2025,",
+                                2, "actual_start", "03/03/2025", "not a date"),
+    "actual finish no such date": ("activities.csv", "2025-03-06,2025-03-21,",
+                                   "2025-03-06,2025-02-30,", 3, "actual_finish", "2025-02-30",
+                                   "no such date"),
+    "not before not a date": ("activities.csv", "5,40,2025-03-24,", "5,40,next week,",
+                              4, "not_before", "next week", "YYYY-MM-DD"),
+    "deadline not a date": ("activities.csv", ",2025-05-09,1500.5", ",9 May,1500.5",
+                            8, "deadline", "9 May", "YYYY-MM-DD"),
+    "actual finish without actual start": ("activities.csv", "2025-03-06,2025-03-21,",
+                                           ",2025-03-21,", 3, "actual_start", "",
+                                           "the actual start is empty but the actual finish "
+                                           "is given (2025-03-21)"),
+    "actual finish before actual start": ("activities.csv", "2025-03-06,2025-03-21,",
+                                          "2025-03-06,2025-03-05,", 3, "actual_finish",
+                                          "2025-03-05", "before the actual start (2025-03-06)"),
+    "actual start after the data date": ("activities.csv", "C:SS+4,2025-04-01,",
+                                         "C:SS+4,2025-04-08,", 6, "actual_start", "2025-04-08",
+                                         "after the data date (2025-04-07)"),
+    "actual start on the data date is fine, finish on it is not": (
+        "activities.csv", "2025-03-06,2025-03-21,", "2025-04-07,2025-04-07,", 3,
+        "actual_finish", "2025-04-07", "on or after the data date (2025-04-07)"),
+    "actual finish after the data date": ("activities.csv", "2025-03-06,2025-03-21,",
+                                          "2025-03-06,2025-04-09,", 3, "actual_finish",
+                                          "2025-04-09", "on or after the data date"),
+    "actual start before the project start": ("activities.csv", "2000,,,2025-03-03,",
+                                              "2000,,,2025-02-28,", 2, "actual_start",
+                                              "2025-02-28", "before the project start"),
+    "remaining above duration": ("activities.csv", "2025-03-24,,5,40,", "2025-03-24,,13,40,",
+                                 4, "remaining", "13", "more work remaining than the duration (12)"),
+    "remaining not whole": ("activities.csv", "2025-03-24,,5,40,", "2025-03-24,,4.5,40,",
+                            4, "remaining", "4.5", "whole"),
+    "remaining negative": ("activities.csv", "2025-03-24,,5,40,", "2025-03-24,,-1,40,",
+                           4, "remaining", "-1", "negative"),
+    "remaining without actual start": ("activities.csv", "D:SS+2,,,,,2025-04-22",
+                                       "D:SS+2,,,3,,2025-04-22", 7, "remaining", "3",
+                                       "progress needs an actual start"),
+    "percent without actual start": ("activities.csv", "D:SS+2,,,,,2025-04-22",
+                                     "D:SS+2,,,,20,2025-04-22", 7, "percent_complete", "20",
+                                     "progress needs an actual start"),
+    "percent above 100": ("activities.csv", ",,62.5,,,", ",,100.5,,,", 6, "percent_complete",
+                          "100.5", "outside 0 to 100"),
+    "percent negative": ("activities.csv", ",,62.5,,,", ",,-5,,,", 6, "percent_complete",
+                         "-5", "outside 0 to 100"),
+    "percent with a sign": ("activities.csv", ",,62.5,,,", ",,62.5%,,,", 6, "percent_complete",
+                            "62.5%", "plain number"),
+    "finished with work remaining": ("activities.csv", "2025-03-21,0,100,", "2025-03-21,2,100,",
+                                     3, "remaining", "2", "finished"),
+    "finished but not 100 percent": ("activities.csv", "2025-03-21,0,100,", "2025-03-21,0,90,",
+                                     3, "percent_complete", "90", "finished"),
+    "damages without deadline": ("activities.csv", "2025-03-24,,5,40,2025-03-24,,",
+                                 "2025-03-24,,5,40,2025-03-24,,300", 4, "damages_per_day", "300",
+                                 "the deadline is empty"),
+    "negative damages": ("activities.csv", ",2025-05-09,1500.5", ",2025-05-09,-1500.5",
+                         8, "damages_per_day", "-1500.5", "negative"),
+    "damages not a number": ("activities.csv", ",2025-05-09,1500.5", ",2025-05-09,1'500",
+                             8, "damages_per_day", "1'500", "not a plain number"),
+    "misspelt progress column": ("activities.csv", ",percent_complete,", ",percent_completed,",
+                                 1, "percent_completed", "percent_completed",
+                                 "did you mean 'percent_complete'"),
+}
+
+
+@pytest.mark.parametrize("case", list(BAD_PROGRESS_CASES), ids=list(BAD_PROGRESS_CASES))
+def test_bad_progress_input(yard, case):
+    file, old, new, row, column, value, says = BAD_PROGRESS_CASES[case]
+    edit(yard / file, old, new)
+    error = read_error(yard)
+    check_error(error, file=file, row=row, column=column, value=value, says=says)
+
+
+def test_actual_dates_without_a_data_date(yard):
+    edit(yard / "project.toml", "[status]\ndata_date = 2025-04-07\n", "")
+    error = read_error(yard)
+    check_error(error, file="activities.csv", row=2, column="actual_start", value="2025-03-03",
+                says="actual dates need a data date, and ")
+    assert error.problem.endswith("project.toml has none")
+    assert error.fix.startswith("give [status] data_date")
+
+
+def test_status_must_be_a_section(tmp_path):
+    write_project(YARD_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["project"]["status"] = "2025-04-07"
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (project)", row=None,
+                column="status", value="2025-04-07", says="must be a section")
+
+
+def test_progress_errors_in_workbook_and_json(tmp_path):
+    write_project(YARD_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    settings = book["project"]
+    row = next(r for r in range(1, settings.max_row + 1)
+               if settings.cell(r, 1).value == "status.data_date")
+    settings.cell(row, 2).value = "2025-04-02"  # before D's actual start (2025-04-01 is fine)
+    book["activities"]["I5"] = "2025-04-03"  # D on sheet row 5 (the sheet has no blank row)
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet activities)", row=5,
+                column="actual_start", value="2025-04-03", says="after the data date (2025-04-02)")
+
+    write_project(YARD_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["project"]["status"]["data_date"] = "2025-4-7"
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (project)", row=None,
+                column="status.data_date", value="2025-4-7", says="YYYY-MM-DD")
+    data["project"]["status"]["data_date"] = "2025-04-07"
+    data["activities"][5]["remaining"] = 1  # F, not started
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (activities)", row=6,
+                column="remaining", value="1", says="progress needs an actual start")
+
+
+@pytest.mark.parametrize("change, says", [
+    (dict(data_date=None), "actual dates need a data date"),
+    (dict(data_date=date(2025, 3, 21)), "on or after the data date"),
+    (dict(activities=(Activity("A", 3, damages_per_day=10.0),), links=()), "deadline is empty"),
+    (dict(activities=(Activity("A", 3, remaining=2),), links=()), "needs an actual start"),
+])
+def test_refuses_progress_that_would_not_read_back(tmp_path, change, says):
+    with pytest.raises(InputError, match=says):
+        write_project(replace(YARD_PROJECT, **change), tmp_path / "p.json")
+    assert list(tmp_path.iterdir()) == []
+
+
 # ---------------------------------------------------------------- writing
 
 def test_written_layouts(tmp_path):
@@ -667,9 +1000,42 @@ def with_options(draw, activity: Activity) -> Activity:
 
 
 @st.composite
+def with_progress(draw, activity: Activity, start: date, data_date: date | None) -> Activity:
+    """Progress and date fields as the rules allow them: actual dates only with a data date,
+    between the project start and the data date; remaining and percent only once started
+    (0 and 100 when finished); damages above 0 only with a deadline."""
+    fields: dict[str, object] = {}
+    if draw(st.booleans()):
+        fields["not_before"] = draw(st.dates())
+    if draw(st.booleans()):
+        fields["deadline"] = draw(st.dates())
+        fields["damages_per_day"] = draw(st.just(0.0) | MONEY)
+    states = ["waiting"]
+    if data_date is not None:
+        states.append("started")
+        if data_date > start:
+            states.append("finished")
+    state = draw(st.sampled_from(states))
+    if state == "started":
+        fields["actual_start"] = draw(st.dates(start, data_date))
+        fields["remaining"] = draw(st.none() | st.integers(0, activity.duration))
+        fields["percent_complete"] = draw(st.none() | st.floats(0, 100) | st.integers(0, 100).map(float))
+    elif state == "finished":
+        last = data_date - timedelta(days=1)
+        fields["actual_start"] = draw(st.dates(start, last))
+        fields["actual_finish"] = draw(st.dates(fields["actual_start"], last))
+        fields["remaining"] = draw(st.sampled_from([None, 0]))
+        fields["percent_complete"] = draw(st.sampled_from([None, 100.0]))
+    return replace(activity, **fields)
+
+
+@st.composite
 def project(draw) -> Project:
     ids = draw(st.lists(ID, min_size=1, max_size=7, unique=True))
-    activities = tuple(draw(activity(i).flatmap(with_options)) for i in ids)
+    start = draw(st.dates(max_value=date(9000, 1, 1)))
+    data_date = draw(st.none() | st.integers(0, 400).map(lambda days: start + timedelta(days=days)))
+    activities = tuple(draw(activity(i).flatmap(with_options)
+                            .flatmap(lambda a: with_progress(a, start, data_date))) for i in ids)
     pairs = [(a, b) for a in range(len(ids)) for b in range(a + 1, len(ids))]
     chosen = draw(st.lists(st.tuples(st.sampled_from(pairs), st.sampled_from(list(LinkType))),
                            unique=True, max_size=10)) if pairs else []
@@ -684,7 +1050,7 @@ def project(draw) -> Project:
                         named.get(workdays, ",".join(day_names[d] for d in workdays)))
     return Project(
         name=draw(TEXT.filter(bool)),
-        start=draw(st.dates()),
+        start=start,
         activities=activities,
         links=tuple(links),
         calendar=calendar,
@@ -692,6 +1058,7 @@ def project(draw) -> Project:
         costs=Costs(draw(MONEY)),
         contract=Contract(draw(st.none() | st.dates()), draw(MONEY), draw(MONEY),
                           draw(st.none() | st.integers(0, 400))),
+        data_date=data_date,
     )
 
 

@@ -60,10 +60,10 @@ class CalendarClock:
         number of working days from the start up to and including ``day``. A non-working
         day counts as the working day before it. With ``finish=False`` it is read as a start.
         """
-        d = np.datetime64(day, "D")
-        if finish:
-            return int(np.busday_count(self.day0, d + 1, busdaycal=self._cal))
-        return int(np.busday_count(self.day0, d, busdaycal=self._cal))
+        end = np.datetime64(day, "D") + (1 if finish else 0)
+        if end >= self.day0:
+            return int(np.busday_count(self.day0, end, busdaycal=self._cal))
+        return -int(np.busday_count(end, self.day0, busdaycal=self._cal))  # working days in [end, day0)
 
     def working_days_in(self, first: date, last: date) -> int:
         """Number of working days from ``first`` to ``last`` inclusive."""

@@ -20,13 +20,13 @@ from typing import Annotated, Optional
 import typer
 
 from . import render
-from .calendar import CalendarClock
 from .crashing import Study
 from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
 from .formats.research import read_research
 from .options import drop_dominated
+from .network import Network
 from .network import schedule as cpm
 from .recovery import recovery
 
@@ -120,15 +120,17 @@ def schedule(
     """Forward and backward pass: dates, floats, critical paths."""
     with _errors():
         p = read_project(project)
-        clock = CalendarClock(p.calendar, p.start)
+        net = Network(p)
+        clock = net.clock
         limit = None if deadline is None else clock.offset_of(_date(deadline, "--deadline"), finish=True)
-        sched = cpm(p, deadline=limit)
+        sched = cpm(net, deadline=limit)
+        warnings = net.status.warnings
         if out is not None:
             _write_table(out, render.schedule_rows(p, sched, clock))
         if as_json:
-            _json(render.schedule_json(p, sched, clock))
+            _json(render.schedule_json(p, sched, clock, warnings))
         else:
-            _echo(render.schedule_text(p, sched, clock))
+            _echo(render.schedule_text(p, sched, clock, warnings))
 
 
 def _write_table(out: Path, rows: list[dict]) -> None:

@@ -182,7 +182,8 @@ class Study:
                    for a, fixed in zip(self.project.activities, self.network.fixed))
 
     def _solve(self, target: int, *, tie_break: bool = True, start=None, strict: bool = False) -> Solution:
-        if target >= self.normal_finish and not (self.discrete or self.penalised):
+        deadlines = strict and any(a.deadline is not None for a in self.project.activities)
+        if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
         sol = self.model.least_cost(target, tie_break=tie_break, start=start, strict=strict)
@@ -298,7 +299,12 @@ class Study:
         points = self.curve(progress=progress)
         table = tuple(self.total_cost_point(p.finish, p.added_cost, p.penalty) for p in reversed(points))
         best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
-        return BestFinish(best, table, self.plan(best.finish))
+        plan = self.plan(best.finish)
+        # Report the plan's own figures: among plans of the same least cost the tie-break may
+        # pick another mix of acceleration and milestone damages, or finish a day sooner.
+        # Its total can only be lower than the table's, and the table's is the least.
+        point = self.total_cost_point(plan.finish, plan.added_cost, plan.penalty)
+        return BestFinish(point, table, plan)
 
     def budget(self, spend: float) -> Plan:
         """The earliest finish whose least added cost is within ``spend``, and its plan."""

@@ -154,8 +154,8 @@ class CrashModel:
         horizon = self.horizon = max(net.forward_finish(), 1)
         cols, costs, self.penalised = [], [], []
         for i, act in enumerate(net.project.activities):
-            if act.deadline is None or not act.damages_per_day or net.fixed[i]:
-                continue
+            if act.deadline is None or net.fixed[i]:
+                continue  # (a deadline without damages costs nothing but binds strict plans)
             limit = clock.offset_of(act.deadline, finish=True)
             if limit >= horizon:
                 continue
@@ -268,9 +268,11 @@ class CrashModel:
         lm.use_objective(objective.value)
         lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
         lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))
-        if len(self.late) and strict != self._strict:
+        current = self._strict if lm is self.lp else None  # a fresh copy: set its bounds anyway
+        if len(self.late) and strict != current:
             lm.set_cols_bounds(self.late, 0.0, 0.0 if strict else 1.0)  # strict: no milestone late
-            self._strict = strict
+            if lm is self.lp:
+                self._strict = strict
         result = lm.solve(start=start)
         if result.status == "infeasible":
             return None

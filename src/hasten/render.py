@@ -47,35 +47,53 @@ def _d(day: date) -> str:
     return day.isoformat()
 
 
+def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tuple[list[str], list[str]]:
+    """First and last day worked for each (start, finish) pair, in two vectorised calls.
+
+    A milestone (start == finish) is dated on the last working day before it, like the
+    project finish: the day its predecessors end."""
+    first = clock.dates_of([f - 1 if f == s and s > 0 else s for s, f in zip(starts, finishes)])
+    last = clock.dates_of([max(f - 1, 0) if f > s else max(s - 1, 0) for s, f in zip(starts, finishes)])
+    return [d.isoformat() for d in first], [d.isoformat() for d in last]
+
+
 def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> list[dict]:
     """One row per activity with offsets and the dates a person reads."""
     acts = {a.id: a for a in project.activities}
+    rs = sched.activities
+    es, ef = _dates(clock, [r.es for r in rs], [r.ef for r in rs])
+    ls, lf = _dates(clock, [r.ls for r in rs], [r.lf for r in rs])
     rows = []
-    for r in sched.activities:
+    for k, r in enumerate(rs):
         a = acts[r.id]
         rows.append({
-            "id": r.id, "name": a.name, "trade": a.trade, "duration": r.duration,
+            "id": r.id, "name": a.name, "trade": a.trade, "duration": r.duration, "state": r.state,
             "es": r.es, "ef": r.ef, "ls": r.ls, "lf": r.lf,
-            "early_start": _d(clock.start_date(r.es)), "early_finish": _d(clock.finish_date(r.es, r.ef)),
-            "late_start": _d(clock.start_date(r.ls)), "late_finish": _d(clock.finish_date(r.ls, r.lf)),
+            "early_start": es[k], "early_finish": ef[k], "late_start": ls[k], "late_finish": lf[k],
             "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
             "driving": list(r.driving),
         })
     return rows
 
 
-def schedule_text(project: Project, sched: Schedule, clock: CalendarClock) -> str:
+def schedule_text(project: Project, sched: Schedule, clock: CalendarClock, warnings=()) -> str:
     rows = schedule_rows(project, sched, clock)
+    progress = project.data_date is not None
     table = tabulate(
-        [[r["id"], r["name"], r["trade"], r["duration"], r["early_start"], r["early_finish"],
-          r["late_start"], r["late_finish"], r["total_float"], r["free_float"],
-          "yes" if r["critical"] else ""] for r in rows],
-        headers=["id", "name", "trade", "days", "early start", "early finish", "late start",
-                 "late finish", "total float", "free float", "critical"],
+        [[r["id"], r["name"], r["trade"]] + ([r["state"]] if progress else [])
+         + [r["duration"], r["early_start"], r["early_finish"], r["late_start"], r["late_finish"],
+            r["total_float"], r["free_float"], "yes" if r["critical"] else ""] for r in rows],
+        headers=["id", "name", "trade"] + (["status"] if progress else [])
+        + [("days left" if progress else "days"), "early start", "early finish", "late start",
+           "late finish", "total float", "free float", "critical"],
         tablefmt="simple", disable_numparse=True)
     lines = [f"{project.name}: {sched.finish} working days, "
-             f"{_d(clock.start_date(0))} to {_d(clock.project_finish_date(sched.finish))}",
-             "Dates are the first and last day worked; floats in working days.", "", table, ""]
+             f"{_d(clock.start_date(0))} to {_d(clock.project_finish_date(sched.finish))}"]
+    if progress:
+        lines.append(f"Data date {_d(project.data_date)}: finished work shows its actual dates; "
+                     "started work its actual start and forecast finish.")
+    lines += ["Dates are the first and last day worked (a milestone: the day its predecessors end); "
+              "floats in working days."] + [f"Warning: {w}" for w in warnings] + ["", table, ""]
     lines += _paths(sched)
     return "\n".join(lines)
 
@@ -89,15 +107,17 @@ def _paths(sched: Schedule) -> list[str]:
     return out
 
 
-def schedule_json(project: Project, sched: Schedule, clock: CalendarClock) -> dict:
+def schedule_json(project: Project, sched: Schedule, clock: CalendarClock, warnings=()) -> dict:
     return {
         "project": project.name,
         "start_date": _d(clock.start_date(0)),
         "finish": sched.finish,
         "finish_date": _d(clock.project_finish_date(sched.finish)),
+        "data_date": None if project.data_date is None else _d(project.data_date),
         "deadline": sched.deadline,
         "critical_paths": [list(p) for p in sched.critical_paths],
         "critical_paths_truncated": sched.paths_truncated,
+        "warnings": list(warnings),
         "activities": schedule_rows(project, sched, clock),
     }
 
@@ -228,8 +248,8 @@ def best_text(study: Study, best: BestFinish, *, around: int = 5) -> str:
     shown = rows[max(0, k - around): k + around + 1]
     table = tabulate(
         [[("* " if r.finish == best.best.finish else "  ") + str(r.finish), _d(r.finish_date),
-          money(r.added_cost), money(r.time.indirect), money(r.time.damages), money(r.time.bonus),
-          money(r.total_cost)] for r in shown],
+          money(r.added_cost), money(r.time.indirect), money(r.time.damages + r.milestone_damages),
+          money(r.time.bonus), money(r.total_cost)] for r in shown],
         headers=["finish (days)", "finish date", "added direct", "indirect", "damages", "bonus",
                  "total cost"], tablefmt="simple", disable_numparse=True)
     lines = [f"Least total cost for {study.project.name}",
@@ -250,7 +270,7 @@ def best_json(study: Study, best: BestFinish) -> dict:
         return {"finish": r.finish, "finish_date": _d(r.finish_date), "total_cost": _r(r.total_cost),
                 "direct_cost": _r(r.direct_cost), "added_cost": _r(r.added_cost),
                 "indirect_cost": _r(r.time.indirect), "damages": _r(r.time.damages),
-                "bonus": _r(r.time.bonus)}
+                "milestone_damages": _r(r.milestone_damages), "bonus": _r(r.time.bonus)}
 
     out = row(b)
     out["table"] = [row(r) for r in best.table]

@@ -86,6 +86,9 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
                          column="actual_finish" if act.actual_finish else "actual_start",
                          value=str(act.actual_finish or act.actual_start),
                          fix="actual dates are history: keep them before the data date, or move the data date")
+    if act.duration == 0:  # a milestone is dated on the day its predecessors end
+        at = clock.offset_of(act.actual_finish or act.actual_start, finish=True)
+        return ActivityStatus(DONE, 0, at, at, ())
     start = clock.offset_of(act.actual_start, finish=False)
     if act.actual_finish is not None:
         if act.actual_finish < act.actual_start:
@@ -97,6 +100,10 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
     if act.remaining is not None:
         remaining = act.remaining
     elif act.percent_complete is not None:
+        if not 0 <= act.percent_complete <= 100:
+            raise InputError(f"activity {act.id} has percent complete outside 0-100",
+                             column="percent_complete", value=act.percent_complete,
+                             fix="give a percentage from 0 to 100")
         remaining = math.ceil(act.duration * (100.0 - act.percent_complete) / 100.0 - 1e-9)
     else:
         remaining = max(act.duration - elapsed, 0)

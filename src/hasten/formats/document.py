@@ -3,7 +3,11 @@
 Canonical choices:
 
 * every optional setting that is None is left out; all other settings are written;
-* activities are written in order with all columns; a crash column that is None stays empty;
+* activities are written in order with all plan columns; a crash column that is None stays
+  empty; of the progress and date columns (``actual_start`` ... ``damages_per_day``) only
+  those that some activity uses are written (a project without progress keeps the plan
+  layout), empty where an activity has no value; ``damages_per_day`` 0 stays empty;
+* the data date goes into the ``status`` section when it is given;
 * links go into the ``predecessors`` column (``Link.text()``, joined with ``"; "``) when the
   project's link order is the order reading gives back (grouped by successor in activity
   order); otherwise all links go into the links table, in order, and the column stays empty;
@@ -20,7 +24,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import (LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS,
+                                  STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
 from hasten.model import Activity, Link, Option, Project
@@ -30,13 +35,23 @@ __all__ = ["Document", "to_document", "document_tables", "first_difference"]
 
 @dataclass(frozen=True)
 class Document:
-    """Plain values ready for a writer: flat settings and one list of dicts per table."""
+    """Plain values ready for a writer: flat settings and one list of dicts per table.
+
+    Every activity record has the same keys: the plan columns and the progress columns in use.
+    Dates are ``date`` objects; each writer turns them into its own form.
+    """
 
     settings: dict[str, object]
     activities: list[dict[str, object]]
     links: list[dict[str, object]]
     crash_steps: list[dict[str, object]]
     options: list[dict[str, object]] = field(default_factory=list)
+
+    @property
+    def activity_columns(self) -> tuple[str, ...]:
+        """The columns to write: the plan columns, then the progress columns in use."""
+        used = {key for record in self.activities for key in record}
+        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS if c in used)
 
 
 def _in_reading_order(project: Project) -> bool:
@@ -45,6 +60,20 @@ def _in_reading_order(project: Project) -> bool:
     if any(link.succ not in index for link in project.links):
         return False  # only the links table can carry (and report) such a link
     return tuple(sorted(project.links, key=lambda link: index[link.succ])) == project.links
+
+
+def _progress_cells(activity: Activity) -> dict[str, object]:
+    """The progress and date cells of one activity (None = empty)."""
+    return {
+        "actual_start": activity.actual_start,
+        "actual_finish": activity.actual_finish,
+        "remaining": activity.remaining,
+        "percent_complete": _plain(activity.percent_complete),
+        "not_before": activity.not_before,
+        "deadline": activity.deadline,
+        # 0 is the default and reads back from an empty cell
+        "damages_per_day": _plain(activity.damages_per_day) or None,
+    }
 
 
 def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
@@ -84,9 +113,12 @@ def to_document(project: Project) -> Document:
         for l in project.links]
     settings = {k: [_plain(x) for x in v] if isinstance(v, list) else _plain(v)
                 for k, v in settings_values(project).items()}
+    progress = [_progress_cells(a) for a in project.activities]
+    used = [c for c in PROGRESS_COLUMNS if any(cells[c] is not None for cells in progress)]
     return Document(
         settings=settings,
-        activities=[_activity_row(a, column_links) for a in project.activities],
+        activities=[_activity_row(a, column_links) | {c: cells[c] for c in used}
+                    for a, cells in zip(project.activities, progress)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}
                      for a in project.activities for s in a.steps],
@@ -107,7 +139,7 @@ def document_tables(document: Document, labels: Mapping[str, str]) -> Tables:
         return table_from_grid(labels[key], _grid(columns, records))
     return Tables(
         settings=Settings(labels["settings"], document.settings),
-        activities=table("activities", ACTIVITY_COLUMNS, document.activities),
+        activities=table("activities", document.activity_columns, document.activities),
         links=table("links", LINK_COLUMNS, document.links),
         crash_steps=table("crash_steps", STEP_COLUMNS, document.crash_steps),
         options=table("options", OPTION_COLUMNS, document.options),

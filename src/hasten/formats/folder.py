@@ -1,6 +1,11 @@
 """The folder form: ``project.toml``, ``activities.csv`` and optional ``links.csv``,
 ``crash_steps.csv`` and ``options.csv``.
 
+``project.toml`` may have a ``[status]`` section with ``data_date``; ``activities.csv`` may
+have the progress and date columns ``actual_start``, ``actual_finish``, ``remaining``,
+``percent_complete``, ``not_before``, ``deadline`` and ``damages_per_day`` (dates as
+``YYYY-MM-DD``; see :mod:`hasten.formats.parse` for their rules).
+
 ``options.csv`` lists discrete ways to perform an activity, one per row, with the columns
 ``id``, ``option``, ``duration``, ``added_cost`` and optional ``note``, ``crash_duration``,
 ``cost_per_day`` (the option's own linear shortening; both or neither).
@@ -25,7 +30,7 @@ from hasten.errors import InputError
 from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import flatten, nest
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.formats.tomlwrite import toml_text
@@ -136,7 +141,7 @@ def write(document: Document, folder: Path) -> None:
     text = toml_text(nest(document.settings))
     files = {
         FILES["settings"]: lambda path: path.write_text(text, encoding="utf-8", newline="\n"),
-        FILES["activities"]: _csv_writer(ACTIVITY_COLUMNS, document.activities),
+        FILES["activities"]: _csv_writer(document.activity_columns, document.activities),
     }
     for key, columns in _COLUMNS.items():
         records = getattr(document, key)

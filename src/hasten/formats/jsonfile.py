@@ -6,17 +6,22 @@ Layout::
     {"project": {"name": ..., "start": "2025-03-03", "calendar": "mon-fri" or ["mon", ...],
                  "holidays": ["2025-12-25"], "currency": "EUR",
                  "costs": {"indirect_per_day": 850},
-                 "contract": {"finish": "2025-06-30", "damages_per_day": 1200, ...}},
+                 "contract": {"finish": "2025-06-30", "damages_per_day": 1200, ...},
+                 "status": {"data_date": "2025-05-05"}},
      "activities": [{"id": "A", "name": ..., "trade": ..., "duration": 5,
                      "crash_duration": 3, "cost": 12000, "crash_cost": 15000,
-                     "predecessors": "B; C:SS+2"}, ...],
+                     "predecessors": "B; C:SS+2",
+                     "actual_start": "2025-04-07", "actual_finish": null,
+                     "remaining": 2, "percent_complete": null, "not_before": null,
+                     "deadline": null, "damages_per_day": null}, ...],
      "links": [{"predecessor": "A", "successor": "B", "type": "FS", "lag": 0}, ...],
      "crash_steps": [{"id": "A", "days": 1, "cost_per_day": 500}, ...],
      "options": [{"id": "A", "option": "second crew", "duration": 3, "added_cost": 2400,
                   "note": "", "crash_duration": null, "cost_per_day": null}, ...]}
 
-``links``, ``crash_steps`` and ``options`` may be left out. Dates are ISO text; an absent crash value is
-``null``. Row numbers in messages are the 1-based position of the item in its list.
+``links``, ``crash_steps`` and ``options`` may be left out, and so may ``status`` and the
+progress and date keys of an activity (written only when some activity uses them). Dates
+are ISO text; an absent crash, progress or date value is ``null``. Row numbers in messages are the 1-based position of the item in its list.
 """
 
 from __future__ import annotations
@@ -103,7 +108,7 @@ def write(document: Document, path: Path) -> None:
     """Write the JSON file whole (temporary file, then rename)."""
     data = {
         "project": nest({k: _plain(v) for k, v in document.settings.items()}),
-        "activities": document.activities,
+        "activities": [{k: _plain(v) for k, v in record.items()} for record in document.activities],
         "links": document.links,
         "crash_steps": document.crash_steps,
         "options": document.options,

@@ -4,6 +4,26 @@
 each row with the row number the user sees) and returns a Project or raises
 :class:`~hasten.errors.InputError` (or :class:`~hasten.errors.CycleError`) naming the
 file, row, column and value, and saying how to fix it.
+
+Progress and date columns of the activities table (all optional):
+
+* ``actual_start``, ``actual_finish`` (the last day worked): dates of work already done.
+  They need the settings' data date (``[status] data_date``); an actual start must be on or
+  before it, an actual finish before it and not before the actual start; an actual finish
+  needs an actual start; no actual start may be before the project start.
+* ``remaining`` (whole working days, at most the duration) and ``percent_complete``
+  (0 to 100, decimals allowed) describe a started activity, so they need an actual start.
+  Both may be given: ``remaining`` wins and ``percent_complete`` is kept for the record
+  (see :mod:`hasten.status`). On a finished activity only ``remaining`` 0 and
+  ``percent_complete`` 100 are accepted.
+* ``not_before``: the activity starts on or after this date (a delivery, an access date).
+* ``deadline``: the last day allowed for the activity's finish (an interim milestone);
+  ``damages_per_day`` (>= 0, per calendar day late) is charged past it. A deadline without
+  damages is allowed: it is reported, costs nothing and binds no plan. Damages above 0
+  without a deadline are refused (there is no date to be late against); 0 is the same as
+  empty.
+
+A ``calendar`` column is refused: per-activity calendars are not supported yet.
 """
 
 from __future__ import annotations
@@ -13,26 +33,32 @@ import math
 import re
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
+from datetime import date
 
 import networkx as nx
 
 from hasten.errors import CycleError
-from hasten.formats.cells import Where, number_value, text_value, whole_value
+from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
-from hasten.formats.settings import parse_settings
+from hasten.formats.settings import CALENDARS_FIX, parse_settings
 from hasten.formats.tables import Row, Table, Tables
 from hasten.model import Activity, CrashStep, Link, LinkType, Option, Project
 
 __all__ = [
     "ACTIVITY_COLUMNS",
+    "PLAN_COLUMNS",
+    "PROGRESS_COLUMNS",
     "LINK_COLUMNS",
     "STEP_COLUMNS",
     "OPTION_COLUMNS",
     "parse_tables",
 ]
 
-ACTIVITY_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "crash_cost",
-                    PREDECESSORS)
+PLAN_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "crash_cost",
+                PREDECESSORS)
+PROGRESS_COLUMNS = ("actual_start", "actual_finish", "remaining", "percent_complete",
+                    "not_before", "deadline", "damages_per_day")
+ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS
 ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")
@@ -182,7 +208,99 @@ def _activity(row: Row, table: Table) -> Activity:
         crash_duration=crash_duration,
         cost=cost,
         crash_cost=crash_cost,
+        **_progress(row, table, duration),
     )
+
+
+def _percent(text: str, where: Where) -> float:
+    """A percentage of work done, 0 to 100."""
+    number = number_value(text, where, minimum=None)
+    if not 0 <= number <= 100:
+        raise where.error("the percent complete is outside 0 to 100", text,
+                          "write a number from 0 to 100 (without the % sign)")
+    return number
+
+
+def _progress(row: Row, table: Table, duration: int) -> dict[str, object]:
+    """The progress and date fields of one row, with the checks that need only this row
+    (those against the data date and the project start are in :func:`_check_progress`)."""
+    fields = {
+        "actual_start": _optional(row, table, "actual_start", date_value),
+        "actual_finish": _optional(row, table, "actual_finish", date_value),
+        "remaining": _optional(row, table, "remaining", whole_value),
+        "percent_complete": _optional(row, table, "percent_complete", _percent),
+        "not_before": _optional(row, table, "not_before", date_value),
+        "deadline": _optional(row, table, "deadline", date_value),
+        "damages_per_day": _optional(row, table, "damages_per_day", number_value, 0.0),
+    }
+    start, finish = fields["actual_start"], fields["actual_finish"]
+    remaining, percent = fields["remaining"], fields["percent_complete"]
+    if finish is not None and start is None:
+        raise _cell(row, table, "actual_start")[1].error(
+            f"the actual start is empty but the actual finish is given ({finish.isoformat()})", "",
+            "write the date work started, or clear the actual finish")
+    if finish is not None and finish < start:
+        raise _cell(row, table, "actual_finish")[1].error(
+            f"the actual finish is before the actual start ({start.isoformat()})",
+            row.cells["actual_finish"], "check both actual dates (the finish is the last day worked)")
+    for column, value in (("remaining", remaining), ("percent_complete", percent)):
+        if value is not None and start is None:
+            raise _cell(row, table, column)[1].error(
+                f"progress needs an actual start: the {column.replace('_', ' ')} is given but the "
+                "actual start is empty", row.cells[column],
+                "write the date work started in actual_start, or clear this cell if work has not "
+                "started")
+    if remaining is not None and remaining > duration:
+        raise _cell(row, table, "remaining")[1].error(
+            f"more work remaining than the duration ({duration})", row.cells["remaining"],
+            f"write {duration} or fewer working days, or raise the duration")
+    if finish is not None and remaining not in (None, 0):
+        raise _cell(row, table, "remaining")[1].error(
+            "the activity is finished (it has an actual finish) but work is remaining",
+            row.cells["remaining"], "write 0 or clear the cell, or clear the actual finish")
+    if finish is not None and percent not in (None, 100):
+        raise _cell(row, table, "percent_complete")[1].error(
+            "the activity is finished (it has an actual finish) but is not 100 percent complete",
+            row.cells["percent_complete"], "write 100 or clear the cell, or clear the actual finish")
+    if fields["damages_per_day"] > 0 and fields["deadline"] is None:
+        raise _cell(row, table, "damages_per_day")[1].error(
+            "damages per day are given but the deadline is empty, so there is no date to be "
+            "late against", row.cells["damages_per_day"],
+            "write the activity's deadline (the last day allowed), or clear the damages")
+    return fields
+
+
+def _check_progress(rows: Sequence[_ActivityRow], table: Table, start: date,
+                    data_date: date | None, settings_source: str) -> None:
+    """Actual dates against the project start and the data date (the history before it)."""
+    by_line = {r.line: r for r in table.rows}
+    for item in rows:
+        act, where = item.activity, item.where
+        cells = by_line[where.row].cells
+        if act.actual_start is None:
+            continue
+        if data_date is None:
+            raise where.at("actual_start").error(
+                f"actual dates need a data date, and {settings_source} has none",
+                cells["actual_start"],
+                "give [status] data_date (workbook key status.data_date, JSON "
+                "project.status.data_date): the date of the progress update")
+        if act.actual_start < start:
+            raise where.at("actual_start").error(
+                f"the actual start is before the project start ({start.isoformat()})",
+                cells["actual_start"], "correct the date, or move the project start back")
+        if act.actual_start > data_date:
+            raise where.at("actual_start").error(
+                f"the actual start is after the data date ({data_date.isoformat()}); actual "
+                "dates are history", cells["actual_start"],
+                "correct the date, or clear it if work has not started (or move the data date)")
+        if act.actual_finish is not None and act.actual_finish >= data_date:
+            raise where.at("actual_finish").error(
+                f"the actual finish is on or after the data date ({data_date.isoformat()}); "
+                "actual dates are history and the data date is the first day of remaining work",
+                cells["actual_finish"],
+                "correct the date, or clear it and give the remaining work if the activity is "
+                "not finished (or move the data date)")
 
 
 def _activity_rows(table: Table) -> list[_ActivityRow]:
@@ -190,7 +308,12 @@ def _activity_rows(table: Table) -> list[_ActivityRow]:
     if not table.rows:
         raise Where(table.source, table.header_line).error(
             "there are no activities" if table.columns else "the table is empty", None,
-            f"add a header row ({', '.join(ACTIVITY_COLUMNS)}) and one row per activity")
+            f"add a header row ({', '.join(PLAN_COLUMNS)}) and one row per activity")
+    if "calendar" in table.columns:
+        raise Where(table.source, table.header_line, "calendar").error(
+            "per-activity calendars are not supported yet; every activity uses the project "
+            "calendar", "calendar",
+            f"remove the column: {CALENDARS_FIX.removeprefix('remove it: ')}")
     _check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
     rows = [_ActivityRow(_activity(r, table), Where(table.source, r.line)) for r in table.rows]
     first: dict[str, _ActivityRow] = {}
@@ -414,6 +537,8 @@ def parse_tables(tables: Tables) -> Project:
     """Validate everything and build the Project (activity and link order as given)."""
     settings = parse_settings(tables.settings)
     rows = _activity_rows(tables.activities)
+    _check_progress(rows, tables.activities, settings.start, settings.data_date,
+                    tables.settings.source)
     ids = [r.activity.id for r in rows]
     links = _resolve_links(_column_links(tables.activities) + _table_links(tables.links), ids)
     steps = _step_rows(tables.crash_steps, ids)
@@ -432,4 +557,5 @@ def parse_tables(tables: Tables) -> Project:
         currency=settings.currency,
         costs=settings.costs,
         contract=settings.contract,
+        data_date=settings.data_date,
     )

@@ -1,8 +1,15 @@
 """Project settings (``project.toml``, the workbook's project sheet, the JSON ``project`` object).
 
 Keys are flat and dotted here (``contract.finish``); :func:`flatten` and :func:`nest` convert
-from and to the sectioned TOML/JSON layout. Unknown keys are refused, except anything under
-the sections ``status`` and ``calendars``, which are reserved for later and ignored.
+from and to the sectioned TOML/JSON layout. Unknown keys are refused.
+
+``[status] data_date`` is the data date of a progress update (see :mod:`hasten.status`):
+the first day of remaining work; actual dates must lie before it. It may not be before the
+project start.
+
+Per-activity calendars are not supported yet: a ``[calendars]`` section (workbook keys
+``calendars.*``) is refused with a message saying that every activity uses the project
+calendar, instead of being silently ignored.
 """
 
 from __future__ import annotations
@@ -19,7 +26,8 @@ from hasten.model import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
 __all__ = [
     "SETTING_KEYS",
     "SECTIONS",
-    "RESERVED_SECTIONS",
+    "UNSUPPORTED_SECTIONS",
+    "CALENDARS_FIX",
     "NAMED_CALENDARS",
     "ProjectSettings",
     "parse_settings",
@@ -33,10 +41,13 @@ SETTING_KEYS = (
     "costs.indirect_per_day",
     "contract.finish", "contract.damages_per_day", "contract.bonus_per_day",
     "contract.bonus_cap_days",
+    "status.data_date",
 )
 REQUIRED_KEYS = ("name", "start")
-SECTIONS = ("costs", "contract")
-RESERVED_SECTIONS = ("status", "calendars")
+SECTIONS = ("costs", "contract", "status")
+UNSUPPORTED_SECTIONS = ("calendars",)
+CALENDARS_FIX = ("remove it: every activity uses the project calendar (calendar and holidays "
+                 "in the project settings)")
 NAMED_CALENDARS = {
     "mon-fri": (0, 1, 2, 3, 4),
     "mon-sat": (0, 1, 2, 3, 4, 5),
@@ -56,6 +67,7 @@ class ProjectSettings:
     currency: str
     costs: Costs
     contract: Contract
+    data_date: date | None = None
 
 
 def flatten(nested: Mapping[str, object], where: Where) -> dict[str, object]:
@@ -87,8 +99,12 @@ def nest(flat: Mapping[str, object]) -> dict[str, object]:
 def _check_keys(settings: Settings) -> None:
     """Refuse unknown keys (with a close match if there is one) and missing required keys."""
     for key in settings.values:
-        if key.partition(".")[0] in RESERVED_SECTIONS or key in SETTING_KEYS:
+        if key in SETTING_KEYS:
             continue
+        if key.partition(".")[0] in UNSUPPORTED_SECTIONS:
+            raise settings.where(key).error(
+                "per-activity calendars are not supported yet; every activity uses the project "
+                "calendar", key, CALENDARS_FIX)
         close = difflib.get_close_matches(key, SETTING_KEYS, n=1)
         hint = f"did you mean '{close[0]}'? " if close else ""
         raise settings.where(key).error("unknown key", key,
@@ -158,9 +174,16 @@ def parse_settings(settings: Settings) -> ProjectSettings:
     """Validate the settings and turn them into model values."""
     _check_keys(settings)
     holidays = _optional(settings, "holidays", parse_holidays, ())
+    name = _required_text(settings)
+    start = date_value(_given(settings, "start"), settings.where("start"))
+    data_date = _optional(settings, "status.data_date", date_value, None)
+    if data_date is not None and data_date < start:
+        raise settings.where("status.data_date").error(
+            f"the data date is before the project start ({start.isoformat()})",
+            data_date.isoformat(), "write the date of the progress update, on or after the start")
     return ProjectSettings(
-        name=_required_text(settings),
-        start=date_value(_given(settings, "start"), settings.where("start")),
+        name=name,
+        start=start,
         calendar=parse_calendar(_given(settings, "calendar"), holidays, settings.where("calendar")),
         currency=_optional(settings, "currency", text_value, ""),
         costs=Costs(_optional(settings, "costs.indirect_per_day", number_value, 0.0)),
@@ -170,6 +193,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
             bonus_per_day=_optional(settings, "contract.bonus_per_day", number_value, 0.0),
             bonus_cap_days=_optional(settings, "contract.bonus_cap_days", _days, None),
         ),
+        data_date=data_date,
     )
 
 
@@ -201,5 +225,6 @@ def settings_values(project: Project) -> dict[str, object]:
         "contract.damages_per_day": project.contract.damages_per_day,
         "contract.bonus_per_day": project.contract.bonus_per_day,
         "contract.bonus_cap_days": project.contract.bonus_cap_days,
+        "status.data_date": project.data_date,
     }
     return {k: v for k, v in values.items() if v is not None}

@@ -5,13 +5,14 @@ Layout:
 
 * ``project`` has the columns ``key`` and ``value``, one setting per row. Section keys are
   dotted: ``costs.indirect_per_day``, ``contract.finish``, ``contract.damages_per_day``,
-  ``contract.bonus_per_day``, ``contract.bonus_cap_days``. ``holidays`` is ONE cell with
-  the dates separated by commas (``2025-12-25, 2025-12-26``); a key may appear only once.
+  ``contract.bonus_per_day``, ``contract.bonus_cap_days``, ``status.data_date``.
+  ``holidays`` is ONE cell with the dates separated by commas (``2025-12-25, 2025-12-26``);
+  a key may appear only once.
   ``calendar`` is a name (``mon-fri``) or the working weekdays separated by commas.
-  Keys under ``status.`` and ``calendars.`` are reserved and ignored.
+  Keys under ``calendars.`` are refused: per-activity calendars are not supported yet.
 * ``activities``, ``links``, ``crash_steps`` and ``options`` have the same columns as the
-  CSV files; ``links``, ``crash_steps`` and ``options`` are optional (written only when they
-  have rows).
+  CSV files (the progress and date columns of ``activities`` included); ``links``,
+  ``crash_steps`` and ``options`` are optional (written only when they have rows).
 
 Dates are written as ISO text (``2025-03-03``); date cells typed in a spreadsheet are read
 too. Ids and names are written as text cells. Numbers are written as number cells unless a
@@ -34,7 +35,7 @@ from hasten.errors import InputError
 from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
-from hasten.formats.parse import ACTIVITY_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 
 __all__ = ["SHEETS", "labels", "read", "write"]
@@ -145,7 +146,7 @@ def write(document: Document, path: Path) -> None:
     book.active.title = SHEETS["settings"]
     _fill(book.active, _SETTINGS_COLUMNS,
           [{"key": k, "value": v} for k, v in document.settings.items()])
-    for key, columns in (("activities", ACTIVITY_COLUMNS), ("links", LINK_COLUMNS),
+    for key, columns in (("activities", document.activity_columns), ("links", LINK_COLUMNS),
                          ("crash_steps", STEP_COLUMNS), ("options", OPTION_COLUMNS)):
         records = getattr(document, key)
         if records or key == "activities":
