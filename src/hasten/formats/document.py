@@ -77,6 +77,7 @@ def _progress_cells(activity: Activity) -> dict[str, object]:
 
 
 def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
+    """The activity's cells; ``links`` are its own incoming links (for the predecessors column)."""
     return {
         "id": activity.id,
         "name": activity.name,
@@ -85,7 +86,7 @@ def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
         "crash_duration": activity.crash_duration,
         "cost": _plain(activity.cost),
         "crash_cost": _plain(activity.crash_cost),
-        "predecessors": "; ".join(link.text() for link in links if link.succ == activity.id),
+        "predecessors": "; ".join(link.text() for link in links),
     }
 
 
@@ -108,6 +109,9 @@ def to_document(project: Project) -> Document:
     """The canonical written form of ``project``."""
     in_column = _in_reading_order(project)
     column_links = list(project.links) if in_column else []
+    incoming: dict[str, list[Link]] = {}
+    for link in column_links:
+        incoming.setdefault(link.succ, []).append(link)
     table_links = [] if in_column else [
         {"predecessor": l.pred, "successor": l.succ, "type": l.type.value, "lag": l.lag}
         for l in project.links]
@@ -117,7 +121,7 @@ def to_document(project: Project) -> Document:
     used = [c for c in PROGRESS_COLUMNS if any(cells[c] is not None for cells in progress)]
     return Document(
         settings=settings,
-        activities=[_activity_row(a, column_links) | {c: cells[c] for c in used}
+        activities=[_activity_row(a, incoming.get(a.id, [])) | {c: cells[c] for c in used}
                     for a, cells in zip(project.activities, progress)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}
