@@ -36,6 +36,8 @@ from dataclasses import dataclass, replace
 from datetime import date
 
 import networkx as nx
+from graphlib import CycleError as GraphCycle
+from graphlib import TopologicalSorter
 
 from hasten.errors import CycleError
 from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
@@ -147,8 +149,8 @@ def _required(row: Row, table: Table, column: str, parse: Callable[[str, Where],
 def _optional(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
               default: object = None) -> object:
     """A cell parsed, or ``default`` when it is empty."""
-    text, where = _cell(row, table, column)
-    return parse(text, where) if text else default
+    text = row.cells.get(column, "")
+    return parse(text, Where(table.source, row.line, column)) if text else default
 
 
 def _lag(text: str, where: Where) -> int:
@@ -383,12 +385,17 @@ def _resolve_links(specs: list[_LinkSpec], ids: Sequence[str]) -> dict[tuple, _L
 
 def _check_acyclic(links: dict[tuple, _LinkSpec]) -> None:
     """Refuse loops in the link graph, naming the ids around the loop in order."""
-    graph = nx.MultiDiGraph()
-    graph.add_edges_from((p, s, k) for (p, s, k) in links)
-    try:
-        cycle = nx.find_cycle(graph)
-    except nx.NetworkXNoCycle:
+    preds: dict[str, list[str]] = {}
+    for p, s, _ in links:
+        preds.setdefault(s, []).append(p)
+    try:  # the common case, no loop, checked fast by the standard library
+        TopologicalSorter(preds).prepare()
         return
+    except GraphCycle:
+        pass
+    graph = nx.MultiDiGraph()  # a loop: networkx names its links in order
+    graph.add_edges_from((p, s, k) for (p, s, k) in links)
+    cycle = nx.find_cycle(graph)
     files = dict.fromkeys(links[(u, v, k)].where.file for u, v, k in cycle)
     raise CycleError([u for u, _, _ in cycle], file=" and ".join(files))
 
