@@ -85,8 +85,11 @@ class PlanChecker:
         self.net = network
         project = network.project
         self.project = project
-        self.lo = np.asarray(network.shortest, dtype=np.int64)
         self.hi = np.asarray(network.durations, dtype=np.int64)
+        # shortest without an option: the crash steps still available
+        self.lo_normal = self.hi - np.array([sum(x.days for x in st) for st in network.steps], dtype=np.int64)
+        self.deadlines = [k for k, a in enumerate(project.activities)
+                          if a.deadline is not None and a.damages_per_day]
         self.links, self.pred, self.succ, self.kind, self.lag = _link_arrays(project, network.status.dropped)
         clock, status = network.clock, network.status
         self.earliest = np.zeros(len(project.activities), dtype=np.int64)
@@ -120,15 +123,15 @@ class PlanChecker:
             raise PlanCheckError(f"plan check: {acts[k].id} has a fractional duration or start ({d[k]}, {s[k]})")
         d, s = d.astype(np.int64), s.astype(np.int64)
         options = self.net.options
-        lo, hi = self.lo.copy(), self.hi.copy()
-        if choices is not None:
-            for k, c in enumerate(choices):
-                if c >= 0:
-                    if not 0 <= c < len(options[k]):
-                        raise PlanCheckError(f"plan check: {acts[k].id} has no option number {c}")
-                    lo[k], hi[k] = options[k][c].shortest, options[k][c].duration
-                else:
-                    lo[k] = self.hi[k] - sum(x.days for x in self.net.steps[k])
+        lo, hi = self.lo_normal, self.hi
+        chosen = [] if not choices else [k for k, c in enumerate(choices) if c >= 0]
+        if chosen:
+            lo, hi = lo.copy(), hi.copy()
+            for k in chosen:
+                c = choices[k]
+                if not 0 <= c < len(options[k]):
+                    raise PlanCheckError(f"plan check: {acts[k].id} has no option number {c}")
+                lo[k], hi[k] = options[k][c].shortest, options[k][c].duration
         bad = np.flatnonzero((d < lo) | (d > hi))
         if len(bad):
             k = int(bad[0])
@@ -154,7 +157,7 @@ class PlanChecker:
         finish = int(f.max()) if len(f) else 0
         if target is not None and finish > target:
             raise PlanCheckError(f"plan check: finish {finish} is after the target {target}")
-        cost = sum(self.added_costs(d, choices))
+        cost = sum(self.added_costs(d, choices, changed=np.flatnonzero(d < self.hi).tolist() + chosen))
         if claimed_cost is not None and abs(cost - claimed_cost) > 1e-6 * max(1.0, abs(cost)):
             raise PlanCheckError(f"plan check: added cost recomputed as {cost:.2f}, "
                                  f"the optimiser claimed {claimed_cost:.2f}")
@@ -164,24 +167,27 @@ class PlanChecker:
                                  f"the optimiser claimed {claimed_penalty:.2f}")
         return finish, cost, penalty
 
-    def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None) -> list[float]:
-        """Added direct cost of each activity: its option's cost, or its crash steps in order."""
-        out = []
-        for k, d in enumerate(durations):
+    def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None,
+                    changed: Sequence[int] | None = None) -> list[float]:
+        """Added direct cost of each activity: its option's cost, or its crash steps in order.
+        With ``changed``, only those activities are priced (the others cost nothing)."""
+        out = [0.0] * len(durations)
+        for k in (range(len(durations)) if changed is None else changed):
+            d = int(durations[k])
             c = -1 if not choices else choices[k]
             if c >= 0:
-                out.append(option_added_cost(self.net.options[k][c], int(d)))
-            else:
-                out.append(_step_cost(self.net.steps[k], int(self.hi[k] - d)) if d < self.hi[k] else 0.0)
+                out[k] = option_added_cost(self.net.options[k][c], d)
+            elif d < self.hi[k]:
+                out[k] = _step_cost(self.net.steps[k], int(self.hi[k] - d))
         return out
 
     def penalty(self, finishes) -> float:
         """Damages of activities finishing after their own deadlines (per calendar day)."""
         clock, total = self.net.clock, 0.0
-        for k, a in enumerate(self.project.activities):
-            if a.deadline is not None and a.damages_per_day:
-                late = (clock.project_finish_date(int(finishes[k])) - a.deadline).days
-                total += a.damages_per_day * max(0, late)
+        for k in self.deadlines:
+            a = self.project.activities[k]
+            late = (clock.project_finish_date(int(finishes[k])) - a.deadline).days
+            total += a.damages_per_day * max(0, late)
         return total
 
 

@@ -133,8 +133,13 @@ class Study:
         self.project = project
         self.network = Network(project)
         self.clock = self.network.clock
-        self.normal = schedule(self.network)
+        self.normal_finish = self.network.forward_finish()
         self.checker = PlanChecker(self.network)
+        self.discrete = any(self.network.options)  # some work still to do has discrete options
+        # some work still to do has its own deadline with damages
+        self.penalised = any(a.deadline is not None and a.damages_per_day and not fixed
+                             for a, fixed in zip(project.activities, self.network.fixed))
+        self._normal: Schedule | None = None
         self.time_limit = time_limit
         self._model: CrashModel | None = None
         self._shortest: int | None = None
@@ -147,8 +152,11 @@ class Study:
         return self._model
 
     @property
-    def normal_finish(self) -> int:
-        return self.normal.finish
+    def normal(self) -> Schedule:
+        """The CPM schedule at normal durations (with progress applied), built when needed."""
+        if self._normal is None:
+            self._normal = schedule(self.network)
+        return self._normal
 
     @property
     def shortest_finish(self) -> int:
@@ -170,17 +178,6 @@ class Study:
         return self.clock.shift_calendar_days(self.normal_finish, n)
 
     # -- plans -------------------------------------------------------------------------
-    @property
-    def discrete(self) -> bool:
-        """True when some activity still to do has discrete options (the model is a MILP)."""
-        return any(self.network.options)
-
-    @property
-    def penalised(self) -> bool:
-        """True when an activity still to do has its own deadline and damages."""
-        return any(a.deadline is not None and a.damages_per_day and not fixed
-                   for a, fixed in zip(self.project.activities, self.network.fixed))
-
     def _solve(self, target: int, *, tie_break: bool = True, start=None, strict: bool = False) -> Solution:
         deadlines = strict and any(a.deadline is not None for a in self.project.activities)
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
@@ -193,18 +190,22 @@ class Study:
             raise InfeasibleTargetError(target, self.shortest_finish)
         return sol
 
-    def _checked(self, sol: Solution, target: int) -> tuple[int, float, float]:
+    def _checked(self, sol: Solution, target: int, starts=None) -> tuple[int, float, float]:
         """Finish, added cost and damages of own deadlines (recomputed from the activity
-        data) of a solution that has passed the independent check on its early dates."""
-        return self.checker.check(sol.durations, self.network.forward(sol.durations),
-                                  target=target, claimed_cost=sol.added_cost,
+        data) of a solution that has passed the independent check, on ``starts``, or else
+        on the solver's own starts, or else on the early starts of its durations."""
+        if starts is None:
+            starts = sol.starts if sol.starts is not None else self.network.forward(sol.durations)
+        return self.checker.check(sol.durations, starts, target=target, claimed_cost=sol.added_cost,
                                   choices=sol.choices or None, claimed_penalty=sol.penalty)
 
     def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
         """The least-cost plan to finish by ``target`` working days; with ``strict`` every
         interim milestone must also meet its own deadline."""
         sol = self._solve(target, strict=strict)
-        finish, cost, penalty = self._checked(sol, target)
+        sched = schedule(self.network, sol.durations)
+        early = self.network.forward(sol.durations)
+        finish, cost, penalty = self._checked(sol, target, early)  # the dates shown
         next_cost = None
         step = min(target, self.normal_finish)
         if next_day and step > 0:
@@ -216,7 +217,6 @@ class Study:
                 if nxt.proven:  # an unproven difference is no marginal cost
                     _, next_added, next_penalty = self._checked(nxt, step - 1)
                     next_cost = next_added + next_penalty - cost - penalty
-        sched = schedule(self.network, sol.durations)
         return self._plan(target, finish, sol, cost, penalty, sched, next_cost)
 
     def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, penalty: float,

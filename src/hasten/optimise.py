@@ -61,6 +61,7 @@ class Solution:
     proven: bool = True  # False when a time limit stopped the solver first
     bound: float | None = None  # proven lower bound on the objective when not proven
     gap: float | None = None  # relative gap when not proven
+    starts: tuple[int, ...] | None = None  # the solver's own starts (what is left to schedule)
 
 
 def _convex(network: Network) -> None:
@@ -260,7 +261,8 @@ class CrashModel:
 
     # -- solving -----------------------------------------------------------------------
     def _run(self, objective: Objective, target: int | None, cap: float | None, *,
-             aside: bool = False, start: np.ndarray | None = None, strict: bool = False):
+             aside: bool = False, start: np.ndarray | None = None, strict: bool = False,
+             duals: bool = False):
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
         least-cost questions that are asked over and over. ``start`` is a known feasible
         solution to start a MILP from."""
@@ -273,7 +275,7 @@ class CrashModel:
             lm.set_cols_bounds(self.late, 0.0, 0.0 if strict else 1.0)  # strict: no milestone late
             if lm is self.lp:
                 self._strict = strict
-        result = lm.solve(start=start)
+        result = lm.solve(start=start, duals=duals)
         if result.status == "infeasible":
             return None
         if result.values is None:
@@ -294,25 +296,28 @@ class CrashModel:
         whole = np.rint(cut)
         if np.any(np.abs(cut - whole) > _INT_TOL) or np.any(np.abs(x - np.rint(x)) > _INT_TOL):
             return None
-        durations = tuple(int(d) for d in np.asarray(self.net.durations) - whole.astype(np.int64))
+        durations = tuple((np.asarray(self.net.durations) - whole.astype(np.int64)).tolist())
         choices = np.full(n, -1, dtype=np.int64)
         chosen = np.flatnonzero(x > 0.5)
         choices[self.opt_owner[chosen]] = self.opt_index[chosen]
         added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
         penalty = float(values[self.late] @ self.late_cost) if len(self.late) else 0.0
         proven = result is None or result.status == "optimal"
+        s = values[self.start]
+        starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
         return Solution(durations, float(values @ self.lp._objective_vector()), added,
-                        tuple(int(c) for c in choices), penalty, proven,
-                        None if proven else result.bound, None if proven else result.gap)
+                        tuple(choices.tolist()) if self.discrete else (), penalty, proven,
+                        None if proven else result.bound, None if proven else result.gap, starts)
 
     def solve(self, objective: Objective, *, target: int | None = None, cap: float | None = None,
-              start: np.ndarray | None = None, strict: bool = False) -> Solution | None:
+              start: np.ndarray | None = None, strict: bool = False,
+              duals: bool = False) -> Solution | None:
         """Solve for ``objective`` with finish <= ``target`` and added cost <= ``cap``.
 
         Returns ``None`` when no plan meets the target and cap. A fractional optimum
         (not expected, see the module notes) is solved again with integer shortening.
         """
-        result = self._run(objective, target, cap, start=start, strict=strict)
+        result = self._run(objective, target, cap, start=start, strict=strict, duals=duals)
         if result is None:
             return None
         sol = self._solution(result.values, result)
@@ -352,7 +357,7 @@ class CrashModel:
         With ``strict`` no activity may pass its own deadline. Returns ``None`` when no
         plan meets the target (and, if strict, every deadline).
         """
-        best = self.solve(Objective.COST, target=target, start=start, strict=strict)
+        best = self.solve(Objective.COST, target=target, start=start, strict=strict, duals=tie_break)
         if best is None or not tie_break or best.added_cost == 0 or self.lp.is_mip:
             return best
         fewer = self._fewest_crashed(self._last, target)
@@ -375,43 +380,49 @@ class CrashModel:
             return None
         tol = 1e-7
         free = np.abs(result.col_dual[self.cuts]) <= tol
-        if not free.any():
+        if not free.any() or not np.any(result.values[self.cuts[free]] > tol):
+            # every shortening this plan uses is forced on all least-cost plans (fixed by
+            # its reduced cost) and the others are unused: nothing to improve
             return None
         values = result.values
         cols = np.flatnonzero(np.abs(result.col_dual) > tol)
         rows = np.flatnonzero(np.abs(result.row_dual) > tol)
-        lm = self.lp.copy()  # leave the live model and its warm start alone
-        rlow, rup = np.asarray(lm.row_lower)[rows], np.asarray(lm.row_upper)[rows]
+        full = self.lp.copy()  # leave the live model and its warm start alone
+        rlow, rup = np.asarray(full.row_lower)[rows], np.asarray(full.row_upper)[rows]
         act = result.row_values[rows]
         at = np.where(np.abs(act - rlow) <= np.abs(act - rup), rlow, rup)
-        lm.set_cols_bounds(cols, values[cols], values[cols])
-        lm.set_rows_bounds(rows, at, at)
+        full.set_rows_bounds(rows, at, at)
+        # only the face is searched: fixed columns are taken out of a small model
+        lm, keep = full.reduced(cols, values[cols])
+        where = np.full(self.lp.num_cols, -1, dtype=np.int64)
+        where[keep] = np.arange(len(keep))
         # one 0/1 column per activity free to change on the face: "it is shortened"
         owners = np.unique(self.cut_owner[free])
-        room = np.bincount(self.cut_owner, weights=np.asarray(lm.col_upper)[self.cuts],
+        room = np.bincount(self.cut_owner, weights=np.asarray(self.lp.col_upper)[self.cuts],
                            minlength=len(self.net))[owners]
         z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
-        rows_of = {int(o): [int(z[k])] for k, o in enumerate(owners)}
-        coef_of = {int(o): [-float(room[k])] for k, o in enumerate(owners)}
-        for col, owner in zip(self.cuts.tolist(), self.cut_owner.tolist()):
-            if owner in rows_of:
-                rows_of[owner].append(col)
-                coef_of[owner].append(1.0)
-        index = [c for o in owners.tolist() for c in rows_of[o]]
-        value = [v for o in owners.tolist() for v in coef_of[o]]
-        starts = np.concatenate([[0], np.cumsum([len(rows_of[o]) for o in owners.tolist()])[:-1]])
+        free_cuts = self.cuts[free]
+        terms: dict[int, list[tuple[int, float]]] = {int(o): [(int(z[k]), -float(room[k]))]
+                                                     for k, o in enumerate(owners)}
+        for col, owner in zip(free_cuts.tolist(), self.cut_owner[free].tolist()):
+            terms[owner].append((int(where[col]), 1.0))
+        index = [c for o in owners.tolist() for c, _ in terms[o]]
+        value = [v for o in owners.tolist() for _, v in terms[o]]
+        starts = np.concatenate([[0], np.cumsum([len(terms[o]) for o in owners.tolist()])[:-1]])
         lm.add_rows(starts, index, value, -INF, 0.0)
-        lm.set_integer(self.cuts[free], True)
+        lm.set_integer(where[free_cuts], True)
         weight = float(room.sum()) + 1.0  # one activity more outweighs any number of days
-        lm.define_objective("fewest_crashed", np.concatenate([z, self.cuts]),
-                            np.concatenate([np.full(len(z), weight), np.ones(len(self.cuts))]))
+        lm.define_objective("fewest_crashed", np.concatenate([z, where[free_cuts]]),
+                            np.concatenate([np.full(len(z), weight), np.ones(len(free_cuts))]))
         lm.use_objective("fewest_crashed")
         if lm.time_limit is None:
             lm.time_limit = 10.0
         out = lm.solve()
         if out.values is None or out.status not in ("optimal", "stopped"):
             return None
-        return self._solution(out.values[: self.lp.num_cols], out)
+        back = values.copy()
+        back[keep] = out.values[: len(keep)]
+        return self._solution(back, out)
 
     def relaxed_cost(self, target: int) -> float | None:
         """The LP relaxation's least cost at ``target`` (options taken fractionally): a

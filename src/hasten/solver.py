@@ -134,6 +134,50 @@ class LinearModel:
         other._pending_cols = other._pending_rows = 0
         return other
 
+    def reduced(self, fixed, values) -> tuple["LinearModel", np.ndarray]:
+        """A new model (no solver attached) with the columns ``fixed`` set to ``values`` and
+        taken out: their part of each row moves into the row's bounds, and rows left with
+        no column are dropped. Returns it and, for each of its columns, the column of this
+        model it stands for. Used to search a small face of a large model."""
+        n = self.num_cols
+        fixed = np.asarray(fixed, dtype=np.int64)
+        is_fixed = np.zeros(n, dtype=bool)
+        is_fixed[fixed] = True
+        at = np.zeros(n)
+        at[fixed] = np.asarray(values, dtype=float)
+        keep = np.flatnonzero(~is_fixed)
+        new_index = np.full(n, -1, dtype=np.int64)
+        new_index[keep] = np.arange(len(keep))
+        starts, index, value = self.matrix()
+        lengths = np.diff(np.append(starts, len(index)))
+        row_of = np.repeat(np.arange(self.num_rows), lengths)
+        moved = np.bincount(row_of, weights=value * at[index], minlength=self.num_rows)
+        live = ~is_fixed[index]
+        counts = np.bincount(row_of[live], minlength=self.num_rows)
+        rows = np.flatnonzero(counts > 0)
+        other = LinearModel.__new__(LinearModel)
+        other.__dict__.update(self.__dict__)
+        other.col_lower = [self.col_lower[j] for j in keep.tolist()]
+        other.col_upper = [self.col_upper[j] for j in keep.tolist()]
+        other.col_integer = [self.col_integer[j] for j in keep.tolist()]
+        other.row_lower, other.row_upper = [], []
+        other._row_start, other._row_index, other._row_value = [], [], []
+        other._nnz = 0
+        other._backend = None
+        other._pending_cols = len(keep)
+        other._pending_rows = 0
+        other.objectives = {}
+        for name, (cols, coefs) in self.objectives.items():
+            mask = ~is_fixed[cols]
+            other.objectives[name] = (new_index[cols[mask]], coefs[mask])
+        if len(rows):
+            sel = live & np.isin(row_of, rows)
+            row_counts = counts[rows]
+            other.add_rows(np.concatenate([[0], np.cumsum(row_counts)[:-1]]), new_index[index[sel]], value[sel],
+                           np.asarray(self.row_lower)[rows] - moved[rows],
+                           np.asarray(self.row_upper)[rows] - moved[rows])
+        return other, keep
+
     # -- structure ---------------------------------------------------------------------
     def add_columns(self, lower, upper, *, integer: bool = False) -> np.ndarray:
         """Add columns with the given bounds (arrays or scalars broadcast to ``len``)."""
@@ -239,8 +283,10 @@ class LinearModel:
         return any(self.col_integer)
 
     # -- solving ------------------------------------------------------------------------
-    def solve(self, start: np.ndarray | None = None) -> Result:
-        """Solve. ``start``: a feasible solution to start a MILP from (HiGHS only)."""
+    def solve(self, start: np.ndarray | None = None, *, duals: bool = False) -> Result:
+        """Solve. ``start``: a feasible solution to start a MILP from (not passed on, see
+        the HiGHS backend); ``duals``: also return reduced costs, duals and row values of
+        an LP optimum (HiGHS only)."""
         if self.objective is None:
             raise SolverError("no objective chosen")
         if self._backend is None:
@@ -250,7 +296,7 @@ class LinearModel:
         self._pending_cols = self._pending_rows = 0
         if start is not None and self.is_mip:
             self._backend.set_start(np.asarray(start, dtype=float))
-        return self._backend.run()
+        return self._backend.run(duals)
 
 
 class _HighsBackend:
@@ -327,11 +373,16 @@ class _HighsBackend:
         self.h.changeColsIntegrality(len(cols), np.asarray(cols, dtype=np.int32),
                                      np.array([kind] * len(cols)))
 
-    def run(self) -> Result:
+    def run(self, duals: bool = False) -> Result:
         h = self.h
+        mip = self.model.is_mip
         h.run()
         status = h.getModelStatus()
         S = highspy.HighsModelStatus
+        if not mip and status == S.kOptimal:
+            # later LP solves start from this basis: presolve would only cost time
+            # (about a third of a warm re-solve on 10,000 activities)
+            h.setOptionValue("presolve", "off")
         if status in (S.kSolveError, S.kPostsolveError):
             # Seen with HiGHS 1.16 on small MILPs that presolve reduces to nothing: "solution
             # has untransformed violations" and a solve error. Solve again without presolve.
@@ -339,12 +390,13 @@ class _HighsBackend:
             try:
                 h.run()
             finally:
-                h.setOptionValue("presolve", "choose")
+                if mip:
+                    h.setOptionValue("presolve", "choose")
             status = h.getModelStatus()
         info = h.getInfo()
         if status == S.kOptimal:
             sol = h.getSolution()
-            if self.model.is_mip or not sol.dual_valid:
+            if mip or not duals or not sol.dual_valid:
                 return Result("optimal", np.asarray(sol.col_value), info.objective_function_value)
             return Result("optimal", np.asarray(sol.col_value), info.objective_function_value,
                           col_dual=np.asarray(sol.col_dual), row_dual=np.asarray(sol.row_dual),
@@ -354,7 +406,6 @@ class _HighsBackend:
         if status in (S.kTimeLimit, S.kIterationLimit, S.kInterrupt, S.kSolutionLimit):
             has = info.primal_solution_status == 2  # feasible
             values = np.asarray(h.getSolution().col_value) if has else None
-            mip = self.model.is_mip
             return Result("stopped", values, info.objective_function_value if has else None,
                           info.mip_dual_bound if mip else None, info.mip_gap if (mip and has) else None)
         raise SolverError(f"HiGHS stopped with status '{h.modelStatusToString(status)}'")
@@ -415,7 +466,7 @@ class _PulpBackend:
         prob.setObjective(pulp.LpAffineExpression([(xs[j], float(c[j])) for j in np.flatnonzero(c)]))
         return prob, xs
 
-    def run(self) -> Result:
+    def run(self, duals: bool = False) -> Result:
         prob, xs = self._problem()
         status = prob.solve(pulp.PULP_CBC_CMD(msg=False, timeLimit=self.model.time_limit))
         values = np.array([v.varValue or 0.0 for v in xs])

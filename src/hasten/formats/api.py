@@ -8,7 +8,10 @@ The form follows the path: an existing folder or a path without suffix is the fo
 
 from __future__ import annotations
 
+import gc
 import os
+from collections.abc import Iterator
+from contextlib import contextmanager
 from pathlib import Path
 from types import ModuleType
 
@@ -37,6 +40,24 @@ def _form(path: Path) -> ModuleType:
     return _FORMS[suffix]
 
 
+@contextmanager
+def _collector_paused() -> Iterator[None]:
+    """Pause Python's cycle collector while a project is read, then restore it.
+
+    Reading builds a few small objects per cell that all stay alive. Every time their
+    number grows by a quarter the collector walks all of them, which on a 50,000-activity
+    project cost as much time as the reading itself. Reading makes no reference cycles, and
+    reference counting frees everything as usual, so nothing is kept longer.
+    """
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
+
+
 def read_project(path: str | os.PathLike[str]) -> Project:
     """Read and validate a project folder, ``.xlsx`` workbook or ``.json`` file.
 
@@ -47,7 +68,8 @@ def read_project(path: str | os.PathLike[str]) -> Project:
     if not path.exists():
         raise InputError("not found", file=str(path),
                          fix=f"check the path; {_FORMS_FIX}")
-    return parse_tables(_form(path).read(path))
+    with _collector_paused():
+        return parse_tables(_form(path).read(path))
 
 
 def _is_empty(path: Path) -> bool:

@@ -87,6 +87,8 @@ def cell_text(value: object) -> str:
 
 def clean_text(text: str) -> str:
     """Strip surrounding whitespace and turn Windows/old-Mac line breaks into ``\\n``."""
+    if "\r" not in text:  # the usual case: nothing to replace
+        return text.strip()
     return text.replace("\r\n", "\n").replace("\r", "\n").strip()
 
 
@@ -94,11 +96,26 @@ def text_value(value: object, where: Where) -> str:
     """A text setting or cell; numbers and dates in a text field are refused."""
     if not isinstance(value, str):
         raise where.error("expected text", value, 'put the text in quotes, e.g. "Site office"')
+    if value.isprintable():  # no control character, no line break: only spaces to strip
+        return value.strip()
     text = clean_text(value)
     if _CONTROL.search(text):
         raise where.error("the text contains a control character", value,
                           "remove the invisible control character (only tab and line break are allowed)")
     return text
+
+
+def _unsigned_text(value: object) -> bool:
+    """True for short text of ASCII digits with at most one decimal point (``12``, ``12.50``,
+    ``.5``): a plain number that both ``int`` or ``float`` and :class:`Decimal` read alike.
+
+    The number readers take a quick path for it; anything else goes through
+    :func:`_plain_decimal` and its checks.
+    """
+    if type(value) is not str or len(value) > 15:
+        return False
+    digits = value.replace(".", "", 1)
+    return digits.isascii() and digits.isdigit()
 
 
 def _plain_decimal(value: object, where: Where) -> Decimal:
@@ -126,7 +143,7 @@ def _plain_decimal(value: object, where: Where) -> Decimal:
 
 def number_value(value: object, where: Where, *, minimum: float | None = 0.0) -> float:
     """A plain number (money per unit etc.), at least ``minimum`` unless that is None."""
-    number = float(_plain_decimal(value, where))
+    number = float(value) if _unsigned_text(value) else float(_plain_decimal(value, where))
     if not math.isfinite(number):
         raise where.error("the number is too large", value, _NUMBER_FIX)
     if minimum is not None and number < minimum:
@@ -138,11 +155,14 @@ def number_value(value: object, where: Where, *, minimum: float | None = 0.0) ->
 def whole_value(value: object, where: Where, *, minimum: int | None = 0,
                 unit: str = "working days") -> int:
     """A whole number (``5`` or ``5.0``), at least ``minimum`` unless that is None."""
-    exact = _plain_decimal(value, where)
-    if exact != exact.to_integral_value():
-        raise where.error(f"not a whole number of {unit}", value,
-                          f"round to whole {unit}, e.g. {int(exact.to_integral_value())}")
-    number = int(exact)
+    if _unsigned_text(value) and value.isdigit():
+        number = int(value)
+    else:
+        exact = _plain_decimal(value, where)
+        if exact != exact.to_integral_value():
+            raise where.error(f"not a whole number of {unit}", value,
+                              f"round to whole {unit}, e.g. {int(exact.to_integral_value())}")
+        number = int(exact)
     if minimum is not None and number < minimum:
         raise where.error("must not be negative" if minimum == 0 else f"must be at least {minimum}",
                           value, f"write {minimum} or more")

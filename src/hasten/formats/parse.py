@@ -67,7 +67,7 @@ LINK_REQUIRED = ("predecessor", "successor")
 STEP_COLUMNS = ("id", "days", "cost_per_day")
 OPTION_COLUMNS = ("id", "option", "duration", "added_cost", "note", "crash_duration", "cost_per_day")
 OPTION_REQUIRED = ("id", "option", "duration", "added_cost")
-_ID_FORBIDDEN = (";", ":", ",")
+_ID_FORBIDDEN = re.compile(r"[\s;:,]")  # \s is exactly what str.isspace() calls a space
 _ID_WITH_LAG = re.compile(r"(.+?)\s*([+-]\s*\d+)")
 
 
@@ -166,7 +166,7 @@ def _step_days(text: str, where: Where) -> int:
 def _activity_id(text: str, where: Where) -> str:
     """An id: any text without spaces or the separators ``; : ,``."""
     ident = text_value(text, where)
-    if any(c.isspace() for c in ident) or any(c in ident for c in _ID_FORBIDDEN):
+    if _ID_FORBIDDEN.search(ident):
         raise where.error("an id cannot contain spaces, ';', ':' or ','", text,
                           "use letters, digits, '-', '_' or '.', e.g. 'A10' or 'F-2.1'")
     return ident
@@ -188,8 +188,12 @@ def _unknown_id(ident: str, ids: Sequence[str], where: Where, value: str, role: 
 
 # ---------------------------------------------------------------- activities
 
-def _activity(row: Row, table: Table) -> Activity:
-    """One activity from its row, with the checks that need only this row."""
+def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
+    """One activity from its row, with the checks that need only this row.
+
+    ``with_progress`` False says the table has no progress column, so those fields keep
+    their defaults (what :func:`_progress` gives for empty cells).
+    """
     duration = _required(row, table, "duration", whole_value, "the normal duration in whole working days")
     crash_duration = _optional(row, table, "crash_duration", whole_value)
     cost = _optional(row, table, "cost", number_value, 0.0)
@@ -210,7 +214,7 @@ def _activity(row: Row, table: Table) -> Activity:
         crash_duration=crash_duration,
         cost=cost,
         crash_cost=crash_cost,
-        **_progress(row, table, duration),
+        **(_progress(row, table, duration) if with_progress else {}),
     )
 
 
@@ -275,6 +279,8 @@ def _progress(row: Row, table: Table, duration: int) -> dict[str, object]:
 def _check_progress(rows: Sequence[_ActivityRow], table: Table, start: date,
                     data_date: date | None, settings_source: str) -> None:
     """Actual dates against the project start and the data date (the history before it)."""
+    if "actual_start" not in table.columns:  # no actual dates at all
+        return
     by_line = {r.line: r for r in table.rows}
     for item in rows:
         act, where = item.activity, item.where
@@ -317,7 +323,9 @@ def _activity_rows(table: Table) -> list[_ActivityRow]:
             "calendar", "calendar",
             f"remove the column: {CALENDARS_FIX.removeprefix('remove it: ')}")
     _check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
-    rows = [_ActivityRow(_activity(r, table), Where(table.source, r.line)) for r in table.rows]
+    with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
+    rows = [_ActivityRow(_activity(r, table, with_progress), Where(table.source, r.line))
+            for r in table.rows]
     first: dict[str, _ActivityRow] = {}
     for row in rows:
         ident = row.activity.id
@@ -335,6 +343,8 @@ def _column_links(table: Table) -> list[_LinkSpec]:
     """Links written in the predecessors column, in row order."""
     specs = []
     for row in table.rows:
+        if not row.cells.get(PREDECESSORS):  # no predecessors: nothing to read
+            continue
         text, where = _cell(row, table, PREDECESSORS)
         succ = row.cells["id"]
         for item, (pred, kind, lag) in parse_predecessor_items(text, where):
@@ -383,8 +393,20 @@ def _resolve_links(specs: list[_LinkSpec], ids: Sequence[str]) -> dict[tuple, _L
     return seen
 
 
-def _check_acyclic(links: dict[tuple, _LinkSpec]) -> None:
+def _points_forward(links: dict[tuple, _LinkSpec], ids: Sequence[str]) -> bool:
+    """True when every link goes from an activity to one further down the table.
+
+    Then there can be no loop (a loop would have to lead back up), which is how most
+    schedules are written; it is checked far faster than sorting the graph.
+    """
+    position = {ident: i for i, ident in enumerate(ids)}
+    return all(position[p] < position[s] for p, s, _ in links)
+
+
+def _check_acyclic(links: dict[tuple, _LinkSpec], ids: Sequence[str]) -> None:
     """Refuse loops in the link graph, naming the ids around the loop in order."""
+    if _points_forward(links, ids):
+        return
     preds: dict[str, list[str]] = {}
     for p, s, _ in links:
         preds.setdefault(s, []).append(p)
@@ -538,6 +560,13 @@ def _option_rows(table: Table | None, activities: Sequence[_ActivityRow]) -> dic
     return groups
 
 
+def _with_options(activity: Activity, options: list[_OptionRow] | None) -> Activity:
+    """The activity with its discrete options (unchanged when it has none)."""
+    if not options:
+        return activity
+    return replace(activity, options=tuple(o.option for o in options))
+
+
 # ---------------------------------------------------------------- the whole project
 
 def parse_tables(tables: Tables) -> Project:
@@ -551,10 +580,9 @@ def parse_tables(tables: Tables) -> Project:
     steps = _step_rows(tables.crash_steps, ids)
     options = _option_rows(tables.options, rows)
     activities = tuple(
-        replace(_with_steps(r, steps.get(r.activity.id, [])),
-                options=tuple(o.option for o in options.get(r.activity.id, [])))
+        _with_options(_with_steps(r, steps.get(r.activity.id, [])), options.get(r.activity.id))
         for r in rows)
-    _check_acyclic(links)
+    _check_acyclic(links, ids)
     return Project(
         name=settings.name,
         start=settings.start,

@@ -18,15 +18,15 @@ _TYPE_AND_LAG = re.compile(r"\s*([A-Za-z]+)\s*(?:([+-])\s*(\S.*?))?\s*")
 _WHOLE = re.compile(r"\d+")
 LINK_TYPE_FIX = "use FS, SS, FF or SF"
 COLUMN = "predecessors"
+_LINK_TYPES = {kind.value: kind for kind in LinkType}  # a dict look-up is quicker than LinkType()
 
 
 def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
     """A link type from its two letters in any case; ``shown`` is the value to name on error."""
-    try:
-        return LinkType(text.strip().upper())
-    except ValueError:
-        raise where.error("unknown link type", text if shown is None else shown,
-                          LINK_TYPE_FIX) from None
+    kind = _LINK_TYPES.get(text.strip().upper())
+    if kind is None:
+        raise where.error("unknown link type", text if shown is None else shown, LINK_TYPE_FIX)
+    return kind
 
 
 def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:

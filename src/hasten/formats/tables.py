@@ -67,9 +67,14 @@ class Tables:
     options: Table | None = None
 
 
+def _has_text(cell: object) -> bool:
+    """True for a cell with more than white space in it."""
+    return cell_text(cell).strip() != ""
+
+
 def _is_blank(cells: Sequence[object]) -> bool:
     """True for a row without any text (blank CSV line, empty sheet row, ``,,,``)."""
-    return all(cell_text(c).strip() == "" for c in cells)
+    return not any(map(_has_text, cells))
 
 
 def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
@@ -82,11 +87,18 @@ def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
     return names
 
 
+def _cell_value(cell: object) -> str:
+    """The stripped text of one cell as a row holds it."""
+    return clean_text(cell_text(cell))
+
+
 def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object]) -> Row:
     """Cells of one data row keyed by column name; stray cells are refused."""
+    if len(cells) == len(names) and all(names):  # the usual row: one cell under each name
+        return Row(line, dict(zip(names, map(_cell_value, cells))))
     values = {name: "" for name in names if name}
     for i, cell in enumerate(cells):
-        text = clean_text(cell_text(cell))
+        text = _cell_value(cell)
         if i < len(names) and names[i]:
             values[names[i]] = text
         elif text:
