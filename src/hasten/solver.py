@@ -223,11 +223,15 @@ class LinearModel:
                 self._backend.set_objective(self._objective_vector())
 
     def set_col_bounds(self, col: int, lower: float, upper: float) -> None:
+        if (self.col_lower[col], self.col_upper[col]) == (lower, upper):
+            return  # unchanged: telling HiGHS anyway would cost its warm start
         self.col_lower[col], self.col_upper[col] = lower, upper
         if self._backend is not None and col < self.num_cols - self._pending_cols:
             self._backend.set_col_bounds(col, lower, upper)
 
     def set_row_bounds(self, row: int, lower: float, upper: float) -> None:
+        if (self.row_lower[row], self.row_upper[row]) == (lower, upper):
+            return  # unchanged: telling HiGHS anyway would cost its warm start
         self.row_lower[row], self.row_upper[row] = lower, upper
         if self._backend is not None and row < self.num_rows - self._pending_rows:
             self._backend.set_row_bounds(row, lower, upper)
