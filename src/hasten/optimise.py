@@ -266,7 +266,10 @@ class CrashModel:
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
         least-cost questions that are asked over and over. ``start`` is a known feasible
         solution to start a MILP from."""
-        lm = self.lp.copy() if aside else self.lp
+        # A MILP gets a fresh solver each time: re-running a MILP in the same HiGHS object
+        # after a bound change was seen to end "optimal" on a worse plan (HiGHS 1.16,
+        # PSPLIB j1012_10 at 11-12 days; tests/test_discrete.py)
+        lm = self.lp.copy() if (aside or self.lp.is_mip) else self.lp
         lm.use_objective(objective.value)
         lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
         lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))

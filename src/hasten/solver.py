@@ -357,7 +357,8 @@ class _HighsBackend:
         """Not passed on. Seen with HiGHS 1.16: a MILP re-solved after a bound change with
         the previous plan given as a start (whole or only its integer columns) ended with
         status "optimal" on a worse plan than a solve without the start (PSPLIB j1012_10 at
-        deadlines 11-12). Correct answers come first; each MILP is solved without a start."""
+        deadlines 11-12). Correct answers come first: each MILP is solved from scratch in a
+        fresh solver (see CrashModel._run)."""
 
     def set_time_limit(self, seconds: float | None) -> None:
         self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
