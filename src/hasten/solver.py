@@ -18,6 +18,7 @@ from __future__ import annotations
 import contextlib
 import os
 import sys
+import warnings
 from dataclasses import dataclass
 from typing import Sequence
 
@@ -58,13 +59,24 @@ class Result:
     row_values: np.ndarray | None = None
 
 
+def _cbc(time_limit: float | None = None):
+    """A CBC solver through PuLP: an installed CBC (COIN_CMD) or the one bundled with PuLP
+    3.x (PULP_CBC_CMD, deprecated there for PuLP 4, still the only one on many machines)."""
+    coin = pulp.COIN_CMD(msg=False, timeLimit=time_limit)
+    if coin.available():
+        return coin
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", DeprecationWarning)
+        return pulp.PULP_CBC_CMD(msg=False, timeLimit=time_limit)
+
+
 def available_solver(prefer: str | None = None) -> str:
     """``"highs"`` when highspy imports, else ``"cbc"`` when PuLP's CBC runs, else an error."""
     if prefer not in (None, "highs", "cbc"):
         raise SolverError(f"unknown solver {prefer!r}; use highs or cbc")
     if prefer != "cbc" and _HAVE_HIGHS:
         return "highs"
-    if pulp.PULP_CBC_CMD(msg=False).available():
+    if _cbc().available():
         return "cbc"
     raise SolverError("no solver can run here: install highspy (pip install highspy), "
                       "or make PuLP's bundled CBC runnable")
@@ -473,7 +485,7 @@ class _PulpBackend:
 
     def run(self, duals: bool = False) -> Result:
         prob, xs = self._problem()
-        status = prob.solve(pulp.PULP_CBC_CMD(msg=False, timeLimit=self.model.time_limit))
+        status = prob.solve(_cbc(self.model.time_limit))
         values = np.array([v.varValue or 0.0 for v in xs])
         if status == pulp.LpStatusOptimal and prob.sol_status == pulp.LpSolutionOptimal:
             return Result("optimal", values, pulp.value(prob.objective) or 0.0)
