@@ -6,6 +6,7 @@ purpose becomes a one-line message on standard error and exit code 2.
 
 from __future__ import annotations
 
+import gc
 import json
 import os
 import shutil
@@ -49,7 +50,9 @@ def _echo(text: str) -> None:
 
 
 def _json(obj) -> None:
-    typer.echo(json.dumps(obj, indent=2, ensure_ascii=False))
+    """One JSON object on one line: compact, and fast for big schedules (an indented dump
+    uses the slow pure-Python encoder). Pipe it to ``python -m json.tool`` to read it."""
+    typer.echo(json.dumps(obj, ensure_ascii=False))
 
 
 @contextmanager
@@ -355,4 +358,7 @@ def demo(
 
 
 def main() -> None:  # pragma: no cover - the console script
+    # A short-lived command builds many small objects and frees them at exit: the cyclic
+    # garbage collector only costs time here (about a third of a 50,000-activity run).
+    gc.disable()
     app()
