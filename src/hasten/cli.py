@@ -85,20 +85,21 @@ def _write_whole(path: Path, write) -> None:
         raise
 
 
+@contextmanager
 def _progress(enabled: bool):
-    """A progress bar on a terminal for long traces; nothing otherwise."""
+    """A progress bar on a terminal for long traces; yields the callback (or None)."""
     if not enabled or not sys.stderr.isatty():
-        return None, None
-    bar = typer.progressbar(length=1, label="tracing the curve", file=sys.stderr)
-    bar.__enter__()
-    state = {"done": 0}
+        yield None
+        return
+    with typer.progressbar(length=1, label="tracing the curve", file=sys.stderr) as bar:
+        state = {"done": 0}
 
-    def tick(done: int, total: int) -> None:
-        bar.length = total
-        bar.update(done - state["done"])
-        state["done"] = done
+        def tick(done: int, total: int) -> None:
+            bar.length = total
+            bar.update(done - state["done"])
+            state["done"] = done
 
-    return tick, bar
+        yield tick
 
 
 # -- commands ------------------------------------------------------------------------
@@ -205,12 +206,8 @@ def curve(
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
         study, notes = _study(project, time_limit)
-        tick, bar = _progress(not as_json)
-        try:
+        with _progress(not as_json) as tick:
             points = study.curve(longest, shortest, progress=tick)
-        finally:
-            if bar is not None:
-                bar.__exit__(None, None, None)
         if csv is not None:
             _write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv,
                          render.curve_rows(study, points))
@@ -230,12 +227,8 @@ def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = N
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         study, notes = _study(project, time_limit)
-        tick, bar = _progress(not as_json)
-        try:
+        with _progress(not as_json) as tick:
             result = study.best(progress=tick)
-        finally:
-            if bar is not None:
-                bar.__exit__(None, None, None)
         if as_json:
             _json(render.best_json(study, result) | {"notes": notes})
         else:
@@ -266,12 +259,8 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
         study, notes = _study(project, time_limit)
-        tick, bar = _progress(not as_json)
-        try:
+        with _progress(not as_json) as tick:
             result = recovery(study, progress=tick)
-        finally:
-            if bar is not None:
-                bar.__exit__(None, None, None)
         if as_json:
             _json(render.recovery_json(study, result) | {"notes": notes})
         else:

@@ -35,7 +35,6 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from datetime import date
 
-import networkx as nx
 from graphlib import CycleError as GraphCycle
 from graphlib import TopologicalSorter
 
@@ -434,6 +433,8 @@ def _check_acyclic(links: dict[tuple, _LinkSpec], ids: Sequence[str]) -> None:
         return
     except GraphCycle:
         pass
+    import networkx as nx  # only for a loop; importing it takes longer than most reading
+
     graph = nx.MultiDiGraph()  # a loop: networkx names its links in order
     graph.add_edges_from((p, s, k) for (p, s, k) in links)
     cycle = nx.find_cycle(graph)

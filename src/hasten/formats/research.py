@@ -53,8 +53,6 @@ from dataclasses import dataclass
 from datetime import date
 from pathlib import Path
 
-import networkx as nx
-
 from hasten.errors import CycleError, InputError
 from hasten.formats.settings import NAMED_CALENDARS
 from hasten.model import Activity, Calendar, Link, Option, Project
@@ -377,6 +375,8 @@ def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]
 
 def _links(successors: dict[int, tuple[int, ...]], path: Path) -> tuple[Link, ...]:
     """Finish-to-start links ordered by successor, then predecessor; loops are refused."""
+    import networkx as nx  # imported on use: importing it takes longer than reading a file
+
     pairs = sorted(((p, s) for p, succ in successors.items() for s in succ), key=lambda e: (e[1], e[0]))
     graph = nx.DiGraph(pairs)
     try:

@@ -89,6 +89,8 @@ def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
 
 def _cell_value(cell: object) -> str:
     """The stripped text of one cell as a row holds it."""
+    if isinstance(cell, str) and "\r" not in cell:  # plain text, as CSV cells mostly are
+        return cell.strip()
     return clean_text(cell_text(cell))
 
 

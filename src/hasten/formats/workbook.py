@@ -28,9 +28,6 @@ from collections.abc import Mapping
 from datetime import date
 from pathlib import Path
 
-import openpyxl
-from openpyxl.utils.exceptions import InvalidFileException
-
 from hasten.errors import InputError
 from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
@@ -79,6 +76,9 @@ def _settings(sheet, source: str) -> Settings:
 
 
 def _load(path: Path):
+    import openpyxl  # imported on use: importing it takes longer than reading most folders
+    from openpyxl.utils.exceptions import InvalidFileException
+
     try:
         return openpyxl.load_workbook(path, data_only=True)
     except (InvalidFileException, zipfile.BadZipFile, KeyError, ValueError, OSError) as exc:
@@ -142,6 +142,8 @@ def _fill(sheet, columns: tuple[str, ...], records: list[Mapping[str, object]]) 
 
 def write(document: Document, path: Path) -> None:
     """Write the workbook whole (temporary file, then rename)."""
+    import openpyxl  # imported on use, see _load
+
     book = openpyxl.Workbook()
     book.active.title = SHEETS["settings"]
     _fill(book.active, _SETTINGS_COLUMNS,
