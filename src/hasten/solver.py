@@ -325,6 +325,7 @@ class _HighsBackend:
         if model.time_limit is not None:
             self.h.setOptionValue("time_limit", float(model.time_limit))
         self.model = model
+        self._warm = False
         self._added(model, 0, 0)
         self.set_objective(model._objective_vector())
 
@@ -396,10 +397,12 @@ class _HighsBackend:
         h.run()
         status = h.getModelStatus()
         S = highspy.HighsModelStatus
-        if not mip and status == S.kOptimal:
-            # later LP solves start from this basis: presolve would only cost time
-            # (about a third of a warm re-solve on 10,000 activities)
+        if not mip and status == S.kOptimal and not self._warm:
+            # later LP solves start from this basis: presolve would only cost time (about a
+            # third of a warm re-solve on 10,000 activities). Set once: setting an option
+            # again before each run was seen to slow the warm re-solves down.
             h.setOptionValue("presolve", "off")
+            self._warm = True
         if status in (S.kSolveError, S.kPostsolveError):
             # Seen with HiGHS 1.16 on small MILPs that presolve reduces to nothing: "solution
             # has untransformed violations" and a solve error. Solve again without presolve.
