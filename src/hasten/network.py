@@ -18,6 +18,8 @@ from graphlib import CycleError as _GraphCycle
 from graphlib import TopologicalSorter
 from typing import Sequence
 
+import numpy as np
+
 from .calendar import CalendarClock
 from .errors import CycleError
 from .model import LinkType, Project
@@ -37,6 +39,30 @@ MAX_PATHS = 100
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _KIND = {LinkType.FS: _FS, LinkType.SS: _SS, LinkType.FF: _FF, LinkType.SF: _SF}
+
+
+def _levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
+    """The level of each activity (the most links on a chain before it), found one level at
+    a time with numpy (Kahn's algorithm); ``None`` when the links form a loop."""
+    indeg = np.bincount(succ, minlength=n)
+    order = np.argsort(pred, kind="stable")
+    out_start = np.searchsorted(pred[order], np.arange(n + 1))
+    level = np.full(n, -1, dtype=np.int64)
+    frontier = np.flatnonzero(indeg == 0)
+    depth, seen = 0, 0
+    while len(frontier):
+        level[frontier] = depth
+        seen += len(frontier)
+        starts, counts = out_start[frontier], out_start[frontier + 1] - out_start[frontier]
+        total = int(counts.sum())
+        if not total:
+            break
+        offsets = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
+        targets = succ[order[np.repeat(starts, counts) + offsets]]
+        indeg -= np.bincount(targets, minlength=n)
+        frontier = np.unique(targets[indeg[targets] == 0])
+        depth += 1
+    return level if seen == n else None
 
 
 class Network:
@@ -86,6 +112,7 @@ class Network:
         for e, (i, j) in enumerate(zip(self.pred, self.succ)):
             self.out_links[i].append(e)
             self.in_links[j].append(e)
+        self._arrays()
 
     def _compile_link(self, link, i: int, j: int, states) -> bool:
         """Keep a link between two schedulable events; a link whose predecessor event is
@@ -109,14 +136,41 @@ class Network:
         return False
 
     def _cycle_check(self, project: Project, idx: dict[str, int]) -> None:
+        """Refuse a loop in the links (all of them, also those progress has overridden)."""
+        pred = np.fromiter((idx[k.pred] for k in project.links), dtype=np.int64, count=len(project.links))
+        succ = np.fromiter((idx[k.succ] for k in project.links), dtype=np.int64, count=len(project.links))
+        if _levels(len(idx), pred, succ) is not None:
+            return
         preds: dict[int, list[int]] = {j: [] for j in range(len(idx))}
-        for k in project.links:
-            preds[idx[k.succ]].append(idx[k.pred])
-        try:
-            self.order: list[int] = list(TopologicalSorter(preds).static_order())
+        for i, j in zip(pred.tolist(), succ.tolist()):
+            preds[j].append(i)
+        try:  # name the loop
+            TopologicalSorter(preds).prepare()
         except _GraphCycle as exc:
             loop = exc.args[1][:-1]  # graphlib repeats the first node at the end
             raise CycleError([self.ids[i] for i in reversed(loop)]) from None
+
+    def _arrays(self) -> None:
+        """Links as numpy arrays grouped by level, for the vectorised passes."""
+        n = len(self.ids)
+        self._p = np.asarray(self.pred, dtype=np.int64)
+        self._s = np.asarray(self.succ, dtype=np.int64)
+        kind = np.asarray(self.kind, dtype=np.int64)
+        self._lag = np.asarray(self.lag, dtype=np.int64)
+        self._from_finish = (kind == _FS) | (kind == _FF)  # the link leaves the predecessor's finish
+        self._to_finish = (kind == _FF) | (kind == _SF)  # it constrains the successor's finish
+        level = _levels(n, self._p, self._s)
+        self.order: list[int] = np.argsort(level, kind="stable").tolist()
+        top = int(level.max()) + 1 if n else 0
+        # many nodes per level: numpy passes one level at a time; long chains: plain loops
+        self._vector = n > 0 and top * 20 <= n
+        by_succ = np.argsort(level[self._s], kind="stable")
+        self._in_level = np.split(by_succ, np.searchsorted(level[self._s][by_succ], np.arange(1, top)))
+        by_pred = np.argsort(level[self._p], kind="stable")
+        self._out_level = np.split(by_pred, np.searchsorted(level[self._p][by_pred], np.arange(1, top)))
+        self._release = np.asarray(self.release, dtype=np.int64)
+        self._finish_release = np.asarray(self.finish_release, dtype=np.int64)
+        self._fixed = np.asarray(self.fixed, dtype=bool)
 
     def __len__(self) -> int:
         return len(self.ids)
@@ -124,6 +178,32 @@ class Network:
     # -- the two passes ------------------------------------------------------------
     def forward(self, d: Sequence[int]) -> list[int]:
         """Early starts (of what is left to schedule) for durations ``d``."""
+        if self._vector:
+            return self._forward_levels(np.asarray(d, dtype=np.int64)).tolist()
+        return self._forward_loop(d)
+
+    def _forward_levels(self, d: np.ndarray) -> np.ndarray:
+        es = np.maximum(self._release, self._finish_release - d)
+        es[self._fixed] = self._release[self._fixed]  # (a finished activity has no links in)
+        p, s, lag, ff, tf = self._p, self._s, self._lag, self._from_finish, self._to_finish
+        for links in self._in_level[1:]:  # predecessors are on earlier levels: already final
+            i, j = p[links], s[links]
+            bound = es[i] + lag[links] + np.where(ff[links], d[i], 0) - np.where(tf[links], d[j], 0)
+            np.maximum.at(es, j, bound)
+        return es
+
+    def _backward_levels(self, d: np.ndarray, finish: int) -> np.ndarray:
+        ls = finish - d
+        p, s, lag, ff, tf = self._p, self._s, self._lag, self._from_finish, self._to_finish
+        for links in reversed(self._out_level):  # successors are on later levels: already final
+            if not len(links):
+                continue
+            i, j = p[links], s[links]
+            bound = ls[j] + np.where(tf[links], d[j], 0) - lag[links] - np.where(ff[links], d[i], 0)
+            np.minimum.at(ls, i, bound)
+        return ls
+
+    def _forward_loop(self, d: Sequence[int]) -> list[int]:
         es = [0] * len(self.ids)
         pred, kind, lag, in_links = self.pred, self.kind, self.lag, self.in_links
         release, finish_release, fixed = self.release, self.finish_release, self.fixed
@@ -159,6 +239,8 @@ class Network:
 
     def backward(self, d: Sequence[int], finish: int) -> list[int]:
         """Late starts for durations ``d`` when every activity must finish by ``finish``."""
+        if self._vector:
+            return self._backward_levels(np.asarray(d, dtype=np.int64), finish).tolist()
         ls = [0] * len(self.ids)
         succ, kind, lag, out_links = self.succ, self.kind, self.lag, self.out_links
         for i in reversed(self.order):
@@ -179,6 +261,15 @@ class Network:
                     best = b
             ls[i] = best
         return ls
+
+    def link_slacks(self, es: Sequence[int], d: Sequence[int]) -> np.ndarray:
+        """For every link, how far its successor's event is after the link allows (early dates)."""
+        es = np.asarray(es, dtype=np.int64)
+        d = np.asarray(d, dtype=np.int64)
+        p, s = self._p, self._s
+        later = es[s] + np.where(self._to_finish, d[s], 0)
+        earlier = es[p] + np.where(self._from_finish, d[p], 0) + self._lag
+        return later - earlier
 
     def link_slack(self, e: int, es: Sequence[int], d: Sequence[int]) -> int:
         """How far the successor of link ``e`` starts after the link allows (early dates)."""
@@ -252,15 +343,15 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     live = [not f for f in net.fixed]  # finished work has no float and is never critical
     least = min((t for t, a in zip(tf, live) if a), default=0)
 
-    free = [finish - es[i] - d[i] for i in range(n)]
+    slack = net.link_slacks(es, d)
+    free_a = finish - np.asarray(es, dtype=np.int64) - np.asarray(d, dtype=np.int64)
+    if len(slack):
+        np.minimum.at(free_a, net._p, slack)
+    free = free_a.tolist()
     driving: list[list[int]] = [[] for _ in range(n)]
-    for e in range(len(net.pred)):
-        s = net.link_slack(e, es, d)
-        i, j = net.pred[e], net.succ[e]
-        if s < free[i]:
-            free[i] = s
-        if s == 0:
-            driving[j].append(i)
+    tight = np.flatnonzero(slack == 0)
+    for i, j in zip(net._p[tight].tolist(), net._s[tight].tolist()):
+        driving[j].append(i)
     critical = [t == least and a for t, a in zip(tf, live)]
     paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
     states = net.status.activities
