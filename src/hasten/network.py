@@ -91,28 +91,38 @@ class Network:
         self.finish_release: list[int] = [0] * n  # earliest finish, from links to fixed events
         self.shown_start: list[int | None] = [s.start for s in states]  # actual start, if any
         self._cycle_check(project, idx)
-        self.pred: list[int] = []
-        self.succ: list[int] = []
-        self.kind: list[int] = []
-        self.lag: list[int] = []
-        self.link_index: list[int] = []  # position of each link in project.links
-        for e, k in enumerate(project.links):
-            if e in self.status.dropped:
-                continue
-            i, j = idx[k.pred], idx[k.succ]
-            if not self._compile_link(k, i, j, states):
-                continue
-            self.pred.append(i)
-            self.succ.append(j)
-            self.kind.append(_KIND[k.type])
-            self.lag.append(k.lag)
-            self.link_index.append(e)
-        self.in_links: list[list[int]] = [[] for _ in range(n)]
-        self.out_links: list[list[int]] = [[] for _ in range(n)]
-        for e, (i, j) in enumerate(zip(self.pred, self.succ)):
-            self.out_links[i].append(e)
-            self.in_links[j].append(e)
+        links = project.links
+        if self.status.progressed:
+            kept = [e for e, k in enumerate(links) if e not in self.status.dropped
+                    and self._compile_link(k, idx[k.pred], idx[k.succ], states)]
+        else:  # without progress every link joins two events still to schedule
+            kept = range(len(links))
+        self.link_index: list[int] = list(kept)  # position of each link in project.links
+        self.pred: list[int] = [idx[links[e].pred] for e in kept]
+        self.succ: list[int] = [idx[links[e].succ] for e in kept]
+        self.kind: list[int] = [_KIND[links[e].type] for e in kept]
+        self.lag: list[int] = [links[e].lag for e in kept]
         self._arrays()
+        self._in_links: list[list[int]] | None = None
+        self._out_links: list[list[int]] | None = None
+
+    @property
+    def in_links(self) -> list[list[int]]:
+        """Links into each activity (for the loop passes), built on first use."""
+        if self._in_links is None:
+            self._in_links = [[] for _ in self.ids]
+            for e, j in enumerate(self.succ):
+                self._in_links[j].append(e)
+        return self._in_links
+
+    @property
+    def out_links(self) -> list[list[int]]:
+        """Links out of each activity (for the loop passes), built on first use."""
+        if self._out_links is None:
+            self._out_links = [[] for _ in self.ids]
+            for e, i in enumerate(self.pred):
+                self._out_links[i].append(e)
+        return self._out_links
 
     def _compile_link(self, link, i: int, j: int, states) -> bool:
         """Keep a link between two schedulable events; a link whose predecessor event is

@@ -112,10 +112,8 @@ def _unsigned_text(value: object) -> bool:
     The number readers take a quick path for it; anything else goes through
     :func:`_plain_decimal` and its checks.
     """
-    if type(value) is not str or len(value) > 15:
-        return False
-    digits = value.replace(".", "", 1)
-    return digits.isascii() and digits.isdigit()
+    return (type(value) is str and len(value) <= 15 and value.isascii()
+            and value.replace(".", "", 1).isdigit())
 
 
 def _plain_decimal(value: object, where: Where) -> Decimal:

@@ -139,21 +139,6 @@ def _cell(row: Row, table: Table, column: str) -> tuple[str, Where]:
 _UNPLACED = Where(None)
 
 
-def _parsed(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
-            text: str) -> object:
-    """``parse(text, where)`` with the cell's place built only when there is an error.
-
-    Parsing is pure and its result does not depend on the place, so a bad cell is simply
-    parsed again with its place, which raises the very error it would have raised at once.
-    (Building a place for every cell took longer than reading the plain numbers in it.)
-    """
-    try:
-        return parse(text, _UNPLACED)
-    except InputError:
-        pass
-    return parse(text, Where(table.source, row.line, column))
-
-
 def _required(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
               what: str) -> object:
     """A cell that must not be empty, parsed; ``what`` says what to write there."""
@@ -161,14 +146,26 @@ def _required(row: Row, table: Table, column: str, parse: Callable[[str, Where],
     if not text:
         raise Where(table.source, row.line, column).error(f"the {column} is empty", text,
                                                           f"write {what}")
-    return _parsed(row, table, column, parse, text)
+    return _optional(row, table, column, parse)
 
 
 def _optional(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
               default: object = None) -> object:
-    """A cell parsed, or ``default`` when it is empty."""
+    """A cell parsed, or ``default`` when it is empty.
+
+    The cell's place is built only for an error: parsing is pure and its result does not
+    depend on the place, so a bad cell is simply parsed again with its place, which raises
+    the very error it would have raised at once. (Building a place for every cell took
+    longer than reading the plain numbers in it.)
+    """
     text = row.cells.get(column, "")
-    return _parsed(row, table, column, parse, text) if text else default
+    if not text:
+        return default
+    try:
+        return parse(text, _UNPLACED)
+    except InputError:
+        pass
+    return parse(text, Where(table.source, row.line, column))
 
 
 def _lag(text: str, where: Where) -> int:
