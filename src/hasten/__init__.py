@@ -5,10 +5,18 @@ The library core: :mod:`hasten.model` (dataclasses), :mod:`hasten.network` (CPM)
 :mod:`hasten.checks` (independent plan checks).
 """
 
-from .crashing import Plan, Study
 from .errors import HastenError, InputError
 from .model import Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType, Project
 from .network import Schedule, schedule
+
+
+def __getattr__(name: str):
+    """``Study`` and ``Plan`` load the optimiser (and its solvers) on first use only."""
+    if name in ("Study", "Plan"):
+        from . import crashing
+
+        return getattr(crashing, name)
+    raise AttributeError(f"module 'hasten' has no attribute {name!r}")
 
 __all__ = [
     "Activity", "Calendar", "Contract", "Costs", "CrashStep", "Link", "LinkType", "Project",

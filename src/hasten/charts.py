@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
-from .crashing import CurvePoint, Study
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from .crashing import CurvePoint, Study
 
 __all__ = ["curve_chart"]
 

@@ -16,12 +16,11 @@ from contextlib import contextmanager
 from datetime import date
 from importlib import resources
 from pathlib import Path
-from typing import Annotated, Optional
+from typing import TYPE_CHECKING, Annotated, Optional
 
 import typer
 
 from . import render
-from .crashing import Study
 from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
@@ -29,7 +28,9 @@ from .formats.research import read_research
 from .options import drop_dominated
 from .network import Network
 from .network import schedule as cpm
-from .recovery import recovery
+
+if TYPE_CHECKING:
+    from .crashing import Study
 
 __all__ = ["app", "main"]
 
@@ -259,6 +260,8 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
         study, notes = _study(project, time_limit)
+        from .recovery import recovery
+
         with _progress(not as_json) as tick:
             result = recovery(study, progress=tick)
         if as_json:
@@ -299,6 +302,8 @@ def import_(
 
 def _study(path: Path, time_limit: float | None) -> tuple[Study, list[str]]:
     """Read a project, drop options beaten on time and cost, and set up the study."""
+    from .crashing import Study  # the optimiser (and its solvers) only where needed
+
     project, notes = drop_dominated(read_project(path))
     return Study(project, time_limit=time_limit), notes
 
@@ -328,6 +333,8 @@ def demo(
             if item.is_file() and not item.name.startswith((".", "_")):
                 with resources.as_file(item) as path:
                     shutil.copyfile(path, folder / item.name)
+        from .crashing import Study
+
         p = read_project(folder)
         study = Study(p)
         clock = study.clock

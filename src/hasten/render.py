@@ -9,11 +9,15 @@ from datetime import date
 
 from tabulate import tabulate
 
+from typing import TYPE_CHECKING
+
 from .calendar import CalendarClock
 from .cautions import plan_cautions
-from .crashing import BestFinish, CurvePoint, Plan, Study
 from .model import Project
 from .network import Schedule
+
+if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
+    from .crashing import BestFinish, CurvePoint, Plan, Study
 
 __all__ = [
     "money",
