@@ -8,13 +8,18 @@ by hand from the data files, never computed by our code.
 
 from __future__ import annotations
 
+import gc
 import json
 import os
+import re
 import shutil
 import string
+import subprocess
+import sys
 import tempfile
 from dataclasses import replace
 from datetime import date, datetime, timedelta
+from decimal import Decimal
 from pathlib import Path
 
 import openpyxl
@@ -25,6 +30,7 @@ from hypothesis import strategies as st
 from hasten.errors import CycleError, InputError
 from hasten.formats import (convert, parse_predecessors, parse_tables, read_project,
                             write_project)
+from hasten.formats.cells import Where, number_value, whole_value
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.model import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
                           Option, Project)
@@ -1072,3 +1078,83 @@ def test_random_projects_round_trip_through_every_form(original):
             write_project(current, Path(tmp) / name)
             current = read_project(Path(tmp) / name)
             assert current == original, name
+
+
+# ---------------------------------------------------------------- quick paths of the reader
+# The reader takes quick paths for the usual input (plain numbers, full rows, links that
+# point down the table, no loop to name); these check that other input still reads right.
+
+def shed(tmp_path: Path, activities: str) -> Path:
+    """A minimal folder with the given activities.csv text."""
+    (tmp_path / "project.toml").write_text('name = "Shed"\nstart = 2025-01-06\n', encoding="utf-8")
+    (tmp_path / "activities.csv").write_text(activities, encoding="utf-8")
+    return tmp_path
+
+
+def test_links_pointing_up_the_table_are_read(tmp_path):
+    folder = shed(tmp_path, "id,duration,predecessors\nC,2,B\nB,3,A:SS+1\nA,1,\n")
+    assert read_project(folder) == Project(
+        "Shed", date(2025, 1, 6), (Activity("C", 2), Activity("B", 3), Activity("A", 1)),
+        (Link("B", "C"), Link("A", "B", SS, 1)))
+
+
+def test_loop_pointing_up_the_table_is_refused(tmp_path):
+    error = read_error(shed(tmp_path, "id,duration,predecessors\nA,1,C\nB,3,A\nC,2,B\n"),
+                       CycleError)
+    assert sorted(error.cycle) == ["A", "B", "C"] and "activities.csv" in error.file
+
+
+def test_short_rows_and_empty_unnamed_columns(tmp_path):
+    # a short row leaves its last cells empty; an empty column without a name is ignored
+    folder = shed(tmp_path, "id,duration,name,\nA,1,Alpha,\nB,2\n")
+    assert read_project(folder).activities == (Activity("A", 1, "Alpha"), Activity("B", 2))
+
+
+def test_value_in_a_column_without_a_name_is_refused(tmp_path):
+    folder = shed(tmp_path, "id,duration,name,\nA,1,Alpha,\nB,2,Beta,late\n")
+    check_error(read_error(folder), file="activities.csv", row=3, column="#4", value="late",
+                says="column without a name")
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.text(alphabet="0123456789.\u0663", min_size=1, max_size=20))
+def test_digits_read_as_the_decimal_module_reads_them(text):
+    """Digits with at most one decimal point (ASCII or other decimal digits such as the
+    Arabic-Indic three, any length) read as Python's standard decimal module reads them;
+    anything else made of these characters is refused."""
+    where = Where("activities.csv", 2, "cost")
+    if not re.fullmatch(r"\d+(?:\.\d*)?|\.\d+", text):
+        with pytest.raises(InputError, match="not a plain number"):
+            number_value(text, where)
+        return
+    exact = Decimal(text)
+    assert number_value(text, where) == float(exact)
+    if exact == exact.to_integral_value():
+        assert whole_value(text, where) == int(exact)
+    else:
+        with pytest.raises(InputError, match="not a whole number"):
+            whole_value(text, where)
+
+
+@pytest.mark.parametrize("enabled", [True, False])
+def test_reading_leaves_the_garbage_collector_as_it_was(hall, enabled):
+    was = gc.isenabled()
+    try:
+        (gc.enable if enabled else gc.disable)()
+        read_project(hall)
+        assert gc.isenabled() == enabled
+        edit(hall / "activities.csv", "Electrical,6,", "Electrical,six,")
+        read_error(hall)
+        assert gc.isenabled() == enabled
+    finally:
+        (gc.enable if was else gc.disable)()
+
+
+def test_reading_a_folder_leaves_workbook_and_graph_libraries_unimported():
+    # openpyxl and networkx take longer to import than most folders take to read: they are
+    # imported only for a workbook or to name the activities around a loop
+    code = ("import sys; from hasten.formats import read_project; read_project(sys.argv[1]); "
+            "print(sorted(m for m in ('openpyxl', 'networkx') if m in sys.modules))")
+    run = subprocess.run([sys.executable, "-c", code, str(HALL)], capture_output=True,
+                         text=True, check=True)
+    assert run.stdout.strip() == "[]"

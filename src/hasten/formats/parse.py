@@ -358,9 +358,10 @@ def _column_links(table: Table) -> list[_LinkSpec]:
     """Links written in the predecessors column, in row order."""
     specs = []
     for row in table.rows:
-        if not row.cells.get(PREDECESSORS):  # no predecessors: nothing to read
+        text = row.cells.get(PREDECESSORS)
+        if not text:  # no predecessors: nothing to read
             continue
-        text, where = _cell(row, table, PREDECESSORS)
+        where = Where(table.source, row.line, PREDECESSORS)
         succ = row.cells["id"]
         for item, (pred, kind, lag) in parse_predecessor_items(text, where):
             specs.append(_LinkSpec(Link(pred, succ, kind, lag), where, item, item))
