@@ -24,7 +24,6 @@ from . import render
 from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
-from .formats.research import read_research
 from .options import drop_dominated
 from .network import Network
 from .network import schedule as cpm
@@ -292,6 +291,8 @@ def import_(
     Multi-mode jobs: the longest mode is the normal way, the other modes become options
     costing the difference in nonrenewable resources; renewable resources are ignored.
     """
+    from .formats.research import read_research
+
     with _errors():
         project = read_research(source)
         write_project(project, target)

@@ -56,9 +56,9 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tupl
 
     A milestone (start == finish) is dated on the last working day before it, like the
     project finish: the day its predecessors end."""
-    first = clock.dates_of([f - 1 if f == s and s > 0 else s for s, f in zip(starts, finishes)])
-    last = clock.dates_of([max(f - 1, 0) if f > s else max(s - 1, 0) for s, f in zip(starts, finishes)])
-    return [d.isoformat() for d in first], [d.isoformat() for d in last]
+    first = clock.iso_dates([f - 1 if f == s and s > 0 else s for s, f in zip(starts, finishes)])
+    last = clock.iso_dates([max(f - 1, 0) if f > s else max(s - 1, 0) for s, f in zip(starts, finishes)])
+    return first, last
 
 
 def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> list[dict]:

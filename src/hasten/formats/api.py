@@ -46,8 +46,9 @@ def _collector_paused() -> Iterator[None]:
 
     Reading builds a few small objects per cell that all stay alive. Every time their
     number grows by a quarter the collector walks all of them, which on a 50,000-activity
-    project cost as much time as the reading itself. Reading makes no reference cycles, and
-    reference counting frees everything as usual, so nothing is kept longer.
+    project cost as much time as the reading itself. Reading builds no reference cycles and
+    reference counting still frees everything else at once. The collector is process-wide:
+    other threads get no cycle collection during the read either.
     """
     enabled = gc.isenabled()
     gc.disable()
