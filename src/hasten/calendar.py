@@ -76,10 +76,6 @@ class CalendarClock:
         return int(np.busday_count(np.datetime64(first, "D"), np.datetime64(last, "D") + 1,
                                    busdaycal=self._cal))
 
-    def calendar_days_between(self, a: date, b: date) -> int:
-        """``b - a`` in calendar days."""
-        return (b - a).days
-
     def shift_calendar_days(self, finish: int, days: int) -> int:
         """The finish offset whose last working day is on or before the date ``days``
         calendar days before the finish date of ``finish`` (``days`` > 0 = earlier)."""

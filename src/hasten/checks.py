@@ -13,41 +13,15 @@ from typing import Sequence
 import numpy as np
 
 from .errors import PlanCheckError
-from .model import Activity, LinkType, Option, Project
+from .model import LinkType, Option, Project
 from .status import DONE
 
-__all__ = ["activity_added_cost", "option_added_cost", "plan_added_cost", "check_plan", "PlanChecker"]
-
-
-def activity_added_cost(act: Activity, cut: int) -> float:
-    """Cost of shortening ``act`` by ``cut`` days, from its raw data."""
-    if cut == 0:
-        return 0.0
-    if act.steps:
-        total, left = 0.0, cut
-        for step in act.steps:
-            take = min(left, step.days)
-            total += take * step.cost_per_day
-            left -= take
-        return total
-    crash = act.crash_duration if act.crash_duration is not None else act.duration
-    crash_cost = act.crash_cost if act.crash_cost is not None else act.cost
-    return (crash_cost - act.cost) * cut / (act.duration - crash)
+__all__ = ["option_added_cost", "check_plan", "PlanChecker"]
 
 
 def option_added_cost(option: Option, duration: int) -> float:
     """Added cost of performing an activity by ``option`` in ``duration`` days."""
     return option.added_cost + option.cost_per_day * (option.duration - duration)
-
-
-def plan_added_cost(project: Project, durations: Sequence[int],
-                    choices: Sequence[int] | None = None) -> float:
-    """Added direct cost of running the activities for ``durations`` days, each the normal
-    way (choice -1) or by the option of that index."""
-    if choices is None:
-        choices = [-1] * len(durations)
-    return sum(activity_added_cost(a, a.duration - d) if c < 0 else option_added_cost(a.options[c], d)
-               for a, d, c in zip(project.activities, durations, choices))
 
 
 def _link_arrays(project: Project, dropped=frozenset()):

@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from datetime import date
-from typing import Callable, Sequence
+from typing import Callable
 
 from .checks import PlanChecker
 from .costs import TimeCosts, time_costs

@@ -30,7 +30,6 @@ __all__ = [
     "ActivityDates",
     "Schedule",
     "schedule",
-    "early_finish",
     "MAX_PATHS",
 ]
 
@@ -281,17 +280,6 @@ class Network:
         earlier = es[p] + np.where(self._from_finish, d[p], 0) + self._lag
         return later - earlier
 
-    def link_slack(self, e: int, es: Sequence[int], d: Sequence[int]) -> int:
-        """How far the successor of link ``e`` starts after the link allows (early dates)."""
-        i, j, k, lg = self.pred[e], self.succ[e], self.kind[e], self.lag[e]
-        if k == _FS:
-            return es[j] - (es[i] + d[i] + lg)
-        if k == _SS:
-            return es[j] - (es[i] + lg)
-        if k == _FF:
-            return es[j] + d[j] - (es[i] + d[i] + lg)
-        return es[j] + d[j] - (es[i] + lg)
-
 
 @dataclass(frozen=True)
 class ActivityDates:
@@ -326,11 +314,6 @@ class Schedule:
     @property
     def critical_ids(self) -> list[str]:
         return [a.id for a in self.activities if a.critical]
-
-
-def early_finish(network: Network, durations: Sequence[int] | None = None) -> int:
-    """Project finish (working days) of the early-start schedule, forward pass only."""
-    return network.forward_finish(durations)
 
 
 def schedule(project_or_network: Project | Network, durations: Sequence[int] | None = None,

@@ -86,7 +86,6 @@ class CrashModel:
                  time_limit: float | None = None):
         _convex(network)
         self.net = network
-        n = len(network)
         lm = LinearModel(solver=solver, time_limit=time_limit)
         self.lp = lm
         release = np.asarray(network.release, dtype=float)

@@ -4,7 +4,6 @@ dicts, table rows). Nothing here prints; the CLI does.
 
 from __future__ import annotations
 
-import math
 from datetime import date
 
 from tabulate import tabulate
@@ -280,10 +279,6 @@ def best_json(study: Study, best: BestFinish) -> dict:
     out["table"] = [row(r) for r in best.table]
     out["plan"] = plan_json(study, best.plan)
     return out
-
-
-def is_number(x: float) -> bool:  # pragma: no cover - tiny helper kept private to tables
-    return not math.isnan(x)
 
 
 # -- recovery ------------------------------------------------------------------------
