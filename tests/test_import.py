@@ -20,7 +20,6 @@ from __future__ import annotations
 import csv
 import itertools
 import re
-import shutil
 from pathlib import Path
 
 import networkx as nx
@@ -30,7 +29,7 @@ import pytest
 from hasten.errors import CycleError, InputError
 from hasten.formats import read_project, write_project
 from hasten.formats.research import read_research
-from hasten.model import Calendar, Link, LinkType, Project
+from hasten.model import Calendar, LinkType, Project
 from hasten.network import schedule
 from hasten.options import drop_dominated
 

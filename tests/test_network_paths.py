@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import random
 
-import numpy as np
 import pytest
 
 from conftest import make_project, nx_cpm
