@@ -38,7 +38,7 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 
-from generate import random_project  # noqa: E402
+from generate import project_folder, random_project  # noqa: E402
 from hasten.calendar import CalendarClock  # noqa: E402
 from hasten.formats import read_project, write_project  # noqa: E402
 from hasten.model import Project  # noqa: E402
@@ -70,26 +70,6 @@ def run(cmd: list[str], **kwargs) -> None:
     done = subprocess.run(cmd, stderr=subprocess.PIPE, check=False, **kwargs)
     if done.returncode != 0:
         raise RuntimeError(f"{' '.join(cmd)} failed ({done.returncode}): {done.stderr.decode()[-2000:]}")
-
-
-def project_folder(project: Project, workdir: Path) -> tuple[Path, float | None]:
-    """The project written as a folder with ``write_project``; returns (path, seconds to write).
-
-    A folder written into ``workdir`` by an earlier run is reused when it reads back equal
-    to ``project`` (then the seconds are ``None``).
-    """
-    path = workdir / project.name
-    if path.is_dir():
-        try:
-            if read_project(path) == project:
-                return path, None
-        except Exception:  # noqa: BLE001 - a stale or broken folder is simply rewritten
-            pass
-        shutil.rmtree(path)
-    workdir.mkdir(parents=True, exist_ok=True)
-    t = time.perf_counter()
-    write_project(project, path)
-    return path, time.perf_counter() - t
 
 
 def main(argv=None) -> int:

@@ -44,7 +44,7 @@ sys.path.insert(0, str(HERE))
 import highspy  # noqa: E402
 import pulp  # noqa: E402
 
-from generate import random_project  # noqa: E402
+from generate import project_folder, random_project  # noqa: E402
 from hasten.crashing import Study  # noqa: E402
 from hasten.formats import read_project, write_project  # noqa: E402
 from hasten.model import LinkType, Project  # noqa: E402
@@ -119,25 +119,6 @@ def hasten_command() -> list[str]:
     """The installed ``hasten`` console script next to this Python, else ``python -m hasten``."""
     script = Path(sys.executable).with_name("hasten")
     return [str(script)] if script.exists() else [sys.executable, "-m", "hasten"]
-
-
-def project_folder(project: Project, workdir: Path) -> tuple[Path, float | None]:
-    """The project written as a folder with ``write_project``; returns (path, seconds to write).
-
-    A folder written into ``workdir`` by an earlier run is reused when it reads back equal
-    to ``project`` (then the seconds are ``None``).
-    """
-    path = workdir / project.name
-    if path.is_dir():
-        try:
-            if read_project(path) == project:
-                return path, None
-        except Exception:  # noqa: BLE001 - a stale or broken folder is simply rewritten
-            pass
-        shutil.rmtree(path)
-    workdir.mkdir(parents=True, exist_ok=True)
-    seconds, _ = timed(write_project, project, path)
-    return path, seconds
 
 
 def profile(fn, top: int = 25) -> None:

@@ -3,11 +3,15 @@
 from __future__ import annotations
 
 import random
+import shutil
+import time
 from datetime import date
+from pathlib import Path
 
+from hasten.formats import read_project, write_project
 from hasten.model import Activity, Link, LinkType, Project
 
-__all__ = ["random_project"]
+__all__ = ["random_project", "project_folder"]
 
 _TYPES = [LinkType.FS] * 14 + [LinkType.SS] * 3 + [LinkType.FF] * 2 + [LinkType.SF]
 _TRADES = ["earthworks", "concrete", "steel", "masonry", "mechanical", "electrical", "finishes"]
@@ -35,3 +39,23 @@ def random_project(n: int, seed: int = 1, window: int = 40, max_preds: int = 3) 
             links.append(Link(f"T{p:05d}", f"T{i:05d}", t, lag))
     return Project(name=f"random-{n}-{seed}", start=date(2027, 1, 4), activities=tuple(acts),
                    links=tuple(links))
+
+
+def project_folder(project: Project, workdir: Path) -> tuple[Path, float | None]:
+    """The project written as a folder with ``write_project``; returns (path, seconds to write).
+
+    A folder written into ``workdir`` by an earlier run is reused when it reads back equal
+    to ``project`` (then the seconds are ``None``).
+    """
+    path = workdir / project.name
+    if path.is_dir():
+        try:
+            if read_project(path) == project:
+                return path, None
+        except Exception:  # noqa: BLE001 - a stale or broken folder is simply rewritten
+            pass
+        shutil.rmtree(path)
+    workdir.mkdir(parents=True, exist_ok=True)
+    t = time.perf_counter()
+    write_project(project, path)
+    return path, time.perf_counter() - t
