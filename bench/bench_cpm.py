@@ -28,7 +28,6 @@ import io
 import json
 import os
 import pstats
-import shutil
 import subprocess
 import sys
 import tempfile
@@ -40,7 +39,7 @@ sys.path.insert(0, str(HERE))
 
 from generate import project_folder, random_project  # noqa: E402
 from hasten.calendar import CalendarClock  # noqa: E402
-from hasten.formats import read_project, write_project  # noqa: E402
+from hasten.formats import read_project  # noqa: E402
 from hasten.model import Project  # noqa: E402
 from hasten.network import Network, schedule  # noqa: E402
 from hasten import render  # noqa: E402
@@ -112,10 +111,9 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
     net = Network(read)
     t_passes, _ = best_of(args.repeat, lambda: net.backward(net.durations, max(
         e + d for e, d in zip(net.forward(net.durations), net.durations))))
-    clock = CalendarClock(read.calendar, read.start)
 
     def to_json(p, s):
-        return json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)), indent=2,
+        return json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)),
                           ensure_ascii=False)
 
     t_json, text = best_of(args.repeat, lambda: to_json(read, sched))
@@ -155,7 +153,7 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
         prof.enable()
         p = read_project(folder)
         s = schedule(p)
-        json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)), indent=2, ensure_ascii=False)
+        json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)), ensure_ascii=False)
         prof.disable()
         out = io.StringIO()
         pstats.Stats(prof, stream=out).sort_stats("cumulative").print_stats(30)

@@ -27,7 +27,6 @@ import json
 import os
 import pstats
 import resource
-import shutil
 import statistics
 import subprocess
 import sys
@@ -46,7 +45,6 @@ import pulp  # noqa: E402
 
 from generate import project_folder, random_project  # noqa: E402
 from hasten.crashing import Study  # noqa: E402
-from hasten.formats import read_project, write_project  # noqa: E402
 from hasten.model import LinkType, Project  # noqa: E402
 from hasten.optimise import Objective  # noqa: E402
 
