@@ -159,7 +159,7 @@ def test_curve_json_csv_plot(ques10: Path, tmp_path: Path):
     assert min(points) == 12 and max(points) == 23
     assert points[22]["changes"] == [{"id": "C", "days": -1}]
     assert points[17]["day_cost"] == 140
-    assert (tmp_path / "c.csv").read_text().startswith("finish,finish_date,added_cost,day_cost,changes")
+    assert (tmp_path / "c.csv").read_text().startswith("finish,finish_date,added_cost,milestone_damages,day_cost,changes")
     assert (tmp_path / "c.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
     part = json.loads(run("curve", ques10, "--from", 20, "--to", 18, "--json").output)
     assert [p["finish"] for p in part["points"]] == [20, 19, 18]

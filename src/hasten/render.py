@@ -219,24 +219,29 @@ def _changes(p: CurvePoint) -> str:
 
 def curve_rows(study: Study, points: list[CurvePoint]) -> list[dict]:
     return [{"finish": p.finish, "finish_date": _d(study.clock.project_finish_date(p.finish)),
-             "added_cost": _r(p.added_cost), "day_cost": _r(p.day_cost),
+             "added_cost": _r(p.added_cost), "milestone_damages": _r(p.penalty), "day_cost": _r(p.day_cost),
              "changes": _changes(p)} for p in points]
 
 
 def curve_text(study: Study, points: list[CurvePoint]) -> str:
     cur = study.project.currency
-    table = tabulate([[p.finish, _d(study.clock.project_finish_date(p.finish)), money(p.added_cost),
-                       money(p.day_cost), _changes(p)] for p in points],
-                     headers=["finish (days)", "finish date", "added cost", "cost of this day",
-                              "changes (days)"], tablefmt="simple", disable_numparse=True)
+    damages = study.penalised  # interim milestones with damages: show what is paid at each finish
+    table = tabulate([[p.finish, _d(study.clock.project_finish_date(p.finish)), money(p.added_cost)]
+                      + ([money(p.penalty)] if damages else []) + [money(p.day_cost), _changes(p)]
+                      for p in points],
+                     headers=["finish (days)", "finish date", "added cost"]
+                     + (["milestone damages"] if damages else []) + ["cost of this day", "changes (days)"],
+                     tablefmt="simple", disable_numparse=True)
     return "\n".join([f"Least-cost curve for {study.project.name} ({cur or 'money'}); "
                       f"normal finish {study.normal_finish}, shortest possible {study.shortest_finish} "
-                      "working days", table])
+                      "working days" + ("; each point trades acceleration against milestone damages"
+                                        if damages else ""), table])
 
 
 def curve_json(study: Study, points: list[CurvePoint]) -> dict:
     return {"normal_finish": study.normal_finish, "shortest_finish": study.shortest_finish,
-            "points": [{"finish": p.finish, "added_cost": _r(p.added_cost), "day_cost": _r(p.day_cost),
+            "points": [{"finish": p.finish, "added_cost": _r(p.added_cost), "milestone_damages": _r(p.penalty),
+                        "day_cost": _r(p.day_cost),
                         "changes": [{"id": i, "days": d} for i, d in p.changes],
                         "switches": [{"id": i, "option": way or None} for i, way in p.switches],
                         "proven_optimal": p.proven, "gap": p.gap} for p in points]}
