@@ -30,7 +30,7 @@ from hypothesis import strategies as st
 from hasten.errors import CycleError, InputError
 from hasten.formats import (convert, parse_predecessors, parse_tables, read_project,
                             write_project)
-from hasten.formats.cells import Where, number_value, whole_value
+from hasten.formats.cells import WHOLE_LIMIT, Where, number_value, whole_value
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.model import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
                           Option, Project)
@@ -1129,7 +1129,10 @@ def test_digits_read_as_the_decimal_module_reads_them(text):
         return
     exact = Decimal(text)
     assert number_value(text, where) == float(exact)
-    if exact == exact.to_integral_value():
+    if exact == exact.to_integral_value() and int(exact) > WHOLE_LIMIT:
+        with pytest.raises(InputError, match="more than"):
+            whole_value(text, where)
+    elif exact == exact.to_integral_value():
         assert whole_value(text, where) == int(exact)
     else:
         with pytest.raises(InputError, match="not a whole number"):
@@ -1158,3 +1161,16 @@ def test_reading_a_folder_leaves_workbook_and_graph_libraries_unimported():
     run = subprocess.run([sys.executable, "-c", code, str(HALL)], capture_output=True,
                          text=True, check=True)
     assert run.stdout.strip() == "[]"
+
+
+def test_an_absurdly_large_whole_number_is_a_clear_error(tmp_path):
+    """A duration of thousands of digits is a typing slip: a clear error, not a traceback
+    when the number is later printed or written (Python limits int-to-text conversion)."""
+    folder = tmp_path / "p"
+    folder.mkdir()
+    (folder / "project.toml").write_text('name = "x"\nstart = 2027-01-04\ncalendar = "mon-fri"\n')
+    (folder / "activities.csv").write_text("id,duration\nA," + "9" * 5000 + "\n")
+    with pytest.raises(InputError) as err:
+        read_project(folder)
+    assert err.value.row == 2 and err.value.column == "duration"
+    assert "1,000,000" in str(err.value) and "5000 characters" in str(err.value)

@@ -164,7 +164,17 @@ def whole_value(value: object, where: Where, *, minimum: int | None = 0,
     if minimum is not None and number < minimum:
         raise where.error("must not be negative" if minimum == 0 else f"must be at least {minimum}",
                           value, f"write {minimum} or more")
+    if abs(number) > WHOLE_LIMIT:
+        shown = value if len(str(value)) <= 40 else f"{str(value)[:20]}... ({len(str(value))} characters)"
+        raise where.error(f"more than {WHOLE_LIMIT:,} {unit}", shown,
+                          f"write a number of {unit} up to {WHOLE_LIMIT:,}")
     return number
+
+
+#: The largest whole number of days accepted (a thousand years of working days is plenty;
+#: far larger numbers are typing slips, and Python refuses to print numbers of thousands
+#: of digits).
+WHOLE_LIMIT = 1_000_000
 
 
 def date_value(value: object, where: Where) -> date:
