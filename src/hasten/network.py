@@ -81,27 +81,30 @@ class Network:
         idx = self.index
         # what is left to schedule: durations at normal pace, crash steps, options
         self.durations: list[int] = [s.duration for s in states]
-        self.steps = [s.steps for s in states]
         self.options = [a.options if s.state == WAITING else () for a, s in zip(acts, states)]
-        self.shortest: list[int] = [min([d - sum(x.days for x in st)] + [o.shortest for o in opts])
-                                    for d, st, opts in zip(self.durations, self.steps, self.options)]
+        self._steps: list | None = None
+        self._shortest: list[int] | None = None
         self.release: list[int] = [s.release for s in states]  # earliest start
         self.fixed: list[bool] = [s.state == DONE for s in states]  # start fixed at release
         self.finish_release: list[int] = [0] * n  # earliest finish, from links to fixed events
         self.shown_start: list[int | None] = [s.start for s in states]  # actual start, if any
-        self._cycle_check(project, idx)
         links = project.links
+        every_pred = np.fromiter((idx[k.pred] for k in links), dtype=np.int64, count=len(links))
+        every_succ = np.fromiter((idx[k.succ] for k in links), dtype=np.int64, count=len(links))
+        levels = self._cycle_check(every_pred, every_succ)
         if self.status.progressed:
             kept = [e for e, k in enumerate(links) if e not in self.status.dropped
                     and self._compile_link(k, idx[k.pred], idx[k.succ], states)]
+            self.pred: list[int] = every_pred[kept].tolist()
+            self.succ: list[int] = every_succ[kept].tolist()
+            levels = None  # fewer links: the levels are counted again
         else:  # without progress every link joins two events still to schedule
             kept = range(len(links))
+            self.pred, self.succ = every_pred.tolist(), every_succ.tolist()
         self.link_index: list[int] = list(kept)  # position of each link in project.links
-        self.pred: list[int] = [idx[links[e].pred] for e in kept]
-        self.succ: list[int] = [idx[links[e].succ] for e in kept]
         self.kind: list[int] = [_KIND[links[e].type] for e in kept]
         self.lag: list[int] = [links[e].lag for e in kept]
-        self._arrays()
+        self._arrays(levels)
         self._in_links: list[list[int]] | None = None
         self._out_links: list[list[int]] | None = None
 
@@ -144,13 +147,13 @@ class Network:
             self.finish_release[j] = max(self.finish_release[j], at + link.lag)
         return False
 
-    def _cycle_check(self, project: Project, idx: dict[str, int]) -> None:
-        """Refuse a loop in the links (all of them, also those progress has overridden)."""
-        pred = np.fromiter((idx[k.pred] for k in project.links), dtype=np.int64, count=len(project.links))
-        succ = np.fromiter((idx[k.succ] for k in project.links), dtype=np.int64, count=len(project.links))
-        if _levels(len(idx), pred, succ) is not None:
-            return
-        preds: dict[int, list[int]] = {j: [] for j in range(len(idx))}
+    def _cycle_check(self, pred: np.ndarray, succ: np.ndarray) -> np.ndarray:
+        """Refuse a loop in the links (all of them, also those progress has overridden);
+        returns the level of each activity."""
+        levels = _levels(len(self.ids), pred, succ)
+        if levels is not None:
+            return levels
+        preds: dict[int, list[int]] = {j: [] for j in range(len(self.ids))}
         for i, j in zip(pred.tolist(), succ.tolist()):
             preds[j].append(i)
         try:  # name the loop
@@ -159,7 +162,23 @@ class Network:
             loop = exc.args[1][:-1]  # graphlib repeats the first node at the end
             raise CycleError([self.ids[i] for i in reversed(loop)]) from None
 
-    def _arrays(self) -> None:
+    @property
+    def steps(self) -> list:
+        """Crash steps still available per activity, in order of use (built on first use)."""
+        if self._steps is None:
+            self._steps = [a.segments() if st.steps is None else st.steps
+                           for a, st in zip(self.project.activities, self.status.activities)]
+        return self._steps
+
+    @property
+    def shortest(self) -> list[int]:
+        """Shortest possible duration of what is left, over crash steps and options."""
+        if self._shortest is None:
+            self._shortest = [min([d - sum(x.days for x in st)] + [o.shortest for o in opts])
+                              for d, st, opts in zip(self.durations, self.steps, self.options)]
+        return self._shortest
+
+    def _arrays(self, level: np.ndarray | None) -> None:
         """Links as numpy arrays grouped by level, for the vectorised passes."""
         n = len(self.ids)
         self._p = np.asarray(self.pred, dtype=np.int64)
@@ -168,7 +187,8 @@ class Network:
         self._lag = np.asarray(self.lag, dtype=np.int64)
         self._from_finish = (kind == _FS) | (kind == _FF)  # the link leaves the predecessor's finish
         self._to_finish = (kind == _FF) | (kind == _SF)  # it constrains the successor's finish
-        level = _levels(n, self._p, self._s)
+        if level is None:
+            level = _levels(n, self._p, self._s)
         self.order: list[int] = np.argsort(level, kind="stable").tolist()
         top = int(level.max()) + 1 if n else 0
         # many nodes per level: numpy passes one level at a time; long chains: plain loops

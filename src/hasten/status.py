@@ -45,7 +45,8 @@ class ActivityStatus:
     duration: int  # working days still to schedule, at normal pace (actual span when finished)
     release: int  # earliest (for finished: the fixed) start of that part
     start: int | None  # actual start offset of a finished or started activity
-    steps: tuple[CrashStep, ...]  # crash steps still available, in order of use
+    steps: tuple[CrashStep, ...] | None  # crash steps still available, in order of use;
+    # None: all of the activity's own (Activity.segments())
 
 
 @dataclass(frozen=True)
@@ -77,7 +78,7 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
     if data is None or (act.actual_start is None and act.actual_finish is None):
         if data is not None:
             release = max(release, data)
-        return ActivityStatus(WAITING, act.duration, release, None, act.segments())
+        return ActivityStatus(WAITING, act.duration, release, None, None)
     if act.actual_start is None:
         raise InputError(f"activity {act.id} has an actual finish but no actual start",
                          column="actual_start", value=None, fix="give the date work started")
@@ -119,6 +120,10 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
 def apply_status(project: Project, clock: CalendarClock) -> Status:
     """Progress and date constraints of every activity, and the links still in force."""
     data = None if project.data_date is None else clock.offset_of(project.data_date, finish=False)
+    if data is None and not any(a.not_before for a in project.activities):
+        # no progress, no dates: everything waits to start at day 0 at its normal pace
+        return Status(None, tuple([ActivityStatus(WAITING, a.duration, 0, None, None)
+                                   for a in project.activities]), frozenset(), ())
     states = tuple(_one(a, clock, data, project.data_date) for a in project.activities)
     dropped, warnings = set(), []
     if data is not None:
