@@ -1174,3 +1174,37 @@ def test_an_absurdly_large_whole_number_is_a_clear_error(tmp_path):
         read_project(folder)
     assert err.value.row == 2 and err.value.column == "duration"
     assert "1,000,000" in str(err.value) and "5000 characters" in str(err.value)
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.fixed_dictionaries({
+    "id": st.from_regex(r"[A-Za-z0-9_.\-]{1,8}", fullmatch=True),
+    "duration": st.from_regex(r"[0-9]{1,6}", fullmatch=True),
+    "crash_duration": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,6}", fullmatch=True)),
+    "cost": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,6}(\.[0-9]{1,4})?", fullmatch=True)),
+    "crash_cost": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,6}(\.[0-9]{1,4})?", fullmatch=True)),
+    "name": st.text(max_size=12), "trade": st.text(max_size=6)}))
+def test_the_quick_path_for_plain_rows_reads_as_the_full_path(cells):
+    """Plain rows are read by a short path (hasten.formats.parse._plain_activity); it must give
+    exactly what the full path with all its checks gives, and decline everything else."""
+    from hasten.formats.parse import _activity, _plain_activity
+    from hasten.formats.tables import Row, Table
+
+    table = Table("activities.csv", tuple(cells), (), 1)
+    row = Row(2, {k: v.strip() if isinstance(v, str) else v for k, v in cells.items()})
+    quick = _plain_activity(row.cells)
+    try:
+        full = _activity(row, table, True)  # with_progress=True: the full path
+    except InputError:
+        assert quick is None
+        return
+    assert quick is None or quick == full
+
+
+def test_the_quick_path_takes_plain_rows():
+    from hasten.formats.parse import _plain_activity
+
+    assert _plain_activity({"id": "A1", "duration": "5", "crash_duration": "3", "cost": "100",
+                            "crash_cost": "160.5", "name": "Pour slab", "trade": "concrete"}) == \
+        Activity("A1", 5, name="Pour slab", trade="concrete", crash_duration=3, cost=100.0, crash_cost=160.5)
+    assert _plain_activity({"id": "A 1", "duration": "5"}) is None  # a space: the full path says why

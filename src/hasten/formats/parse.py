@@ -203,12 +203,47 @@ def _unknown_id(ident: str, ids: Sequence[str], where: Where, value: str, role: 
 
 # ---------------------------------------------------------------- activities
 
+_PLAIN_ID = re.compile(r"[A-Za-z0-9_.\-]+")
+_PLAIN_DAYS = re.compile(r"[0-9]{1,6}")  # at most 999,999: within WHOLE_LIMIT
+_PLAIN_MONEY = re.compile(r"[0-9]{1,15}(?:\.[0-9]{1,15})?")
+
+
+def _plain_activity(cells) -> Activity | None:
+    """The activity of a row whose cells are all in their plainest form (ASCII id, digits,
+    plain decimals, printable text) and consistent; ``None`` for anything else, which then
+    takes the full path of :func:`_activity` with all its checks and messages. Reading a
+    large project spends most of its time here, so the common case is kept short."""
+    get = cells.get
+    ident, duration, crash_duration = get("id", ""), get("duration", ""), get("crash_duration", "")
+    cost, crash_cost = get("cost", ""), get("crash_cost", "")
+    name, trade = get("name", ""), get("trade", "")
+    if not (_PLAIN_ID.fullmatch(ident) and _PLAIN_DAYS.fullmatch(duration)
+            and (not crash_duration or _PLAIN_DAYS.fullmatch(crash_duration))
+            and (not cost or _PLAIN_MONEY.fullmatch(cost))
+            and (not crash_cost or _PLAIN_MONEY.fullmatch(crash_cost))
+            and name.isprintable() and trade.isprintable()
+            and name == name.strip() and trade == trade.strip()):
+        return None
+    d = int(duration)
+    c = int(crash_duration) if crash_duration else None
+    money = float(cost) if cost else 0.0
+    crash_money = float(crash_cost) if crash_cost else None
+    if (c is not None and c > d) or (crash_money is not None and crash_money < money):
+        return None
+    return Activity(id=ident, duration=d, name=name, trade=trade, crash_duration=c, cost=money,
+                    crash_cost=crash_money)
+
+
 def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
     """One activity from its row, with the checks that need only this row.
 
     ``with_progress`` False says the table has no progress column, so those fields keep
     their defaults (what :func:`_progress` gives for empty cells).
     """
+    if not with_progress:
+        plain = _plain_activity(row.cells)
+        if plain is not None:
+            return plain
     duration = _required(row, table, "duration", whole_value, "the normal duration in whole working days")
     crash_duration = _optional(row, table, "crash_duration", whole_value)
     cost = _optional(row, table, "cost", number_value, 0.0)

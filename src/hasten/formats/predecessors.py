@@ -46,6 +46,11 @@ def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
     return kind, int(lag) if sign == "+" else -int(lag)
 
 
+#: type-and-lag texts already read (``"SS+2"``), a few distinct ones in any project;
+#: only texts that read without error are kept
+_known: dict[str, tuple[LinkType, int]] = {}
+
+
 def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[str, LinkType, int]]]:
     """Each non-empty item as (item text, (predecessor id, type, lag))."""
     found = []
@@ -58,7 +63,12 @@ def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[st
         if not ident:
             raise where.error("a predecessor has no id", item,
                               "write the predecessor's id before the colon, e.g. 'A:SS+2'")
-        kind, lag = _type_and_lag(rest, item, where) if colon else (LinkType.FS, 0)
+        if not colon:
+            kind, lag = LinkType.FS, 0
+        else:
+            kind, lag = _known.get(rest) or _type_and_lag(rest, item, where)
+            if len(_known) < 1024:
+                _known[rest] = (kind, lag)
         found.append((item, (ident, kind, lag)))
     return found
 

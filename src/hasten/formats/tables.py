@@ -94,9 +94,11 @@ def _cell_value(cell: object) -> str:
     return clean_text(cell_text(cell))
 
 
-def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object]) -> Row:
-    """Cells of one data row keyed by column name; stray cells are refused."""
-    if len(cells) == len(names) and all(names):  # the usual row: one cell under each name
+def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object],
+         all_named: bool = False) -> Row:
+    """Cells of one data row keyed by column name; stray cells are refused.
+    ``all_named``: every column has a name (the caller checks it once per table)."""
+    if all_named and len(cells) == len(names):  # the usual row: one cell under each name
         return Row(line, dict(zip(names, map(_cell_value, cells))))
     values = {name: "" for name in names if name}
     for i, cell in enumerate(cells):
@@ -118,14 +120,15 @@ def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) 
     Blank rows are skipped but keep their row numbers; a grid without any non-blank row
     gives an empty table (no columns).
     """
-    header_line, names, rows = None, (), []
+    header_line, names, rows, all_named = None, (), [], False
     for line, cells in lines:
         if _is_blank(cells):
             continue
         if header_line is None:
             header_line, names = line, _header(source, line, cells)
+            all_named = all(names)
         else:
-            rows.append(_row(source, line, names, cells))
+            rows.append(_row(source, line, names, cells, all_named))
     columns = tuple(n for n in names if n)
     return Table(source, columns, tuple(rows), header_line)
 
