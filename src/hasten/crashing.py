@@ -178,12 +178,12 @@ class Study:
         return self.clock.shift_calendar_days(self.normal_finish, n)
 
     # -- plans -------------------------------------------------------------------------
-    def _solve(self, target: int, *, tie_break: bool = True, start=None, strict: bool = False) -> Solution:
+    def _solve(self, target: int, *, tie_break: bool = True, strict: bool = False) -> Solution:
         deadlines = strict and any(a.deadline is not None for a in self.project.activities)
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
-        sol = self.model.least_cost(target, tie_break=tie_break, start=start, strict=strict)
+        sol = self.model.least_cost(target, tie_break=tie_break, strict=strict)
         if sol is None:
             if strict and target >= self.shortest_finish:
                 raise HastenError("no plan meets every interim milestone deadline by this finish")
@@ -246,8 +246,8 @@ class Study:
         normal finish) down to ``shortest`` (default: the shortest possible finish).
 
         Linear costs: traced downwards, each day re-solved warm from the last basis.
-        With discrete options (not convex): each day solved exactly as a MILP, traced
-        upwards so that each plan is a feasible start for the next day.
+        With discrete options (not convex): each day solved exactly as a MILP from scratch
+        (see :mod:`hasten.solver` on why the previous plan is not passed as a start).
         """
         hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
         lo = self.shortest_finish if shortest is None else shortest
@@ -255,14 +255,10 @@ class Study:
             raise HastenError(f"the curve range is empty: {lo} is after {hi}")
         top = hi + 1 if hi < self.normal_finish else hi  # one day more, for the first day's cost
         targets = list(range(top, lo - 1, -1))
-        if self.discrete:
-            targets.reverse()
         solved: dict[int, tuple[Solution, float, float]] = {}
-        start = None
         for k, target in enumerate(targets):
-            sol = self._solve(target, tie_break=False, start=start)  # raises below the shortest
+            sol = self._solve(target, tie_break=False)  # raises below the shortest finish
             solved[target] = (sol, *self._checked(sol, target)[1:])
-            start = self.model.last_values if self.discrete else None
             if progress:
                 progress(k + 1, len(targets))
         ids = self.network.ids

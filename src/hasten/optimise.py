@@ -260,11 +260,9 @@ class CrashModel:
 
     # -- solving -----------------------------------------------------------------------
     def _run(self, objective: Objective, target: int | None, cap: float | None, *,
-             aside: bool = False, start: np.ndarray | None = None, strict: bool = False,
-             duals: bool = False):
+             aside: bool = False, strict: bool = False, duals: bool = False):
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
-        least-cost questions that are asked over and over. ``start`` is a known feasible
-        solution to start a MILP from."""
+        least-cost questions that are asked over and over."""
         # A MILP gets a fresh solver each time: re-running a MILP in the same HiGHS object
         # after a bound change was seen to end "optimal" on a worse plan (HiGHS 1.16,
         # PSPLIB j1012_10 at 11-12 days; tests/test_discrete.py)
@@ -277,7 +275,7 @@ class CrashModel:
             lm.set_cols_bounds(self.late, 0.0, 0.0 if strict else 1.0)  # strict: no milestone late
             if lm is self.lp:
                 self._strict = strict
-        result = lm.solve(start=start, duals=duals)
+        result = lm.solve(duals=duals)
         if result.status == "infeasible":
             return None
         if result.values is None:
@@ -312,14 +310,13 @@ class CrashModel:
                         None if proven else result.bound, None if proven else result.gap, starts)
 
     def solve(self, objective: Objective, *, target: int | None = None, cap: float | None = None,
-              start: np.ndarray | None = None, strict: bool = False,
-              duals: bool = False) -> Solution | None:
+              strict: bool = False, duals: bool = False) -> Solution | None:
         """Solve for ``objective`` with finish <= ``target`` and added cost <= ``cap``.
 
         Returns ``None`` when no plan meets the target and cap. A fractional optimum
         (not expected, see the module notes) is solved again with integer shortening.
         """
-        result = self._run(objective, target, cap, start=start, strict=strict, duals=duals)
+        result = self._run(objective, target, cap, strict=strict, duals=duals)
         if result is None:
             return None
         sol = self._solution(result.values, result)
@@ -345,13 +342,7 @@ class CrashModel:
                               "proven; allow more time with --time-limit")
         return math.ceil(result.values[self.finish] - _INT_TOL)
 
-    @property
-    def last_values(self) -> np.ndarray | None:
-        """All column values of the last least-cost solve (a start for the next MILP)."""
-        return None if self._last is None else self._last.values
-
-    def least_cost(self, target: int, *, tie_break: bool = True, start: np.ndarray | None = None,
-                   strict: bool = False) -> Solution | None:
+    def least_cost(self, target: int, *, tie_break: bool = True, strict: bool = False) -> Solution | None:
         """Least added direct cost to finish by ``target``.
 
         With ``tie_break``, among the plans of that least cost the one with the fewest
@@ -359,7 +350,7 @@ class CrashModel:
         With ``strict`` no activity may pass its own deadline. Returns ``None`` when no
         plan meets the target (and, if strict, every deadline).
         """
-        best = self.solve(Objective.COST, target=target, start=start, strict=strict, duals=tie_break)
+        best = self.solve(Objective.COST, target=target, strict=strict, duals=tie_break)
         if best is None or not tie_break or best.added_cost == 0 or self.lp.is_mip:
             return best
         fewer = self._fewest_crashed(self._last, target)

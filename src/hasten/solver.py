@@ -299,10 +299,13 @@ class LinearModel:
         return any(self.col_integer)
 
     # -- solving ------------------------------------------------------------------------
-    def solve(self, start: np.ndarray | None = None, *, duals: bool = False) -> Result:
-        """Solve. ``start``: a feasible solution to start a MILP from (not passed on, see
-        the HiGHS backend); ``duals``: also return reduced costs, duals and row values of
-        an LP optimum (HiGHS only)."""
+    def solve(self, *, duals: bool = False) -> Result:
+        """Solve. ``duals``: also return reduced costs, duals and row values of an LP
+        optimum (HiGHS only).
+
+        A MILP is not given the previous plan as a start: with HiGHS 1.16 a MILP re-solved
+        after a bound change with the previous plan as a start (whole or only its integer
+        columns) ended "optimal" on a worse plan (PSPLIB j1012_10 at deadlines 11-12)."""
         if self.objective is None:
             raise SolverError("no objective chosen")
         if self._backend is None:
@@ -310,8 +313,6 @@ class LinearModel:
         elif self._pending_cols or self._pending_rows:
             self._backend.add_structure(self, self._pending_cols, self._pending_rows)
         self._pending_cols = self._pending_rows = 0
-        if start is not None and self.is_mip:
-            self._backend.set_start(np.asarray(start, dtype=float))
         return self._backend.run(duals)
 
 
@@ -365,13 +366,6 @@ class _HighsBackend:
     def set_row_bounds(self, row: int, lower: float, upper: float) -> None:
         inf = highspy.kHighsInf
         self.h.changeRowBounds(row, -inf if lower == -INF else lower, inf if upper == INF else upper)
-
-    def set_start(self, values: np.ndarray) -> None:
-        """Not passed on. Seen with HiGHS 1.16: a MILP re-solved after a bound change with
-        the previous plan given as a start (whole or only its integer columns) ended with
-        status "optimal" on a worse plan than a solve without the start (PSPLIB j1012_10 at
-        deadlines 11-12). Correct answers come first: each MILP is solved from scratch in a
-        fresh solver (see CrashModel._run)."""
 
     def set_time_limit(self, seconds: float | None) -> None:
         self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
@@ -456,8 +450,6 @@ class _PulpBackend:
     def set_time_limit(self, seconds) -> None:
         pass
 
-    def set_start(self, values) -> None:
-        pass  # CBC through PuLP: warm starts are not passed on
 
     def set_rows_bounds(self, rows, lower, upper) -> None:
         pass
