@@ -11,7 +11,6 @@ import json
 import os
 import shutil
 import sys
-import tempfile
 from contextlib import contextmanager
 from datetime import date
 from importlib import resources
@@ -24,6 +23,7 @@ from . import render
 from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
+from .formats.files import write_file
 from .options import drop_dominated
 from .network import Network
 from .network import schedule as cpm
@@ -70,19 +70,6 @@ def _date(text: str, option: str) -> date:
         return date.fromisoformat(text)
     except ValueError:
         raise InputError(f"{option} {text!r} is not a date", fix="write it as YYYY-MM-DD, e.g. 2027-06-30") from None
-
-
-def _write_whole(path: Path, write) -> None:
-    """Write through a temporary file in the same folder, then move it into place."""
-    path = path.resolve()
-    fd, tmp = tempfile.mkstemp(prefix=".hasten-", suffix=path.suffix, dir=path.parent)
-    os.close(fd)
-    try:
-        write(tmp)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
 
 
 @contextmanager
@@ -145,9 +132,9 @@ def _write_table(out: Path, rows: list[dict]) -> None:
         frame["driving"] = frame["driving"].map(lambda v: ";".join(v))
     suffix = out.suffix.lower()
     if suffix == ".csv":
-        _write_whole(out, lambda tmp: frame.to_csv(tmp, index=False, encoding="utf-8"))
+        write_file(out.resolve(), lambda tmp: frame.to_csv(tmp, index=False, encoding="utf-8"))
     elif suffix == ".xlsx":
-        _write_whole(out, lambda tmp: frame.to_excel(tmp, index=False, engine="openpyxl"))
+        write_file(out.resolve(), lambda tmp: frame.to_excel(tmp, index=False, engine="openpyxl"))
     else:
         raise InputError(f"cannot write a table to {out.name!r}", column="--out", value=str(out),
                          fix="name the output FILE.csv or FILE.xlsx")
@@ -214,7 +201,7 @@ def curve(
         if plot is not None:
             from .charts import curve_chart
 
-            _write_whole(plot, lambda tmp: curve_chart(study, points, tmp))
+            write_file(plot.resolve(), lambda tmp: curve_chart(study, points, tmp))
         if as_json:
             _json(render.curve_json(study, points) | {"notes": notes})
         else:

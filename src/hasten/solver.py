@@ -235,38 +235,42 @@ class LinearModel:
                 self._backend.set_objective(self._objective_vector())
 
     def set_col_bounds(self, col: int, lower: float, upper: float) -> None:
-        if (self.col_lower[col], self.col_upper[col]) == (lower, upper):
-            return  # unchanged: telling HiGHS anyway would cost its warm start
-        self.col_lower[col], self.col_upper[col] = lower, upper
-        if self._backend is not None and col < self.num_cols - self._pending_cols:
-            self._backend.set_col_bounds(col, lower, upper)
+        self.set_cols_bounds([col], lower, upper)
 
     def set_row_bounds(self, row: int, lower: float, upper: float) -> None:
-        if (self.row_lower[row], self.row_upper[row]) == (lower, upper):
-            return  # unchanged: telling HiGHS anyway would cost its warm start
-        self.row_lower[row], self.row_upper[row] = lower, upper
-        if self._backend is not None and row < self.num_rows - self._pending_rows:
-            self._backend.set_row_bounds(row, lower, upper)
+        self.set_rows_bounds([row], lower, upper)
 
     def set_cols_bounds(self, cols, lower, upper) -> None:
-        """Bulk :meth:`set_col_bounds` (all columns must already be in the solver)."""
-        cols = np.asarray(cols, dtype=np.int64)
-        lower = np.broadcast_to(np.asarray(lower, dtype=float), cols.shape)
-        upper = np.broadcast_to(np.asarray(upper, dtype=float), cols.shape)
-        for c, lo, up in zip(cols.tolist(), lower.tolist(), upper.tolist()):
-            self.col_lower[c], self.col_upper[c] = lo, up
-        if self._backend is not None and len(cols):
-            self._backend.set_cols_bounds(cols, lower, upper)
+        """New bounds for columns (scalars are broadcast)."""
+        changed = self._set_bounds(self.col_lower, self.col_upper, cols, lower, upper,
+                                   self.num_cols - self._pending_cols)
+        if changed is not None:
+            self._backend.set_cols_bounds(*changed)
 
     def set_rows_bounds(self, rows, lower, upper) -> None:
-        """Bulk :meth:`set_row_bounds` (all rows must already be in the solver)."""
-        rows = np.asarray(rows, dtype=np.int64)
-        lower = np.broadcast_to(np.asarray(lower, dtype=float), rows.shape)
-        upper = np.broadcast_to(np.asarray(upper, dtype=float), rows.shape)
-        for r, lo, up in zip(rows.tolist(), lower.tolist(), upper.tolist()):
-            self.row_lower[r], self.row_upper[r] = lo, up
-        if self._backend is not None and len(rows):
-            self._backend.set_rows_bounds(rows, lower, upper)
+        """New bounds for rows (scalars are broadcast)."""
+        changed = self._set_bounds(self.row_lower, self.row_upper, rows, lower, upper,
+                                   self.num_rows - self._pending_rows)
+        if changed is not None:
+            self._backend.set_rows_bounds(*changed)
+
+    def _set_bounds(self, lows: list, ups: list, index, lower, upper, in_solver: int):
+        """Store new bounds; return what the live solver must be told, or None.
+
+        Bounds that do not change are not passed on: telling HiGHS anyway costs its warm
+        start. Entries added since the solver was built reach it with the structure."""
+        index = np.atleast_1d(np.asarray(index, dtype=np.int64))
+        lower = np.broadcast_to(np.asarray(lower, dtype=float), index.shape)
+        upper = np.broadcast_to(np.asarray(upper, dtype=float), index.shape)
+        push = []
+        for k, (i, lo, up) in enumerate(zip(index.tolist(), lower.tolist(), upper.tolist())):
+            if (lows[i], ups[i]) != (lo, up):
+                lows[i], ups[i] = lo, up
+                if i < in_solver:
+                    push.append(k)
+        if self._backend is None or not push:
+            return None
+        return index[push], lower[push], upper[push]
 
     def set_integer(self, cols, integer: bool = True) -> None:
         cols = np.asarray(cols, dtype=np.int64)
@@ -359,14 +363,6 @@ class _HighsBackend:
         n = len(c)
         self.h.changeColsCost(n, np.arange(n, dtype=np.int32), c)
 
-    def set_col_bounds(self, col: int, lower: float, upper: float) -> None:
-        inf = highspy.kHighsInf
-        self.h.changeColBounds(col, -inf if lower == -INF else lower, inf if upper == INF else upper)
-
-    def set_row_bounds(self, row: int, lower: float, upper: float) -> None:
-        inf = highspy.kHighsInf
-        self.h.changeRowBounds(row, -inf if lower == -INF else lower, inf if upper == INF else upper)
-
     def set_time_limit(self, seconds: float | None) -> None:
         self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
 
@@ -436,12 +432,6 @@ class _PulpBackend:
         pass
 
     def set_objective(self, c) -> None:
-        pass
-
-    def set_col_bounds(self, col, lower, upper) -> None:
-        pass
-
-    def set_row_bounds(self, row, lower, upper) -> None:
         pass
 
     def set_cols_bounds(self, cols, lower, upper) -> None:
