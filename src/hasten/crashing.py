@@ -15,6 +15,7 @@ from typing import Callable
 from .checks import PlanChecker
 from .costs import TimeCosts, time_costs
 from .errors import HastenError, InfeasibleTargetError
+from .focus import Focus, applies
 from .model import Project
 from .network import Network, Schedule, schedule
 from .optimise import CrashModel, Solution
@@ -143,6 +144,8 @@ class Study:
         self.time_limit = time_limit
         self._model: CrashModel | None = None
         self._shortest: int | None = None
+        self._focus: Focus | None = None
+        self._reach = 0  # least reach of the focused part (the curve widens it once)
 
     # -- basics ------------------------------------------------------------------------
     @property
@@ -183,6 +186,12 @@ class Study:
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
+        if self._model is None and applies(self.network):  # solve on the part that can matter
+            if self._focus is None:
+                self._focus = Focus(self.network, time_limit=self.time_limit)
+            sol = self._focus.least_cost(target, reach=self._reach, tie_break=tie_break)
+            if sol is not None:
+                return sol
         sol = self.model.least_cost(target, tie_break=tie_break, strict=strict)
         if sol is None:
             if strict and target >= self.shortest_finish:
@@ -202,6 +211,7 @@ class Study:
     def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
         """The least-cost plan to finish by ``target`` working days; with ``strict`` every
         interim milestone must also meet its own deadline."""
+        self._reach = max(self._reach, self.normal_finish - target + 1)  # and the next day
         sol = self._solve(target, strict=strict)
         sched = schedule(self.network, sol.durations)
         early = self.network.forward(sol.durations)
@@ -254,6 +264,7 @@ class Study:
         if lo > hi:
             raise HastenError(f"the curve range is empty: {lo} is after {hi}")
         top = hi + 1 if hi < self.normal_finish else hi  # one day more, for the first day's cost
+        self._reach = max(self._reach, self.normal_finish - lo)
         targets = list(range(top, lo - 1, -1))
         solved: dict[int, tuple[Solution, float, float]] = {}
         for k, target in enumerate(targets):
