@@ -15,6 +15,7 @@ from .model import Calendar
 
 __all__ = [
     "CalendarClock",
+    "Timeline",
 ]
 
 
@@ -81,3 +82,101 @@ class CalendarClock:
         calendar days before the finish date of ``finish`` (``days`` > 0 = earlier)."""
         target = self.project_finish_date(finish) - timedelta(days=days)
         return self.offset_of(target, finish=True)
+
+
+#: Link kinds, as numbered in hasten.network.
+_FS, _SS, _FF, _SF = 0, 1, 2, 3
+
+
+class Timeline:
+    """Working-day positions of several calendars on one axis of calendar days.
+
+    Every activity counts its own dates in its own calendar (the project calendar unless
+    it names another); the project finish is counted in the project calendar. Position
+    ``k`` of calendar ``c`` names the boundary before its working day ``k``: work starting
+    at ``k`` starts on the morning of that day, ``S_c(k)``, and work finishing at ``k``
+    ends on the evening of day ``k - 1``, ``F_c(k) = S_c(k - 1) + 1`` (in calendar days).
+
+    A link between activities on different calendars is converted at the instant the
+    predecessor's event happens (its finish ``F``, or for SS its start ``S``; an SF link
+    compares the boundary ``F`` before the predecessor's first day, as CPM on one calendar
+    does), to the first position of the successor's calendar not before it; the lag then
+    counts working days of the successor's calendar. On one calendar every conversion is
+    the identity, so a project without its own calendars is scheduled exactly as before.
+    """
+
+    def __init__(self, project):
+        self.project = project
+        self.clocks: list[CalendarClock] = [CalendarClock(project.calendar, project.start)]
+        index = {"": 0}
+        for cal in project.calendars:
+            index[cal.name] = len(self.clocks)
+            self.clocks.append(CalendarClock(cal, project.start))
+        self.of: list[int] = [index[a.calendar] for a in project.activities]
+        # calendars that fall on exactly the same days are one calendar here
+        same = {}
+        for k, clock in enumerate(self.clocks):
+            key = (clock.calendar.weekmask, tuple(sorted(set(clock.calendar.holidays))), clock.day0)
+            same.setdefault(key, k)
+        self._alias = [same[(c.calendar.weekmask, tuple(sorted(set(c.calendar.holidays))), c.day0)]
+                       for c in self.clocks]
+        self.of = [self._alias[k] for k in self.of]
+        self.several = any(k != 0 for k in self.of)
+
+    @property
+    def project_clock(self) -> CalendarClock:
+        return self.clocks[0]
+
+    def clock_of(self, i: int) -> CalendarClock:
+        return self.clocks[self.of[i]]
+
+    # -- positions <-> instants (whole calendar days since 1970, numpy's day count) -----------
+    def _start(self, c: int, k):
+        clock = self.clocks[c]
+        return np.busday_offset(clock.day0, np.asarray(k, dtype=np.int64), roll="forward",
+                                busdaycal=clock._cal).astype(np.int64)
+
+    def _count(self, c: int, t):
+        """Working days of calendar ``c`` from its day 0 up to (not incl.) instant ``t``."""
+        clock = self.clocks[c]
+        t = np.asarray(t, dtype=np.int64).astype("datetime64[D]")
+        ahead = np.busday_count(clock.day0, np.maximum(t, clock.day0), busdaycal=clock._cal)
+        behind = np.busday_count(np.minimum(t, clock.day0), clock.day0, busdaycal=clock._cal)
+        return (ahead - behind).astype(np.int64)  # (numpy counts a reversed range differently)
+
+    def _instant(self, c: int, k, kind: int):
+        """Instant of the predecessor's event at position ``k`` for a link of ``kind``."""
+        k = np.asarray(k, dtype=np.int64)
+        return self._start(c, k) if kind == _SS else self._start(c, k - 1) + 1
+
+    def _position(self, c: int, t, kind: int):
+        """First position of calendar ``c`` whose (start or finish) event is not before ``t``."""
+        t = np.asarray(t, dtype=np.int64)
+        return self._count(c, t) if kind in (_FS, _SS) else self._count(c, t - 1) + 1
+
+    def convert(self, a: int, b: int, k, kind: int):
+        """Least position of calendar ``b`` (before the lag) that a link of ``kind`` allows
+        after the predecessor's event at position ``k`` of calendar ``a``."""
+        if a == b:
+            return np.asarray(k, dtype=np.int64)
+        return self._position(b, self._instant(a, k, kind), kind)
+
+    def latest(self, a: int, b: int, x, kind: int):
+        """Greatest position ``k`` of calendar ``a`` with ``convert(a, b, k, kind) <= x``."""
+        if a == b:
+            return np.asarray(x, dtype=np.int64)
+        x = np.asarray(x, dtype=np.int64)
+        if kind == _FS:
+            return self._count(a, self._start(b, x))
+        if kind == _SS:
+            return self._count(a, self._start(b, x) + 1) - 1
+        return self._count(a, self._start(b, x - 1) + 1)  # FF, SF: the finish F_b(x)
+
+    def to_project(self, c: int, finish):
+        """Project finish (project-calendar position) of work finishing at ``finish`` of
+        calendar ``c``: the end of the project working day on or after its last day."""
+        return self.convert(c, 0, finish, _FF)
+
+    def from_project(self, c: int, finish):
+        """Latest finish position of calendar ``c`` within project finish ``finish``."""
+        return self.latest(c, 0, finish, _FF)

@@ -8,6 +8,7 @@ cost recomputed from the activity data matches what the optimiser claimed.
 
 from __future__ import annotations
 
+from datetime import timedelta
 from typing import Sequence
 
 import numpy as np
@@ -65,13 +66,17 @@ class PlanChecker:
         self.deadlines = [k for k, a in enumerate(project.activities)
                           if a.deadline is not None and a.damages_per_day]
         self.links, self.pred, self.succ, self.kind, self.lag = _link_arrays(project, network.status.dropped)
-        clock, status = network.clock, network.status
+        status = network.status
+        # each activity's own calendar (the project calendar unless it names another)
+        self.clocks = [network.timeline.clock_of(k) for k in range(len(project.activities))]
+        self.several = network.timeline.several
         self.earliest = np.zeros(len(project.activities), dtype=np.int64)
         for k, (a, st) in enumerate(zip(project.activities, status.activities)):
+            clock = self.clocks[k]
             if a.not_before is not None:
                 self.earliest[k] = clock.offset_of(a.not_before, finish=False)
-            if status.data_offset is not None and st.state != DONE:
-                self.earliest[k] = max(self.earliest[k], status.data_offset)
+            if project.data_date is not None and st.state != DONE:
+                self.earliest[k] = max(self.earliest[k], clock.offset_of(project.data_date, finish=False))
         self.done = np.array([st.state == DONE for st in status.activities], dtype=bool)
         self.actual = np.array([-1 if st.start is None else st.start for st in status.activities],
                                dtype=np.int64)
@@ -124,11 +129,13 @@ class PlanChecker:
         # predecessor's end (finish for FS/FF, start for SS/SF) plus the lag
         later = np.where(kind <= 1, shown[succ], f[succ])
         earlier = np.where((kind == 0) | (kind == 2), f[pred], shown[pred])
+        if self.several:
+            earlier = self._across(earlier)
         broken = np.flatnonzero(later < earlier + self.lag)
         if len(broken):
             link = self.links[int(broken[0])]
             raise PlanCheckError(f"plan check: link {link.pred} -> {link.succ} ({link.text()}) is broken")
-        finish = int(f.max()) if len(f) else 0
+        finish = self._finish(f)
         if target is not None and finish > target:
             raise PlanCheckError(f"plan check: finish {finish} is after the target {target}")
         cost = sum(self.added_costs(d, choices, changed=np.flatnonzero(d < self.hi).tolist() + chosen))
@@ -140,6 +147,33 @@ class PlanChecker:
             raise PlanCheckError(f"plan check: damages recomputed as {penalty:.2f}, "
                                  f"the optimiser claimed {claimed_penalty:.2f}")
         return finish, cost, penalty
+
+    def _across(self, earlier: np.ndarray) -> np.ndarray:
+        """Links between two calendars: the predecessor's event as a date (its finish on
+        the evening of its last day, an SS start on the morning of its first day), then the
+        first start (FS, SS) or finish (FF, SF) of the successor's calendar not before it."""
+        out = earlier.copy()
+        one = timedelta(days=1)
+        for e, (i, j, k) in enumerate(zip(self.pred.tolist(), self.succ.tolist(), self.kind.tolist())):
+            a, b = self.clocks[i], self.clocks[j]
+            if a is b:
+                continue
+            p = int(earlier[e])
+            moment = a.date_of(p) if k == 1 else a.date_of(p - 1) + one
+            out[e] = (b.offset_of(moment, finish=False) if k <= 1
+                      else b.offset_of(moment - one, finish=False) + 1)
+        return out
+
+    def _finish(self, f: np.ndarray) -> int:
+        """The project finish in project working days: the end of the project working day
+        on or after each activity's last day worked."""
+        if not len(f):
+            return 0
+        if not self.several:
+            return int(f.max())
+        project = self.net.clock
+        return max(int(x) if c is project else project.offset_of(c.date_of(int(x) - 1), finish=False) + 1
+                   for x, c in zip(f.tolist(), self.clocks))
 
     def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None,
                     changed: Sequence[int] | None = None) -> list[float]:
@@ -157,10 +191,10 @@ class PlanChecker:
 
     def penalty(self, finishes) -> float:
         """Damages of activities finishing after their own deadlines (per calendar day)."""
-        clock, total = self.net.clock, 0.0
+        total = 0.0
         for k in self.deadlines:
             a = self.project.activities[k]
-            late = (clock.project_finish_date(int(finishes[k])) - a.deadline).days
+            late = (self.clocks[k].project_finish_date(int(finishes[k])) - a.deadline).days
             total += a.damages_per_day * max(0, late)
         return total
 

@@ -40,9 +40,9 @@ WHOLE_SHARE = 0.6  # a part this large (share of activities) is solved as the wh
 
 def applies(network: Network) -> bool:
     """True when plans of ``network`` may be solved on a part of it: linear costs only
-    (no discrete options) and no activity with a deadline of its own."""
+    (no discrete options), one calendar, and no activity with a deadline of its own."""
     project = network.project
-    return (not any(network.options)
+    return (not network.several and not any(network.options)
             and not any(a.deadline is not None for a in project.activities))
 
 

@@ -112,6 +112,7 @@ class Activity:
     not_before: date | None = None  # start no earlier than this date (delivery, access)
     deadline: date | None = None  # an interim milestone's own deadline (last day allowed)
     damages_per_day: float = 0.0  # damages per calendar day the milestone is late
+    calendar: str = ""  # name of one of Project.calendars; "" = the project calendar
 
     @property
     def shortest_normal(self) -> int:
@@ -192,6 +193,8 @@ class Project:
     costs: Costs = field(default_factory=Costs)
     contract: Contract = field(default_factory=Contract)
     data_date: date | None = None  # [status] data_date: progress is reported up to this date
+    # further calendars activities may name (Activity.calendar), each under its own name
+    calendars: tuple[Calendar, ...] = ()
 
     def activity(self, activity_id: str) -> Activity:
         for a in self.activities:

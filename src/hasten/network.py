@@ -20,7 +20,7 @@ from typing import Sequence
 
 import numpy as np
 
-from .calendar import CalendarClock
+from .calendar import Timeline
 from .errors import CycleError
 from .model import LinkType, Project
 from .status import DONE, STARTED, WAITING, apply_status
@@ -72,8 +72,11 @@ class Network:
 
     def __init__(self, project: Project):
         self.project = project
-        self.clock = CalendarClock(project.calendar, project.start)
-        self.status = apply_status(project, self.clock)
+        self.timeline = Timeline(project)
+        self.clock = self.timeline.project_clock  # the project calendar's
+        self.several = self.timeline.several  # some activities work to calendars of their own
+        self.cal: list[int] = self.timeline.of  # calendar of each activity (0: the project's)
+        self.status = apply_status(project, self.clock, self.timeline)
         acts, states = project.activities, self.status.activities
         self.ids: list[str] = [a.id for a in acts]
         self.index: dict[str, int] = {a: i for i, a in enumerate(self.ids)}
@@ -141,6 +144,7 @@ class Network:
             at = states[i].start
         else:
             return True
+        at = self._convert(i, j, at, _KIND[link.type])
         if on_start:
             self.release[j] = max(self.release[j], at + link.lag)
         else:
@@ -192,7 +196,9 @@ class Network:
         self.order: list[int] = np.argsort(level, kind="stable").tolist()
         top = int(level.max()) + 1 if n else 0
         # many nodes per level: numpy passes one level at a time; long chains: plain loops
-        self._vector = n > 0 and top * 20 <= n
+        self._vector = n > 0 and top * 20 <= n and not self.several
+        cal = np.asarray(self.cal, dtype=np.int64)
+        self._cross = cal[self._p] != cal[self._s]  # links between two calendars
         by_succ = np.argsort(level[self._s], kind="stable")
         self._in_level = np.split(by_succ, np.searchsorted(level[self._s][by_succ], np.arange(1, top)))
         by_pred = np.argsort(level[self._p], kind="stable")
@@ -232,10 +238,22 @@ class Network:
             np.minimum.at(ls, i, bound)
         return ls
 
+    def _convert(self, i: int, j: int, at: int, kind: int) -> int:
+        """Position in ``j``'s calendar that a link of ``kind`` from ``i``'s event at ``at``
+        allows (before the lag); ``at`` itself when both share a calendar."""
+        a, b = self.cal[i], self.cal[j]
+        return at if a == b else int(self.timeline.convert(a, b, at, kind))
+
+    def _latest(self, i: int, j: int, x: int, kind: int) -> int:
+        """Latest event of ``i`` whose link of ``kind`` allows ``j``'s event at ``x``."""
+        a, b = self.cal[i], self.cal[j]
+        return x if a == b else int(self.timeline.latest(a, b, x, kind))
+
     def _forward_loop(self, d: Sequence[int]) -> list[int]:
         es = [0] * len(self.ids)
         pred, kind, lag, in_links = self.pred, self.kind, self.lag, self.in_links
         release, finish_release, fixed = self.release, self.finish_release, self.fixed
+        cross = self._cross.tolist() if self.several else None
         for j in self.order:
             dj = d[j]
             if fixed[j]:
@@ -247,24 +265,39 @@ class Network:
             for e in in_links[j]:
                 i = pred[e]
                 k = kind[e]
-                if k == _FS:
-                    b = es[i] + d[i] + lag[e]
-                elif k == _SS:
-                    b = es[i] + lag[e]
-                elif k == _FF:
-                    b = es[i] + d[i] + lag[e] - dj
-                else:
-                    b = es[i] + lag[e] - dj
+                at = es[i] + d[i] if k == _FS or k == _FF else es[i]
+                if cross is not None and cross[e]:
+                    at = self._convert(i, j, at, k)
+                b = at + lag[e] if k == _FS or k == _SS else at + lag[e] - dj
                 if b > best:
                     best = b
             es[j] = best
         return es
 
+    def finish_of(self, es: Sequence[int], d: Sequence[int]) -> int:
+        """Project finish (project-calendar working days) of early starts ``es``."""
+        if not self.several:
+            return max((es[i] + d[i] for i in range(len(d))), default=0)
+        ef = np.asarray(es, dtype=np.int64) + np.asarray(d, dtype=np.int64)
+        cal = np.asarray(self.cal, dtype=np.int64)
+        out = 0
+        for c in np.unique(cal).tolist():
+            mine = ef[cal == c]
+            if len(mine):
+                out = max(out, int(self.timeline.to_project(c, mine.max())))
+        return out
+
+    def latest_finish(self, finish: int) -> list[int]:
+        """Latest finish of each activity, in its own calendar, within project finish ``finish``."""
+        if not self.several:
+            return [finish] * len(self.ids)
+        by_cal = {c: int(self.timeline.from_project(c, finish)) for c in set(self.cal)}
+        return [by_cal[c] for c in self.cal]
+
     def forward_finish(self, d: Sequence[int] | None = None) -> int:
         """Finish of the early-start schedule (normal durations by default)."""
         d = self.durations if d is None else d
-        es = self.forward(d)
-        return max((es[i] + d[i] for i in range(len(d))), default=0)
+        return self.finish_of(self.forward(d), d)
 
     def backward(self, d: Sequence[int], finish: int) -> list[int]:
         """Late starts for durations ``d`` when every activity must finish by ``finish``."""
@@ -272,20 +305,18 @@ class Network:
             return self._backward_levels(np.asarray(d, dtype=np.int64), finish).tolist()
         ls = [0] * len(self.ids)
         succ, kind, lag, out_links = self.succ, self.kind, self.lag, self.out_links
+        cap = self.latest_finish(finish)
+        cross = self._cross.tolist() if self.several else None
         for i in reversed(self.order):
             di = d[i]
-            best = finish - di
+            best = cap[i] - di
             for e in out_links[i]:
                 j = succ[e]
                 k = kind[e]
-                if k == _FS:
-                    b = ls[j] - lag[e] - di
-                elif k == _SS:
-                    b = ls[j] - lag[e]
-                elif k == _FF:
-                    b = ls[j] + d[j] - lag[e] - di
-                else:
-                    b = ls[j] + d[j] - lag[e]
+                x = ls[j] - lag[e] if k == _FS or k == _SS else ls[j] + d[j] - lag[e]
+                if cross is not None and cross[e]:
+                    x = self._latest(i, j, x, k)
+                b = x - di if k == _FS or k == _FF else x
                 if b < best:
                     best = b
             ls[i] = best
@@ -297,8 +328,12 @@ class Network:
         d = np.asarray(d, dtype=np.int64)
         p, s = self._p, self._s
         later = es[s] + np.where(self._to_finish, d[s], 0)
-        earlier = es[p] + np.where(self._from_finish, d[p], 0) + self._lag
-        return later - earlier
+        earlier = es[p] + np.where(self._from_finish, d[p], 0)
+        if self.several:
+            kind = np.asarray(self.kind, dtype=np.int64)
+            for e in np.flatnonzero(self._cross).tolist():
+                earlier[e] = self._convert(int(p[e]), int(s[e]), int(earlier[e]), int(kind[e]))
+        return later - earlier - self._lag
 
 
 @dataclass(frozen=True)
@@ -349,7 +384,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     d = list(net.durations if durations is None else durations)
     n = len(d)
     es = net.forward(d)
-    finish = max((es[i] + d[i] for i in range(n)), default=0)
+    finish = net.finish_of(es, d)
     horizon = finish if deadline is None else deadline
     ls = net.backward(d, horizon)
     tf = [ls[i] - es[i] for i in range(n)]
@@ -357,7 +392,8 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     least = min((t for t, a in zip(tf, live) if a), default=0)
 
     slack = net.link_slacks(es, d)
-    free_a = finish - np.asarray(es, dtype=np.int64) - np.asarray(d, dtype=np.int64)
+    free_a = np.asarray(net.latest_finish(finish), dtype=np.int64) - np.asarray(es, dtype=np.int64) \
+        - np.asarray(d, dtype=np.int64)
     if len(slack):
         np.minimum.at(free_a, net._p, slack)
     free = free_a.tolist()

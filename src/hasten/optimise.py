@@ -92,6 +92,7 @@ class CrashModel:
         self.start = lm.add_columns(release, np.where(network.fixed, release, INF))
         self.end = lm.add_columns(np.asarray(network.finish_release, dtype=float), INF)
         self.finish = int(lm.add_columns([0.0], INF)[0])
+        self.horizon_finish: int | None = None  # latest finish modelled (several calendars)
         owner, days, per_day = [], [], []
         for i, steps in enumerate(network.steps):
             for step in steps:
@@ -150,12 +151,14 @@ class CrashModel:
         function and the LP is exact; otherwise (a weekend adds three calendar days at
         once) the columns become 0/1 and must be taken in order.
         """
-        clock, lm = net.clock, self.lp
-        horizon = self.horizon = max(net.forward_finish(), 1)
+        lm = self.lp
+        self.horizon = max(net.forward_finish(), 1)
+        own_horizon = net.latest_finish(self.horizon)  # in each activity's own calendar
         cols, costs, self.penalised = [], [], []
         for i, act in enumerate(net.project.activities):
             if act.deadline is None or net.fixed[i]:
                 continue  # (a deadline without damages costs nothing but binds strict plans)
+            clock, horizon = net.timeline.clock_of(i), max(own_horizon[i], 1)
             limit = clock.offset_of(act.deadline, finish=True)
             if limit >= horizon:
                 continue
@@ -203,23 +206,113 @@ class CrashModel:
         succ = np.asarray(net.succ, dtype=np.int64)
         kind = np.asarray(net.kind, dtype=np.int64)
         lag = np.asarray(net.lag, dtype=float)
-        m = len(pred)
+        cal = np.asarray(net.cal, dtype=np.int64)
+        cross = cal[pred] != cal[succ]  # links between two calendars: see _calendar_rows
+        later = np.where((kind == _FS) | (kind == _SS), self.start[succ], self.end[succ])
+        earlier = np.where((kind == _FS) | (kind == _FF), self.end[pred], self.start[pred])
+        plain = np.flatnonzero(~cross)
+        m = len(plain)
         if m:
-            later = np.where((kind == _FS) | (kind == _SS), self.start[succ], self.end[succ])
-            earlier = np.where((kind == _FS) | (kind == _FF), self.end[pred], self.start[pred])
             index = np.empty(2 * m, dtype=np.int64)
-            index[0::2], index[1::2] = later, earlier
+            index[0::2], index[1::2] = later[plain], earlier[plain]
             value = np.tile([1.0, -1.0], m)
-            lm.add_rows(np.arange(0, 2 * m, 2), index, value, lag, INF)
-        # every activity finishes by T, unless an FS/FF successor with lag >= 0 implies it
+            lm.add_rows(np.arange(0, 2 * m, 2), index, value, lag[plain], INF)
+        # every activity finishes by T, unless an FS/FF successor with lag >= 0 on the same
+        # calendar implies it
         implied = np.zeros(n, dtype=bool)
-        if m:
-            implied[pred[((kind == _FS) | (kind == _FF)) & (lag >= 0)]] = True
+        if len(pred):
+            implied[pred[((kind == _FS) | (kind == _FF)) & (lag >= 0) & ~cross]] = True
+        if net.several:
+            self._calendar_rows(net, np.flatnonzero(cross), later, earlier, implied)
+            implied |= cal != 0  # (their finish rows are steps too)
         free = np.flatnonzero(~implied)
         index = np.empty(2 * len(free), dtype=np.int64)
         index[0::2], index[1::2] = self.end[free], self.finish
         lm.add_rows(np.arange(0, 2 * len(free), 2), index, np.tile([1.0, -1.0], len(free)),
                     -INF, 0.0)
+
+    def _calendar_rows(self, net: Network, cross: np.ndarray, later: np.ndarray, earlier: np.ndarray,
+                       implied: np.ndarray) -> None:
+        """Links between two calendars, and the project finish of work on a calendar of
+        its own: ``y >= g(x) + lag`` where ``g`` converts a position of one calendar to the
+        next position of another (:class:`hasten.calendar.Timeline`), a step function.
+
+        ``x`` is written as ``lo + sum_m z_m`` with 0/1 columns ``z_m`` taken in order
+        (``z_m = 1``: ``x >= lo + m``), and ``g(x)`` as ``g(lo) + sum_m (g(lo + m) -
+        g(lo + m - 1)) z_m``; exact for whole-day ``x`` between ``lo`` and ``hi``, the least
+        and greatest values any plan finishing by the horizon can give it
+        (:meth:`_event_bounds`). The whole model then takes whole days by integer columns.
+        """
+        lm, timeline = self.lp, net.timeline
+        lm.set_integer(np.concatenate([self.start, self.end, self.cuts]), True)
+        lo_s, lo_f, hi_s, hi_f = self._event_bounds(net)
+        pred, succ, kind, lag = net.pred, net.succ, net.kind, net.lag
+        for e in cross.tolist():
+            i, j, k = pred[e], succ[e], kind[e]
+            from_finish = k in (_FS, _FF)
+            lo, hi = (lo_f[i], hi_f[i]) if from_finish else (lo_s[i], hi_s[i])
+            self._step_row(int(earlier[e]), int(later[e]), lo, hi,
+                           lambda x, a=net.cal[i], b=net.cal[j], k=k: timeline.convert(a, b, x, k), lag[e])
+        for i in np.flatnonzero(~implied & (np.asarray(net.cal) != 0)).tolist():
+            c = net.cal[i]
+            self._step_row(int(self.end[i]), self.finish, lo_f[i], hi_f[i],
+                           lambda x, c=c: timeline.to_project(c, x), 0)
+
+    def _step_row(self, x: int, y: int, lo: int, hi: int, g, lag: int) -> None:
+        """Rows for ``y >= g(x) + lag`` with ``x`` a whole number in ``lo..hi``."""
+        lm = self.lp
+        lo, hi = int(lo), int(max(hi, lo))
+        values = np.asarray(g(np.arange(lo, hi + 1)), dtype=float)
+        rise = np.diff(values)
+        z = lm.add_columns(np.zeros(len(rise)), 1.0, integer=True)
+        lm.set_col_bounds(x, float(lo), float(hi))
+        lm.add_row(np.concatenate([[x], z]), np.concatenate([[1.0], -np.ones(len(z))]), float(lo), float(lo))
+        lm.add_row(np.concatenate([[y], z]), np.concatenate([[1.0], -rise]), values[0] + lag, INF)
+        for m in range(len(z) - 1):  # x >= lo + m + 1 only if x >= lo + m
+            lm.add_row([z[m + 1], z[m]], [1.0, -1.0], -INF, 0.0)
+
+    def _event_bounds(self, net: Network):
+        """Least and greatest start and finish of each activity over every plan that
+        finishes by the horizon (durations anywhere between shortest and longest)."""
+        n, timeline = len(net), net.timeline
+        dmin = np.asarray(net.shortest, dtype=np.int64)
+        dmax = np.asarray([max([d] + [o.duration for o in opts]) for d, opts in zip(net.durations, net.options)],
+                          dtype=np.int64)
+        lo_s = np.asarray(net.release, dtype=np.int64).copy()
+        lo_f = np.asarray(net.finish_release, dtype=np.int64).copy()
+        for j in net.order:
+            if net.fixed[j]:
+                lo_s[j], lo_f[j] = net.release[j], net.release[j] + net.durations[j]
+                continue
+            for e in net.in_links[j]:
+                i, k = net.pred[e], net.kind[e]
+                at = lo_f[i] if k in (_FS, _FF) else lo_s[i]
+                bound = net._convert(i, j, int(at), k) + net.lag[e]
+                if k in (_FS, _SS):
+                    lo_s[j] = max(lo_s[j], bound)
+                else:
+                    lo_f[j] = max(lo_f[j], bound)
+            lo_f[j] = max(lo_f[j], lo_s[j] + dmin[j])
+            lo_s[j] = max(lo_s[j], lo_f[j] - dmax[j])
+        self.horizon_finish = horizon = max(net.forward_finish(), net.forward_finish(dmax.tolist()),
+                                            net.finish_of(lo_s.tolist(), [0] * n), net.finish_of(lo_f.tolist(), [0] * n))
+        hi_f = np.asarray(net.latest_finish(horizon), dtype=np.int64)
+        hi_s = hi_f - dmin
+        for i in reversed(net.order):
+            if net.fixed[i]:
+                hi_s[i], hi_f[i] = net.release[i], net.release[i] + net.durations[i]
+                continue
+            for e in net.out_links[i]:
+                j, k = net.succ[e], net.kind[e]
+                x = (hi_s[j] if k in (_FS, _SS) else hi_f[j]) - net.lag[e]
+                bound = net._latest(i, j, int(x), k)
+                if k in (_FS, _FF):
+                    hi_f[i] = min(hi_f[i], bound)
+                else:
+                    hi_s[i] = min(hi_s[i], bound)
+            hi_s[i] = min(hi_s[i], hi_f[i] - dmin[i])
+            hi_f[i] = min(hi_f[i], hi_s[i] + dmax[i])
+        return lo_s, lo_f, np.maximum(hi_s, lo_s), np.maximum(hi_f, lo_f)
 
     def _duration_rows_with_options(self, net: Network, durations: np.ndarray) -> None:
         n, lm = len(net), self.lp
@@ -268,6 +361,8 @@ class CrashModel:
         # PSPLIB j1012_10 at 11-12 days; tests/test_discrete.py)
         lm = self.lp.copy() if (aside or self.lp.is_mip) else self.lp
         lm.use_objective(objective.value)
+        if target is not None and self.horizon_finish is not None:
+            target = min(target, self.horizon_finish)  # (the calendar steps reach this far)
         lm.set_col_bounds(self.finish, 0.0, INF if target is None else float(target))
         lm.set_row_bounds(self.cost_cap, -INF, INF if cap is None else float(cap))
         current = self._strict if lm is self.lp else None  # a fresh copy: set its bounds anyway

@@ -87,10 +87,10 @@ def recovery(study: Study, progress=None) -> Recovery:
     normal = study.normal
     finishes = [a.ef for a in normal.activities]
     milestones = []
-    for a, f in zip(project.activities, finishes):
+    for k, (a, f) in enumerate(zip(project.activities, finishes)):
         if a.deadline is None:
             continue
-        forecast = clock.project_finish_date(f)
+        forecast = net.timeline.clock_of(k).project_finish_date(f)  # in its own calendar
         late = max(0, (forecast - a.deadline).days)
         milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
     base = study.total_cost_point(study.normal_finish, 0.0, study.checker.penalty(finishes))

@@ -10,7 +10,7 @@ from tabulate import tabulate
 
 from typing import TYPE_CHECKING
 
-from .calendar import CalendarClock
+from .calendar import CalendarClock, Timeline
 from .cautions import plan_cautions
 from .model import Project
 from .network import Schedule
@@ -60,17 +60,37 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tupl
     return first, last
 
 
+def _row_dates(project: Project, rs, clock: CalendarClock, field: str, other: str):
+    """Dates of one (start, finish) pair of every row, each in its activity's own calendar."""
+    starts = [getattr(r, field) for r in rs]
+    finishes = [getattr(r, other) for r in rs]
+    timeline = Timeline(project)
+    if not timeline.several:
+        return _dates(clock, starts, finishes)
+    pos = {a.id: k for k, a in enumerate(project.activities)}
+    cal = [timeline.of[pos[r.id]] for r in rs]
+    first, last = [""] * len(rs), [""] * len(rs)
+    for c in sorted(set(cal)):
+        mine = [k for k, x in enumerate(cal) if x == c]
+        f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine])
+        for k, a, b in zip(mine, f, g):
+            first[k], last[k] = a, b
+    return first, last
+
+
 def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> list[dict]:
-    """One row per activity with offsets and the dates a person reads."""
+    """One row per activity with offsets and the dates a person reads (each activity's
+    offsets and dates in its own calendar)."""
     acts = {a.id: a for a in project.activities}
     rs = sched.activities
-    es, ef = _dates(clock, [r.es for r in rs], [r.ef for r in rs])
-    ls, lf = _dates(clock, [r.ls for r in rs], [r.lf for r in rs])
+    es, ef = _row_dates(project, rs, clock, "es", "ef")
+    ls, lf = _row_dates(project, rs, clock, "ls", "lf")
     rows = []
     for k, r in enumerate(rs):
         a = acts[r.id]
         rows.append({
-            "id": r.id, "name": a.name, "trade": a.trade, "duration": r.duration, "state": r.state,
+            "id": r.id, "name": a.name, "trade": a.trade, "calendar": a.calendar or project.calendar.name,
+            "duration": r.duration, "state": r.state,
             "es": r.es, "ef": r.ef, "ls": r.ls, "lf": r.lf,
             "early_start": es[k], "early_finish": ef[k], "late_start": ls[k], "late_finish": lf[k],
             "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
@@ -82,11 +102,12 @@ def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> li
 def schedule_text(project: Project, sched: Schedule, clock: CalendarClock, warnings=()) -> str:
     rows = schedule_rows(project, sched, clock)
     progress = project.data_date is not None
+    own = any(a.calendar for a in project.activities)  # some activities have their own calendar
     table = tabulate(
-        [[r["id"], r["name"], r["trade"]] + ([r["state"]] if progress else [])
+        [[r["id"], r["name"], r["trade"]] + ([r["calendar"]] if own else []) + ([r["state"]] if progress else [])
          + [r["duration"], r["early_start"], r["early_finish"], r["late_start"], r["late_finish"],
             r["total_float"], r["free_float"], "yes" if r["critical"] else ""] for r in rows],
-        headers=["id", "name", "trade"] + (["status"] if progress else [])
+        headers=["id", "name", "trade"] + (["calendar"] if own else []) + (["status"] if progress else [])
         + [("days left" if progress else "days"), "early start", "early finish", "late start",
            "late finish", "total float", "free float", "critical"],
         tablefmt="simple", disable_numparse=True)
@@ -96,7 +117,8 @@ def schedule_text(project: Project, sched: Schedule, clock: CalendarClock, warni
         lines.append(f"Data date {_d(project.data_date)}: finished work shows its actual dates; "
                      "started work its actual start and forecast finish.")
     lines += ["Dates are the first and last day worked (a milestone: the day its predecessors end); "
-              "floats in working days."] + [f"Warning: {w}" for w in warnings] + ["", table, ""]
+              "floats in working days" + (" of each activity's own calendar; the project finish in "
+                                          "working days of the project calendar." if own else ".")] + [f"Warning: {w}" for w in warnings] + ["", table, ""]
     lines += _paths(sched)
     return "\n".join(lines)
 

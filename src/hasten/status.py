@@ -11,6 +11,9 @@ With a data date, work done is history and only remaining work can move:
 
 An activity with ``not_before`` starts on or after that date too.
 
+Each activity's dates are counted in its own calendar (:class:`~hasten.calendar.Timeline`):
+its actual dates, the data date and its not-before date become positions of that calendar.
+
 Out-of-sequence progress: a link whose successor's constrained event is already fixed in
 the past (the start of a started or finished successor, the finish of a finished one) is
 kept only if the actual dates satisfy it. Otherwise it is dropped with a warning that names
@@ -23,13 +26,14 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .calendar import CalendarClock
+from .calendar import CalendarClock, Timeline
 from .errors import InputError
 from .model import Activity, CrashStep, LinkType, Project
 
 __all__ = ["ActivityStatus", "Status", "apply_status", "DONE", "STARTED", "WAITING"]
 
 DONE, STARTED, WAITING = "finished", "started", "not started"
+_KIND = {LinkType.FS: 0, LinkType.SS: 1, LinkType.FF: 2, LinkType.SF: 3}
 
 
 @dataclass(frozen=True)
@@ -117,14 +121,24 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
                           _truncate(act.segments(), allowance))
 
 
-def apply_status(project: Project, clock: CalendarClock) -> Status:
-    """Progress and date constraints of every activity, and the links still in force."""
+def apply_status(project: Project, clock: CalendarClock, timeline: Timeline | None = None) -> Status:
+    """Progress and date constraints of every activity, and the links still in force.
+
+    ``clock`` is the project calendar's; ``timeline`` (when activities have calendars of
+    their own) gives each activity's clock and converts links between calendars."""
     data = None if project.data_date is None else clock.offset_of(project.data_date, finish=False)
     if data is None and not any(a.not_before for a in project.activities):
         # no progress, no dates: everything waits to start at day 0 at its normal pace
         return Status(None, tuple([ActivityStatus(WAITING, a.duration, 0, None, None)
                                    for a in project.activities]), frozenset(), ())
-    states = tuple(_one(a, clock, data, project.data_date) for a in project.activities)
+    several = timeline is not None and timeline.several
+    if several:  # the data date in each activity's own calendar
+        clocks = [timeline.clock_of(k) for k in range(len(project.activities))]
+        at = {id(c): None if data is None else c.offset_of(project.data_date, finish=False)
+              for c in timeline.clocks}
+        states = tuple(_one(a, c, at[id(c)], project.data_date) for a, c in zip(project.activities, clocks))
+    else:
+        states = tuple(_one(a, clock, data, project.data_date) for a in project.activities)
     dropped, warnings = set(), []
     if data is not None:
         pos = {a.id: k for k, a in enumerate(project.activities)}
@@ -140,6 +154,9 @@ def apply_status(project: Project, clock: CalendarClock) -> Status:
                 earlier = i.release + i.duration if i.state == DONE else None
             else:
                 earlier = i.start
+            if earlier is not None and several:
+                earlier = int(timeline.convert(timeline.of[pos[link.pred]], timeline.of[pos[link.succ]],
+                                               earlier, _KIND[link.type]))
             if earlier is not None and later >= earlier + link.lag:
                 continue  # satisfied by the actual dates
             dropped.add(e)

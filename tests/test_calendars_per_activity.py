@@ -1,0 +1,245 @@
+"""Activities on calendars of their own (hasten.calendar.Timeline, the CPM passes, the
+optimiser and the plan check).
+
+Sources of the checks:
+
+- the definitions written out here with Python dates and linear scans (no numpy):
+  each calendar's working days listed day by day; a predecessor's finish happens on the
+  evening of its last day, an SS start on the morning of its first day; the successor
+  takes the first of its own working days (or day ends, for a finish) not before that
+  moment, then counts the lag in its own working days; the project finish is the end of
+  the project working day on or after the last day worked. These are the rules of
+  DEVELOPERS.md / hasten.calendar.Timeline ("links and lags count in the successor's
+  calendar", as the issue asks), checked here by an implementation of our own;
+- a hand-worked example of our own (arithmetic in the test);
+- brute force over every whole-day duration vector for the least cost (as in
+  tests/test_crashing_properties.py) on random small projects with mixed calendars;
+- networkx: with every activity on one calendar the schedule is unchanged.
+"""
+
+from __future__ import annotations
+
+import itertools
+from datetime import date, timedelta
+
+from hypothesis import given
+from hypothesis import strategies as st
+
+from conftest import PROPERTY, TOL, make_project, nx_cpm, slope
+from hasten.calendar import Timeline
+from hasten.checks import check_plan
+from hasten.crashing import Study
+from hasten.model import Activity, Calendar, Link, LinkType, Project
+from hasten.network import Network, schedule
+
+START = date(2025, 3, 3)  # a Monday
+ONE = timedelta(days=1)
+FS, SS, FF, SF = LinkType.FS, LinkType.SS, LinkType.FF, LinkType.SF
+
+
+# -- the reference: working days listed one by one -------------------------------------
+class Days:
+    """Working days of one calendar as a list; position k = index into it (day 0 = the
+    first working day on or after the project start)."""
+
+    def __init__(self, cal: Calendar, start: date, before: int = 80, after: int = 400):
+        back, day = [], start - ONE
+        while len(back) < before:
+            if day.weekday() in cal.workdays and day not in cal.holidays:
+                back.append(day)
+            day -= ONE
+        ahead, day = [], start
+        while len(ahead) < after:
+            if day.weekday() in cal.workdays and day not in cal.holidays:
+                ahead.append(day)
+            day += ONE
+        self.days = back[::-1] + ahead
+        self.zero = len(back)
+
+    def S(self, k: int) -> date:  # morning of working day k
+        return self.days[self.zero + k]
+
+    def F(self, k: int) -> date:  # evening of working day k - 1, as the next morning
+        return self.days[self.zero + k - 1] + ONE
+
+    def first_start(self, moment: date) -> int:
+        return next(k for k in range(-self.zero, len(self.days) - self.zero) if self.S(k) >= moment)
+
+    def first_finish(self, moment: date) -> int:
+        return next(k for k in range(-self.zero + 1, len(self.days) - self.zero) if self.F(k) >= moment)
+
+
+def reference_forward(project: Project, durations: dict[str, int],
+                      release: dict[str, int] | None = None) -> tuple[dict, int]:
+    """Early starts (each in its own calendar) and the project finish, by the rules above;
+    ``release``: starts no earlier than these positions."""
+    days = {"": Days(project.calendar, project.start)}
+    for cal in project.calendars:
+        days[cal.name] = Days(cal, project.start)
+    own = {a.id: days[a.calendar] for a in project.activities}
+    preds = {a.id: [k for k in project.links if k.succ == a.id] for a in project.activities}
+    es: dict[str, int] = {}
+    left = [a.id for a in project.activities]
+    while left:
+        j = next(x for x in left if all(k.pred in es for k in preds[x]))
+        left.remove(j)
+        best = (release or {}).get(j, 0)
+        for k in preds[j]:
+            i, di = k.pred, durations[k.pred]
+            if k.type is SS:
+                moment = own[i].S(es[i])
+            else:  # FS, FF: the predecessor's finish; SF: the boundary before its first day
+                moment = own[i].F(es[i] + di if k.type in (FS, FF) else es[i])
+            if k.type in (FS, SS):
+                best = max(best, own[j].first_start(moment) + k.lag)
+            else:
+                best = max(best, own[j].first_finish(moment) + k.lag - durations[j])
+        es[j] = best
+    finish = max((days[""].first_finish(own[a.id].F(es[a.id] + durations[a.id]))
+                  for a in project.activities), default=0)
+    return es, finish
+
+
+# -- conversions -------------------------------------------------------------------------
+@PROPERTY
+@given(st.lists(st.sets(st.integers(0, 6), min_size=1), min_size=3, max_size=3),
+       st.lists(st.integers(0, 40), max_size=4), st.integers(0, 6), st.data())
+def test_conversions_follow_the_definitions(workdays, holiday_days, shift, data):
+    holidays = tuple(sorted({START + timedelta(days=h) for h in holiday_days}))
+    cals = [Calendar(tuple(sorted(w)), holidays if n else (), name)
+            for n, (w, name) in enumerate(zip(workdays, ("p", "a", "b")))]
+    project = Project("t", START + timedelta(days=shift), (Activity("x", 1, calendar="a"),
+                                                           Activity("y", 1, calendar="b")),
+                      calendar=cals[0], calendars=tuple(cals[1:]))
+    timeline = Timeline(project)
+    a, b = timeline.of
+    da, db = Days(cals[1], project.start), Days(cals[2], project.start)
+    for kind, first in ((0, db.first_start), (1, db.first_start), (2, db.first_finish),
+                        (3, db.first_finish)):
+        for k in data.draw(st.lists(st.integers(-5, 40), min_size=1, max_size=6)):
+            moment = da.S(k) if kind == 1 else da.F(k)
+            assert int(timeline.convert(a, b, k, kind)) == first(moment), (kind, k)
+        # the inverse: the greatest position whose conversion stays within x
+        for x in data.draw(st.lists(st.integers(0, 30), min_size=1, max_size=4)):
+            latest = int(timeline.latest(a, b, x, kind))
+            assert int(timeline.convert(a, b, latest, kind)) <= x < int(timeline.convert(a, b, latest + 1, kind))
+
+
+# -- a hand-worked example of our own ----------------------------------------------------
+CRANE = Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane")  # works every day
+SIX = Calendar((0, 1, 2, 3, 4, 5), (), "six-day")
+
+
+def hand_project() -> Project:
+    acts = (Activity("A", 5, crash_duration=3, cost=1000, crash_cost=1400),  # 200 a day
+            Activity("B", 3, crash_duration=2, cost=500, crash_cost=800, calendar="crane"),
+            Activity("C", 2, cost=100),
+            Activity("D", 4, crash_duration=2, cost=100, crash_cost=300, calendar="six-day"),
+            Activity("M", 0))
+    links = (Link("A", "B"), Link("B", "C"), Link("A", "D", SS, 2), Link("D", "M"), Link("C", "M"))
+    return Project("hand", START, acts, links, calendars=(CRANE, SIX))
+
+
+def test_hand_worked_schedule_on_three_calendars():
+    # A (Mon-Fri) Mon 3 - Fri 7 Mar. B (every day) starts the morning after: Sat 8, Sun 9,
+    # Mon 10. C (Mon-Fri) Tue 11 - Wed 12. D (six-day) SS+2 after A's start Mon 3: Mon 3
+    # plus 2 of its days = Wed 5; 4 days Wed 5 - Sat 8. M after C and D: end of Wed 12.
+    # Project: Mon 3 .. Wed 12 = 8 working days of Mon-Fri. D may finish as late as Wed 12:
+    # Mon 10, Tue 11, Wed 12 = 3 six-day days of float.
+    project = hand_project()
+    net = Network(project)
+    sched = schedule(net)
+    by = sched.by_id()
+    assert sched.finish == 8
+    clock = {a.id: net.timeline.clock_of(k) for k, a in enumerate(project.activities)}
+    assert [clock["B"].date_of(by["B"].es), clock["B"].date_of(by["B"].ef - 1)] == [date(2025, 3, 8), date(2025, 3, 10)]
+    assert [clock["C"].date_of(by["C"].es), clock["C"].date_of(by["C"].ef - 1)] == [date(2025, 3, 11), date(2025, 3, 12)]
+    assert [clock["D"].date_of(by["D"].es), clock["D"].date_of(by["D"].ef - 1)] == [date(2025, 3, 5), date(2025, 3, 8)]
+    assert by["D"].total_float == 3 and not by["D"].critical
+    assert sched.critical_paths == (("A", "B", "C", "M"),)
+
+
+def test_hand_worked_crashing_meets_the_weekend():
+    # One day off A (200): A Mon-Thu, B Fri-Sun, C Mon 10 - Tue 11: 7 working days.
+    # Two days off A, or a day off B as well: B still ends on a weekend day, C still starts
+    # Mon 10: 7 is the shortest, for 200.
+    study = Study(hand_project())
+    assert (study.normal_finish, study.shortest_finish) == (8, 7)
+    plan = study.plan(7)
+    assert abs(plan.added_cost - 200) <= TOL
+    assert {c.id: c.shortened_by for c in plan.changed} == {"A": 1}
+
+
+# -- random projects against the reference ----------------------------------------------
+@st.composite
+def calendar_projects(draw, max_n: int = 5):
+    n = draw(st.integers(2, max_n))
+    names = ["", "crane", "six-day", "odd"]
+    odd = Calendar(tuple(sorted(draw(st.sets(st.integers(0, 6), min_size=1)))),
+                   (START + timedelta(days=draw(st.integers(0, 20))),), "odd")
+    acts = []
+    for i in range(n):
+        d = draw(st.integers(0, 6))
+        cut = draw(st.integers(0, min(d, 2)))
+        acts.append(Activity(f"a{i}", d, crash_duration=d - cut, cost=10.0,
+                             crash_cost=10.0 + cut * draw(st.integers(1, 9)),
+                             calendar=draw(st.sampled_from(names))))
+    pairs = st.tuples(st.integers(0, n - 1), st.integers(0, n - 1)).filter(lambda p: p[0] != p[1])
+    raw = draw(st.lists(st.tuples(pairs, st.sampled_from(list(LinkType)), st.integers(-2, 3)),
+                        max_size=7))
+    links = [Link(f"a{min(p)}", f"a{max(p)}", t, lag) for p, t, lag in raw]
+    project = make_project(acts, links, name="cals")
+    return Project(project.name, START + timedelta(days=draw(st.integers(0, 6))), project.activities,
+                   project.links, calendars=(CRANE, SIX, odd))
+
+
+@PROPERTY
+@given(calendar_projects(max_n=7))
+def test_early_dates_and_finish_match_the_reference(project):
+    net = Network(project)
+    normal = {a.id: a.duration for a in project.activities}
+    es, finish = reference_forward(project, normal)
+    sched = schedule(net)
+    assert {a.id: a.es for a in sched.activities} == es
+    assert sched.finish == finish
+    # late start: the latest start of each activity in any schedule that keeps the finish,
+    # i.e. the greatest s whose reference forward pass with that activity held to s still
+    # finishes by the finish
+    for a in sched.activities:
+        assert reference_forward(project, normal, {a.id: a.ls})[1] <= finish, a.id
+        assert reference_forward(project, normal, {a.id: a.ls + 1})[1] > finish, a.id
+
+
+@PROPERTY
+@given(calendar_projects(max_n=5))
+def test_least_cost_matches_brute_force(project):
+    acts = project.activities
+    best: dict[int, float] = {}
+    for combo in itertools.product(*[range(a.shortest, a.duration + 1) for a in acts]):
+        durations = dict(zip((a.id for a in acts), combo))
+        _, finish = reference_forward(project, durations)
+        cost = sum(slope(a) * (a.duration - durations[a.id]) for a in acts)
+        best[finish] = min(best.get(finish, float("inf")), cost)
+    study = Study(project)
+    assert study.normal_finish == reference_forward(project, {a.id: a.duration for a in acts})[1]
+    assert study.shortest_finish == min(best)
+    for target in range(study.shortest_finish, study.normal_finish + 1):
+        expected = min(c for f, c in best.items() if f <= target)
+        plan = study.plan(target)
+        assert abs(plan.added_cost - expected) <= TOL * max(1.0, expected), target
+        durations = {c.id: c.duration for c in plan.activities}
+        assert reference_forward(project, durations)[1] == plan.finish <= target
+        starts = [a.es for a in plan.schedule.activities]
+        check_plan(project, [durations[a.id] for a in acts], starts, target=target)
+
+
+def test_one_calendar_under_another_name_changes_nothing():
+    # a calendar with the project's own days is the project calendar (reference: networkx)
+    acts = (Activity("A", 3), Activity("B", 2, calendar="same"), Activity("C", 4, calendar="same"))
+    links = (Link("A", "B"), Link("A", "C", SS, 1), Link("B", "C", FF, 2))
+    project = Project("t", START, acts, links, calendars=(Calendar((0, 1, 2, 3, 4), (), "same"),))
+    assert not Network(project).several
+    finish_nx, es_nx, _ = nx_cpm(project)
+    sched = schedule(project)
+    assert sched.finish == finish_nx
+    assert {a.id: a.es for a in sched.activities} == es_nx
