@@ -655,41 +655,272 @@ def test_actual_start_on_the_data_date_is_allowed(yard):
     assert read_project(yard).activity("D").actual_start == date(2025, 4, 7)
 
 
-def test_calendars_section_is_refused(hall):
-    (hall / "project.toml").write_text(
-        (hall / "project.toml").read_text(encoding="utf-8") + "\n[calendars]\nsite = 1\n",
-        encoding="utf-8")
-    error = read_error(hall)
-    check_error(error, file="project.toml", row=None, column="calendars", value="calendars",
-                says="per-activity calendars are not supported yet; every activity uses the "
-                     "project calendar")
-    assert error.fix.startswith("remove it: every activity uses the project calendar")
+# ---------------------------------------------------------------- named calendars
+# An invented project with two named calendars, written out in the test (format checks only).
+
+DEPOT_TOML = """# Invented demo data for format tests only (not a reference check).
+name = "Depot canopy"
+start = 2025-03-03
+calendar = "mon-fri"
+holidays = [2025-04-18, 2025-05-01]
+
+[calendars.crane]
+workdays = "all-days"
+holidays = []
+
+[calendars.six-day]
+workdays = ["mon", "tue", "wed", "thu", "fri", "sat"]
+"""
+DEPOT_CSV = """id,name,duration,predecessors,calendar
+A,Footings,4,,
+B,Steel erection,3,A,crane
+C,Roof deck,5,B,six-day
+D,Handover,0,C,
+"""
+DEPOT_HOLIDAYS = (date(2025, 4, 18), date(2025, 5, 1))
+
+# The depot project written out by hand from DEPOT_TOML and DEPOT_CSV: each calendar is named
+# by its key (six-day, not mon-sat); crane lists no holidays, six-day takes the project's.
+DEPOT_PROJECT = Project(
+    name="Depot canopy",
+    start=date(2025, 3, 3),
+    activities=(
+        Activity("A", 4, "Footings"),
+        Activity("B", 3, "Steel erection", calendar="crane"),
+        Activity("C", 5, "Roof deck", calendar="six-day"),
+        Activity("D", 0, "Handover"),
+    ),
+    links=(Link("A", "B"), Link("B", "C"), Link("C", "D")),
+    calendar=Calendar((0, 1, 2, 3, 4), DEPOT_HOLIDAYS, "mon-fri"),
+    calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
+               Calendar((0, 1, 2, 3, 4, 5), DEPOT_HOLIDAYS, "six-day")),
+)
 
 
-def test_calendar_column_is_refused(hall):
-    edit(hall / "activities.csv", ",predecessors\n", ",predecessors,calendar\n")
-    error = read_error(hall)
-    check_error(error, file="activities.csv", row=1, column="calendar", value="calendar",
-                says="per-activity calendars are not supported yet; every activity uses the "
-                     "project calendar")
-    assert error.fix.startswith("remove the column: every activity uses the project calendar")
+@pytest.fixture
+def depot(tmp_path: Path) -> Path:
+    folder = tmp_path / "depot"
+    folder.mkdir()
+    (folder / "project.toml").write_text(DEPOT_TOML, encoding="utf-8")
+    (folder / "activities.csv").write_text(DEPOT_CSV, encoding="utf-8")
+    return folder
 
 
-def test_calendars_in_workbook_and_json_are_refused(tmp_path):
-    write_project(HALL_PROJECT, tmp_path / "p.xlsx")
-    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
-    book["project"].append(("calendars.site", "mon-sat"))
-    last = book["project"].max_row
-    book.save(tmp_path / "p.xlsx")
-    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet project)", row=last,
-                column="calendars.site", value="calendars.site", says="not supported yet")
+def test_named_calendars_read_as_written_by_hand(depot):
+    assert read_project(depot) == DEPOT_PROJECT
 
-    write_project(HALL_PROJECT, tmp_path / "p.json")
+
+def test_named_calendars_round_trip_folder_xlsx_json_folder(tmp_path):
+    # a third calendar no activity names, with weekdays that match no named calendar
+    project = replace(DEPOT_PROJECT, calendars=DEPOT_PROJECT.calendars + (
+        Calendar((0, 2, 4), (date(2025, 6, 9),), "odd_days"),))
+    current = project
+    for name in ("p.xlsx", "p.json", "again"):
+        write_project(current, tmp_path / name)
+        current = read_project(tmp_path / name)
+        assert current == project, name
+
+
+def test_named_calendars_written_layouts(tmp_path):
+    write_project(DEPOT_PROJECT, tmp_path / "f")
+    toml = (tmp_path / "f" / "project.toml").read_text(encoding="utf-8")
+    assert toml.endswith('\n[calendars.crane]\nworkdays = "all-days"\nholidays = []\n\n'
+                         '[calendars.six-day]\nworkdays = "mon-sat"\n'
+                         'holidays = [2025-04-18, 2025-05-01]\n')
+    assert "\n[calendars]\n" not in toml
+    lines = (tmp_path / "f" / "activities.csv").read_text(encoding="utf-8").splitlines()
+    assert lines[0] == "id,name,trade,duration,crash_duration,cost,crash_cost,predecessors,calendar"
+    assert lines[1].endswith(",,") and lines[2].endswith(",A,crane")
+
+    write_project(DEPOT_PROJECT, tmp_path / "p.json")
     data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
-    data["activities"][1]["calendar"] = "night"
+    assert data["project"]["calendars"] == {
+        "crane": {"workdays": "all-days", "holidays": []},
+        "six-day": {"workdays": "mon-sat", "holidays": ["2025-04-18", "2025-05-01"]}}
+    assert [a["calendar"] for a in data["activities"]] == [None, "crane", "six-day", None]
+
+    write_project(DEPOT_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    rows = list(book["project"].iter_rows(min_row=2, values_only=True))
+    assert rows[-4:] == [("calendars.crane.workdays", "all-days"),
+                         ("calendars.crane.holidays", "none"),
+                         ("calendars.six-day.workdays", "mon-sat"),
+                         ("calendars.six-day.holidays", "2025-04-18, 2025-05-01")]
+    assert [c.value for c in book["activities"]["I"]] == ["calendar", None, "crane", "six-day", None]
+
+
+def test_convert_command_keeps_named_calendars(depot, tmp_path):
+    from typer.testing import CliRunner
+
+    from hasten.cli import app
+
+    runner = CliRunner()
+    source = depot
+    for target in ("p.xlsx", "p.json", "back"):
+        out = runner.invoke(app, ["convert", str(source), str(tmp_path / target)])
+        assert out.exit_code == 0, out.output
+        assert read_project(tmp_path / target) == DEPOT_PROJECT, target
+        source = tmp_path / target
+    assert (tmp_path / "back" / "project.toml").read_text(encoding="utf-8").count("[calendars.") == 2
+
+
+def test_calendar_holidays_absent_mean_the_projects_and_empty_means_none(depot, tmp_path):
+    crane = DEPOT_PROJECT.calendars[0]
+    # folder: holidays = [] gives none; without the key the project's holidays
+    edit(depot / "project.toml", 'workdays = "all-days"\nholidays = []\n', 'workdays = "all-days"\n')
+    assert read_project(depot).calendars[0] == replace(crane, holidays=DEPOT_HOLIDAYS)
+    edit(depot / "project.toml", 'workdays = "all-days"\n',
+         'workdays = "all-days"\nholidays = [2025-12-25]\n')
+    assert read_project(depot).calendars[0] == replace(crane, holidays=(date(2025, 12, 25),))
+
+    # workbook: "none" gives none; an empty cell or no row the project's holidays
+    write_project(DEPOT_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    sheet = book["project"]
+    row = next(r for r in range(1, sheet.max_row + 1)
+               if sheet.cell(r, 1).value == "calendars.crane.holidays")
+    assert sheet.cell(row, 2).value == "none"
+    sheet.cell(row, 2).value = None
+    book.save(tmp_path / "empty.xlsx")
+    assert read_project(tmp_path / "empty.xlsx").calendars[0] == replace(crane, holidays=DEPOT_HOLIDAYS)
+    sheet.delete_rows(row)
+    book.save(tmp_path / "gone.xlsx")
+    assert read_project(tmp_path / "gone.xlsx").calendars[0] == replace(crane, holidays=DEPOT_HOLIDAYS)
+
+    # JSON: [] gives none; null or no key the project's holidays
+    write_project(DEPOT_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    assert data["project"]["calendars"]["crane"]["holidays"] == []
+    assert read_project(tmp_path / "p.json").calendars[0] == crane
+    data["project"]["calendars"]["crane"]["holidays"] = None
     (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
-    check_error(read_error(tmp_path / "p.json"), file="p.json (activities)", row=None,
-                column="calendar", value="calendar", says="not supported yet")
+    assert read_project(tmp_path / "p.json").calendars[0] == replace(crane, holidays=DEPOT_HOLIDAYS)
+    del data["project"]["calendars"]["crane"]["holidays"]
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    assert read_project(tmp_path / "p.json").calendars[0] == replace(crane, holidays=DEPOT_HOLIDAYS)
+
+
+# (file, old text, new text, row, column, value, words the message must contain)
+BAD_CALENDAR_CASES = {
+    "unknown calendar in the column": (
+        "activities.csv", "A,crane", "A,crame", 3, "calendar", "crame",
+        "unknown calendar 'crame'"),
+    "unknown key in a calendar": (
+        "project.toml", "holidays = []", "holliday = []", None, "calendars.crane.holliday",
+        "calendars.crane.holliday", "did you mean 'calendars.crane.holidays'"),
+    "other unknown key in a calendar": (
+        "project.toml", "holidays = []", 'note = "tower crane"', None, "calendars.crane.note",
+        "calendars.crane.note", "a calendar takes the keys workdays and holidays"),
+    "unknown named calendar as workdays": (
+        "project.toml", '"all-days"', '"all-day"', None, "calendars.crane.workdays", "all-day",
+        "mon-fri, mon-sat, all-days"),
+    "unknown weekday in workdays": (
+        "project.toml", '"fri", "sat"]', '"fri", "sam"]', None, "calendars.six-day.workdays",
+        None, "unknown calendar"),
+    "no working weekdays": (
+        "project.toml", '"all-days"', "[]", None, "calendars.crane.workdays", None,
+        "no working weekdays"),
+    "workdays missing": (
+        "project.toml", 'workdays = "all-days"\n', "", None, "calendars.crane.workdays", None,
+        "the calendar 'crane' has no working weekdays"),
+    "holidays not dates": (
+        "project.toml", "holidays = []", 'holidays = ["Easter"]', None,
+        "calendars.crane.holidays", "Easter", "YYYY-MM-DD"),
+    "calendar name with a space": (
+        "project.toml", "[calendars.six-day]", '[calendars."six day"]', None,
+        "calendars.six day.workdays", "six day",
+        "a calendar name may contain only letters, digits, '-' and '_'"),
+    "calendar name with a dot": (
+        "project.toml", "[calendars.six-day]", '[calendars."six.day"]', None,
+        "calendars.six.day.workdays", "six.day", "only letters, digits"),
+    "empty calendar name": (
+        "project.toml", "[calendars.six-day]", '[calendars.""]', None,
+        "calendars..workdays", "", "the calendar name is empty"),
+    "calendar not a section": (
+        "project.toml", "[calendars.six-day]\nworkdays = ", "[calendars]\nsix-day = ", None,
+        "calendars.six-day", None, "a calendar must be a section of keys"),
+    "calendar without keys": (
+        "project.toml", "\n[calendars.crane]\n", "\n[calendars.night]\n[calendars.crane]\n", None,
+        "calendars.night", "night", "the calendar has no keys"),
+}
+
+
+@pytest.mark.parametrize("case", list(BAD_CALENDAR_CASES), ids=list(BAD_CALENDAR_CASES))
+def test_bad_calendar_input(depot, case):
+    file, old, new, row, column, value, says = BAD_CALENDAR_CASES[case]
+    edit(depot / file, old, new)
+    check_error(read_error(depot), file=file, row=row, column=column, value=value, says=says)
+
+
+def test_unknown_calendar_names_the_fix_and_the_defined_calendars(depot):
+    edit(depot / "activities.csv", "B,six-day", "B,Six-Day")
+    error = read_error(depot)
+    check_error(error, file="activities.csv", row=4, column="calendar", value="Six-Day",
+                says="unknown calendar 'Six-Day'")
+    assert error.fix == (f"did you mean 'six-day'? define it under [calendars.Six-Day] in "
+                         f"{depot / 'project.toml'}, or leave the cell empty for the project "
+                         "calendar; defined: crane, six-day")
+
+
+def test_calendar_column_without_calendars(hall):
+    edit(hall / "activities.csv", ",predecessors\n", ",predecessors,calendar\n")
+    assert read_project(hall) == HALL_PROJECT  # an empty column: the project calendar
+    edit(hall / "activities.csv", "Übergabe,,0,,0,,\n", "Übergabe,,0,,0,,,night\n")  # 070
+    error = read_error(hall)
+    check_error(error, file="activities.csv", row=9, column="calendar", value="night",
+                says="unknown calendar 'night'")
+    assert error.fix.endswith("defined: none")
+
+
+def test_calendar_errors_in_workbook_and_json(tmp_path):
+    write_project(DEPOT_PROJECT, tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    assert book["activities"]["I4"].value == "six-day"  # C on sheet row 4
+    book["activities"]["I4"] = "sixday"
+    book.save(tmp_path / "p.xlsx")
+    error = read_error(tmp_path / "p.xlsx")
+    check_error(error, file="p.xlsx (sheet activities)", row=4, column="calendar",
+                value="sixday", says="unknown calendar 'sixday'")
+    assert "define it with the key calendars.sixday.workdays on" in error.fix
+
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    sheet = book["project"]
+    row = next(r for r in range(1, sheet.max_row + 1)
+               if sheet.cell(r, 1).value == "calendars.crane.workdays")
+    sheet.cell(row, 1).value = "calendars.crane.workday"
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet project)", row=row,
+                column="calendars.crane.workday", value="calendars.crane.workday",
+                says="did you mean 'calendars.crane.workdays'")
+    sheet.cell(row, 1).value = "calendars.crane"
+    book.save(tmp_path / "p.xlsx")
+    check_error(read_error(tmp_path / "p.xlsx"), file="p.xlsx (sheet project)", row=row,
+                column="calendars.crane", value="calendars.crane",
+                says="needs the calendar's name and a key")
+
+    write_project(DEPOT_PROJECT, tmp_path / "p.json")
+    data = json.loads((tmp_path / "p.json").read_text(encoding="utf-8"))
+    data["project"]["calendars"]["crane"]["workdays"] = "weekdays"
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (project)", row=None,
+                column="calendars.crane.workdays", value="weekdays", says="unknown calendar")
+    data["project"]["calendars"] = ["crane"]
+    (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
+    check_error(read_error(tmp_path / "p.json"), file="p.json (project)", row=None,
+                column="calendars", value=None, says="must be a section of named calendars")
+
+
+@pytest.mark.parametrize("change, says", [
+    (dict(calendars=()), "unknown calendar 'crane'"),
+    (dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
+                     Calendar((0, 1, 2, 3, 4, 5), (), "six day"))), "calendar name"),
+    (dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
+                     Calendar((5, 0), (), "six-day"))), r"project.calendars\[1\].workdays"),
+])
+def test_refuses_calendars_that_would_not_read_back(tmp_path, change, says):
+    with pytest.raises(InputError, match=says):
+        write_project(replace(DEPOT_PROJECT, **change), tmp_path / "p.json")
+    assert list(tmp_path.iterdir()) == []
 
 
 # (file, old text, new text, row, column, value, words the message must contain)
@@ -961,6 +1192,7 @@ def test_refuses_projects_that_would_not_read_back(tmp_path, change, says):
 ID = st.text(string.ascii_letters + string.digits + "-_.", min_size=1, max_size=5)
 TEXT = st.text(st.characters(blacklist_categories=("Cs", "Cn", "Cc")) | st.sampled_from("\n\t"),
                max_size=15).map(str.strip)
+CALENDAR_NAME = st.text(string.ascii_letters + string.digits + "-_äß", min_size=1, max_size=8)
 MONEY = st.floats(min_value=0, max_value=1e12, allow_nan=False) | st.integers(0, 10**7).map(float)
 
 
@@ -1054,6 +1286,14 @@ def project(draw) -> Project:
     day_names = ("mon", "tue", "wed", "thu", "fri", "sat", "sun")
     calendar = Calendar(workdays, tuple(draw(st.lists(st.dates(), unique=True, max_size=4))),
                         named.get(workdays, ",".join(day_names[d] for d in workdays)))
+    # named calendars (any weekdays, none or some holidays), named by some activities
+    names = draw(st.lists(CALENDAR_NAME, max_size=3, unique=True))
+    calendars = tuple(
+        Calendar(tuple(sorted(draw(st.sets(st.integers(0, 6), min_size=1)))),
+                 tuple(draw(st.lists(st.dates(), unique=True, max_size=3))), name)
+        for name in names)
+    activities = tuple(replace(a, calendar=draw(st.sampled_from(["", *names])))
+                       for a in activities)
     return Project(
         name=draw(TEXT.filter(bool)),
         start=start,
@@ -1065,6 +1305,7 @@ def project(draw) -> Project:
         contract=Contract(draw(st.none() | st.dates()), draw(MONEY), draw(MONEY),
                           draw(st.none() | st.integers(0, 400))),
         data_date=data_date,
+        calendars=calendars,
     )
 
 
@@ -1208,3 +1449,6 @@ def test_the_quick_path_takes_plain_rows():
                             "crash_cost": "160.5", "name": "Pour slab", "trade": "concrete"}) == \
         Activity("A1", 5, name="Pour slab", trade="concrete", crash_duration=3, cost=100.0, crash_cost=160.5)
     assert _plain_activity({"id": "A 1", "duration": "5"}) is None  # a space: the full path says why
+    # a row naming a calendar takes the full path, which reads the calendar
+    assert _plain_activity({"id": "A1", "duration": "5", "calendar": "crane"}) is None
+    assert _plain_activity({"id": "A1", "duration": "5", "calendar": ""}) == Activity("A1", 5)

@@ -274,7 +274,7 @@ class CrashModel:
     def _event_bounds(self, net: Network):
         """Least and greatest start and finish of each activity over every plan that
         finishes by the horizon (durations anywhere between shortest and longest)."""
-        n, timeline = len(net), net.timeline
+        n = len(net)
         dmin = np.asarray(net.shortest, dtype=np.int64)
         dmax = np.asarray([max([d] + [o.duration for o in opts]) for d, opts in zip(net.durations, net.options)],
                           dtype=np.int64)

@@ -8,6 +8,11 @@ Canonical choices:
   those that some activity uses are written (a project without progress keeps the plan
   layout), empty where an activity has no value; ``damages_per_day`` 0 stays empty;
 * the data date goes into the ``status`` section when it is given;
+* named calendars go into ``calendars.NAME.workdays`` (a named calendar's name when the
+  weekdays match one, else the list of weekday names) and ``calendars.NAME.holidays``
+  (always written, ``[]`` for none, so that reading back does not give the project's
+  holidays), in the project's order; the ``calendar`` column is written after the progress
+  columns only when some activity names a calendar, empty for the project calendar;
 * links go into the ``predecessors`` column (``Link.text()``, joined with ``"; "``) when the
   project's link order is the order reading gives back (grouped by successor in activity
   order); otherwise all links go into the links table, in order, and the column stays empty;
@@ -24,8 +29,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
-from hasten.formats.parse import (LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS,
-                                  STEP_COLUMNS)
+from hasten.formats.parse import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS,
+                                  PROGRESS_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
 from hasten.model import Activity, Link, Option, Project
@@ -37,7 +42,8 @@ __all__ = ["Document", "to_document", "document_tables", "first_difference"]
 class Document:
     """Plain values ready for a writer: flat settings and one list of dicts per table.
 
-    Every activity record has the same keys: the plan columns and the progress columns in use.
+    Every activity record has the same keys: the plan columns, the progress columns in use
+    and the calendar column if some activity names a calendar.
     Dates are ``date`` objects; each writer turns them into its own form.
     """
 
@@ -49,9 +55,10 @@ class Document:
 
     @property
     def activity_columns(self) -> tuple[str, ...]:
-        """The columns to write: the plan columns, then the progress columns in use."""
+        """The columns to write: the plan columns, then the progress columns and the calendar
+        column in use."""
         used = {key for record in self.activities for key in record}
-        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS if c in used)
+        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS + (CALENDAR_COLUMN,) if c in used)
 
 
 def _in_reading_order(project: Project) -> bool:
@@ -119,9 +126,11 @@ def to_document(project: Project) -> Document:
                 for k, v in settings_values(project).items()}
     progress = [_progress_cells(a) for a in project.activities]
     used = [c for c in PROGRESS_COLUMNS if any(cells[c] is not None for cells in progress)]
+    calendars = any(a.calendar for a in project.activities)
     return Document(
         settings=settings,
         activities=[_activity_row(a, incoming.get(a.id, [])) | {c: cells[c] for c in used}
+                    | ({CALENDAR_COLUMN: a.calendar or None} if calendars else {})
                     for a, cells in zip(project.activities, progress)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}

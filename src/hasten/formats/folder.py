@@ -6,6 +6,10 @@ have the progress and date columns ``actual_start``, ``actual_finish``, ``remain
 ``percent_complete``, ``not_before``, ``deadline`` and ``damages_per_day`` (dates as
 ``YYYY-MM-DD``; see :mod:`hasten.formats.parse` for their rules).
 
+``project.toml`` may define further calendars as ``[calendars.NAME]`` tables with
+``workdays`` and optional ``holidays`` (see :mod:`hasten.formats.settings`), which
+activities name in an optional ``calendar`` column.
+
 ``options.csv`` lists discrete ways to perform an activity, one per row, with the columns
 ``id``, ``option``, ``duration``, ``added_cost`` and optional ``note``, ``crash_duration``,
 ``cost_per_day`` (the option's own linear shortening; both or neither).

@@ -7,20 +7,24 @@ Layout::
                  "holidays": ["2025-12-25"], "currency": "EUR",
                  "costs": {"indirect_per_day": 850},
                  "contract": {"finish": "2025-06-30", "damages_per_day": 1200, ...},
-                 "status": {"data_date": "2025-05-05"}},
+                 "status": {"data_date": "2025-05-05"},
+                 "calendars": {"crane": {"workdays": "all-days", "holidays": []},
+                               "six-day": {"workdays": ["mon", ..., "sat"]}}},
      "activities": [{"id": "A", "name": ..., "trade": ..., "duration": 5,
                      "crash_duration": 3, "cost": 12000, "crash_cost": 15000,
                      "predecessors": "B; C:SS+2",
                      "actual_start": "2025-04-07", "actual_finish": null,
                      "remaining": 2, "percent_complete": null, "not_before": null,
-                     "deadline": null, "damages_per_day": null}, ...],
+                     "deadline": null, "damages_per_day": null, "calendar": "crane"}, ...],
      "links": [{"predecessor": "A", "successor": "B", "type": "FS", "lag": 0}, ...],
      "crash_steps": [{"id": "A", "days": 1, "cost_per_day": 500}, ...],
      "options": [{"id": "A", "option": "second crew", "duration": 3, "added_cost": 2400,
                   "note": "", "crash_duration": null, "cost_per_day": null}, ...]}
 
-``links``, ``crash_steps`` and ``options`` may be left out, and so may ``status`` and the
-progress and date keys of an activity (written only when some activity uses them). Dates
+``links``, ``crash_steps`` and ``options`` may be left out, and so may ``status``,
+``calendars`` (a calendar's ``holidays`` absent or null: the project's holidays), and the
+progress, date and calendar keys of an activity (written only when some activity uses
+them; a null ``calendar`` is the project calendar). Dates
 are ISO text; an absent crash, progress or date value is ``null``. Row numbers in messages are the 1-based position of the item in its list.
 """
 

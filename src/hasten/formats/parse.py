@@ -23,7 +23,9 @@ Progress and date columns of the activities table (all optional):
   without a deadline are refused (there is no date to be late against); 0 is the same as
   empty.
 
-A ``calendar`` column is refused: per-activity calendars are not supported yet.
+``calendar`` (optional column): the name of one of the calendars defined in the settings
+(``[calendars.NAME]``), on whose working days the activity is worked. An empty cell means
+the project calendar; an undefined name is refused.
 """
 
 from __future__ import annotations
@@ -41,7 +43,7 @@ from graphlib import TopologicalSorter
 from hasten.errors import CycleError, InputError
 from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
-from hasten.formats.settings import CALENDARS_FIX, parse_settings
+from hasten.formats.settings import CALENDARS, parse_settings
 from hasten.formats.tables import Row, Table, Tables
 from hasten.model import Activity, CrashStep, Link, LinkType, Option, Project
 
@@ -49,6 +51,7 @@ __all__ = [
     "ACTIVITY_COLUMNS",
     "PLAN_COLUMNS",
     "PROGRESS_COLUMNS",
+    "CALENDAR_COLUMN",
     "LINK_COLUMNS",
     "STEP_COLUMNS",
     "OPTION_COLUMNS",
@@ -59,7 +62,8 @@ PLAN_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "cr
                 PREDECESSORS)
 PROGRESS_COLUMNS = ("actual_start", "actual_finish", "remaining", "percent_complete",
                     "not_before", "deadline", "damages_per_day")
-ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS
+CALENDAR_COLUMN = "calendar"
+ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,)
 ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")
@@ -212,8 +216,11 @@ def _plain_activity(cells) -> Activity | None:
     """The activity of a row whose cells are all in their plainest form (ASCII id, digits,
     plain decimals, printable text) and consistent; ``None`` for anything else, which then
     takes the full path of :func:`_activity` with all its checks and messages. Reading a
-    large project spends most of its time here, so the common case is kept short."""
+    large project spends most of its time here, so the common case is kept short. A row
+    naming a calendar is not plain."""
     get = cells.get
+    if get(CALENDAR_COLUMN):
+        return None
     ident, duration, crash_duration = get("id", ""), get("duration", ""), get("crash_duration", "")
     cost, crash_cost = get("cost", ""), get("crash_cost", "")
     name, trade = get("name", ""), get("trade", "")
@@ -264,6 +271,7 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
         crash_duration=crash_duration,
         cost=cost,
         crash_cost=crash_cost,
+        calendar=_optional(row, table, CALENDAR_COLUMN, text_value, ""),
         **(_progress(row, table, duration) if with_progress else {}),
     )
 
@@ -367,11 +375,6 @@ def _activity_rows(table: Table) -> list[_ActivityRow]:
         raise Where(table.source, table.header_line).error(
             "there are no activities" if table.columns else "the table is empty", None,
             f"add a header row ({', '.join(PLAN_COLUMNS)}) and one row per activity")
-    if "calendar" in table.columns:
-        raise Where(table.source, table.header_line, "calendar").error(
-            "per-activity calendars are not supported yet; every activity uses the project "
-            "calendar", "calendar",
-            f"remove the column: {CALENDARS_FIX.removeprefix('remove it: ')}")
     _check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
     with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
     rows = [_ActivityRow(_activity(r, table, with_progress), Where(table.source, r.line))
@@ -385,6 +388,32 @@ def _activity_rows(table: Table) -> list[_ActivityRow]:
                 ident, "give each activity its own id")
         first[ident] = row
     return rows
+
+
+def _define_calendar(source: str, name: str) -> str:
+    """How to define the calendar ``name`` in the settings ``source`` (its form's syntax)."""
+    if source.endswith("(sheet project)"):
+        return f"define it with the key {CALENDARS}.{name}.workdays on {source}"
+    if source.endswith("(project)"):
+        return f'define it under "{CALENDARS}": {{"{name}": {{"workdays": ...}}}} in {source}'
+    return f"define it under [{CALENDARS}.{name}] in {source}"
+
+
+def _check_calendars(rows: Sequence[_ActivityRow], defined: Sequence[str],
+                     settings_source: str) -> None:
+    """Every calendar an activity names must be defined in the settings."""
+    known = set(defined)
+    for row in rows:
+        name = row.activity.calendar
+        if not name or name in known:
+            continue
+        close = [d for d in defined if d.lower() == name.lower()]
+        close += [d for d in difflib.get_close_matches(name, defined, n=2) if d not in close]
+        hint = f"did you mean {' or '.join(repr(d) for d in close)}? " if close else ""
+        raise row.where.at(CALENDAR_COLUMN).error(
+            f"unknown calendar '{name}'", row.activity.calendar,
+            f"{hint}{_define_calendar(settings_source, name)}, or leave the cell empty for the "
+            f"project calendar; defined: {', '.join(defined) or 'none'}")
 
 
 # ---------------------------------------------------------------- links
@@ -628,6 +657,8 @@ def parse_tables(tables: Tables) -> Project:
     rows = _activity_rows(tables.activities)
     _check_progress(rows, tables.activities, settings.start, settings.data_date,
                     tables.settings.source)
+    _check_calendars(rows, [c.name for c in settings.calendars],
+                     tables.settings.source)
     ids = [r.activity.id for r in rows]
     links = _resolve_links(_column_links(tables.activities) + _table_links(tables.links), ids)
     steps = _step_rows(tables.crash_steps, ids)
@@ -646,4 +677,5 @@ def parse_tables(tables: Tables) -> Project:
         costs=settings.costs,
         contract=settings.contract,
         data_date=settings.data_date,
+        calendars=settings.calendars,
     )

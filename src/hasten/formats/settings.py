@@ -7,14 +7,22 @@ from and to the sectioned TOML/JSON layout. Unknown keys are refused.
 the first day of remaining work; actual dates must lie before it. It may not be before the
 project start.
 
-Per-activity calendars are not supported yet: a ``[calendars]`` section (workbook keys
-``calendars.*``) is refused with a message saying that every activity uses the project
-calendar, instead of being silently ignored.
+Further named calendars, which activities name in their ``calendar`` column, go under
+``[calendars.NAME]`` (flat keys ``calendars.NAME.workdays`` and ``calendars.NAME.holidays``)::
+
+    [calendars.crane]
+    workdays = "all-days"         # as the project's calendar key: a name or a list of weekdays
+    holidays = []                 # optional; absent (or an empty cell): the project's holidays
+
+``workdays`` is required; ``holidays`` given as ``[]`` (or the text ``none``, the workbook's
+spelling of an empty list) means no holidays. A calendar's name is its key: letters, digits,
+``-`` or ``_``. Calendars keep the order they are given in.
 """
 
 from __future__ import annotations
 
 import difflib
+import re
 from collections.abc import Mapping
 from dataclasses import dataclass
 from datetime import date
@@ -26,8 +34,8 @@ from hasten.model import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
 __all__ = [
     "SETTING_KEYS",
     "SECTIONS",
-    "UNSUPPORTED_SECTIONS",
-    "CALENDARS_FIX",
+    "CALENDARS",
+    "CALENDAR_KEYS",
     "NAMED_CALENDARS",
     "ProjectSettings",
     "parse_settings",
@@ -45,9 +53,11 @@ SETTING_KEYS = (
 )
 REQUIRED_KEYS = ("name", "start")
 SECTIONS = ("costs", "contract", "status")
-UNSUPPORTED_SECTIONS = ("calendars",)
-CALENDARS_FIX = ("remove it: every activity uses the project calendar (calendar and holidays "
-                 "in the project settings)")
+CALENDARS = "calendars"  # the section of named calendars: calendars.NAME.KEY
+CALENDAR_KEYS = ("workdays", "holidays")
+_CALENDAR_NAME = re.compile(r"[\w-]+")  # \w: letters, digits and '_'
+_CALENDAR_NAME_FIX = ("rename the calendar using letters, digits, '-' or '_' only, e.g. "
+                      "'night-shift', and use that name in the activities' calendar column")
 NAMED_CALENDARS = {
     "mon-fri": (0, 1, 2, 3, 4),
     "mon-sat": (0, 1, 2, 3, 4, 5),
@@ -68,13 +78,40 @@ class ProjectSettings:
     costs: Costs
     contract: Contract
     data_date: date | None = None
+    calendars: tuple[Calendar, ...] = ()
+
+
+def _flatten_calendars(value: object, where: Where) -> dict[str, object]:
+    """``{"crane": {"workdays": w}}`` -> ``{"calendars.crane.workdays": w}``."""
+    if not isinstance(value, Mapping):
+        raise where.at(CALENDARS).error(
+            f"'{CALENDARS}' must be a section of named calendars", value,
+            'write each calendar as [calendars.NAME] followed by workdays = "mon-fri" '
+            "(and optionally holidays = [...])")
+    flat: dict[str, object] = {}
+    for name, table in value.items():
+        key = f"{CALENDARS}.{name}"
+        if not isinstance(table, Mapping):
+            raise where.at(key).error(
+                "a calendar must be a section of keys", table,
+                f'write it as [{key}] followed by workdays = "mon-fri" (and optionally '
+                "holidays = [...])")
+        if not table:
+            raise where.at(key).error(
+                "the calendar has no keys", name,
+                f'give it its working weekdays: [{key}] workdays = "mon-fri"')
+        flat.update({f"{key}.{inner}": v for inner, v in table.items()})
+    return flat
 
 
 def flatten(nested: Mapping[str, object], where: Where) -> dict[str, object]:
-    """``{"contract": {"finish": d}}`` -> ``{"contract.finish": d}`` for the known sections."""
+    """``{"contract": {"finish": d}}`` -> ``{"contract.finish": d}`` for the known sections,
+    ``{"calendars": {"crane": {"workdays": w}}}`` -> ``{"calendars.crane.workdays": w}``."""
     flat: dict[str, object] = {}
     for key, value in nested.items():
-        if key in SECTIONS:
+        if key == CALENDARS:
+            flat.update(_flatten_calendars(value, where))
+        elif key in SECTIONS:
             if not isinstance(value, Mapping):
                 raise where.at(key).error(f"'{key}' must be a section of keys", value,
                                           f"write it as [{key}] followed by its keys")
@@ -85,15 +122,44 @@ def flatten(nested: Mapping[str, object], where: Where) -> dict[str, object]:
 
 
 def nest(flat: Mapping[str, object]) -> dict[str, object]:
-    """The inverse of :func:`flatten`: dotted keys go into their section."""
+    """The inverse of :func:`flatten`: dotted keys go into their sections (and a calendar's
+    keys into its table within ``calendars``)."""
     nested: dict[str, object] = {}
     for key, value in flat.items():
-        section, dot, inner = key.partition(".")
-        if dot:
-            nested.setdefault(section, {})[inner] = value
-        else:
-            nested[key] = value
+        *sections, inner = key.split(".")
+        table = nested
+        for section in sections:
+            table = table.setdefault(section, {})
+        table[inner] = value
     return nested
+
+
+def _calendar_parts(key: str) -> tuple[str, str] | None:
+    """(name, inner key) of a ``calendars.NAME.KEY`` key; None for any other key."""
+    section, dot, rest = key.partition(".")
+    if section != CALENDARS:
+        return None
+    name, dot, inner = rest.rpartition(".")
+    return (name, inner) if dot else (rest, "")
+
+
+def _check_calendar_key(settings: Settings, key: str) -> None:
+    """A key of a named calendar: a valid name and one of the calendar keys."""
+    name, inner = _calendar_parts(key)
+    where = settings.where(key)
+    if not inner:
+        raise where.error(
+            "a calendar setting needs the calendar's name and a key", key,
+            f"write {CALENDARS}.{name or 'NAME'}.workdays (and optionally "
+            f"{CALENDARS}.{name or 'NAME'}.holidays)")
+    if not _CALENDAR_NAME.fullmatch(name):
+        raise where.error("a calendar name may contain only letters, digits, '-' and '_'"
+                          if name else "the calendar name is empty", name, _CALENDAR_NAME_FIX)
+    if inner not in CALENDAR_KEYS:
+        close = difflib.get_close_matches(inner, CALENDAR_KEYS, n=1)
+        hint = f"did you mean '{CALENDARS}.{name}.{close[0]}'? " if close else ""
+        raise where.error("unknown key", key,
+                          f"{hint}a calendar takes the keys {' and '.join(CALENDAR_KEYS)}")
 
 
 def _check_keys(settings: Settings) -> None:
@@ -101,10 +167,9 @@ def _check_keys(settings: Settings) -> None:
     for key in settings.values:
         if key in SETTING_KEYS:
             continue
-        if key.partition(".")[0] in UNSUPPORTED_SECTIONS:
-            raise settings.where(key).error(
-                "per-activity calendars are not supported yet; every activity uses the project "
-                "calendar", key, CALENDARS_FIX)
+        if _calendar_parts(key) is not None:
+            _check_calendar_key(settings, key)
+            continue
         close = difflib.get_close_matches(key, SETTING_KEYS, n=1)
         hint = f"did you mean '{close[0]}'? " if close else ""
         raise settings.where(key).error("unknown key", key,
@@ -164,6 +229,34 @@ def parse_holidays(value: object, where: Where) -> tuple[date, ...]:
     return days
 
 
+def _calendar_holidays(value: object, where: Where) -> tuple[date, ...]:
+    """A named calendar's holidays: as :func:`parse_holidays`, and the text ``none`` for no
+    holidays (an empty workbook cell means the key is absent: the project's holidays)."""
+    if isinstance(value, str) and value.strip().lower() == "none":
+        return ()
+    return parse_holidays(value, where)
+
+
+def parse_calendars(settings: Settings, holidays: tuple[date, ...]) -> tuple[Calendar, ...]:
+    """The named calendars in the order given; each is named by its key, takes the project's
+    ``holidays`` unless it lists its own, and must give its working weekdays."""
+    names = dict.fromkeys(parts[0] for parts in map(_calendar_parts, settings.values) if parts)
+    calendars = []
+    for name in names:
+        key = f"{CALENDARS}.{name}.workdays"
+        workdays = _given(settings, key)
+        if workdays is None:
+            raise settings.where(key).error(
+                f"the calendar '{name}' has no working weekdays: the key '{key}' is missing or "
+                "empty", None,
+                f'add it, e.g. [{CALENDARS}.{name}] workdays = "mon-fri" (one of '
+                f"{', '.join(NAMED_CALENDARS)} or a list of weekdays)")
+        own = _optional(settings, f"{CALENDARS}.{name}.holidays", _calendar_holidays, holidays)
+        calendar = parse_calendar(workdays, own, settings.where(key))
+        calendars.append(Calendar(calendar.workdays, own, name))
+    return tuple(calendars)
+
+
 def _optional(settings: Settings, key: str, parse, default):
     """Parse ``key`` with ``parse(value, where)`` or return ``default`` when it is absent."""
     value = _given(settings, key)
@@ -194,6 +287,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
             bonus_cap_days=_optional(settings, "contract.bonus_cap_days", _days, None),
         ),
         data_date=data_date,
+        calendars=parse_calendars(settings, holidays),
     )
 
 
@@ -207,17 +301,31 @@ def _required_text(settings: Settings) -> str:
     return text_value(_given(settings, "name"), settings.where("name"))
 
 
+def _workdays_value(workdays: tuple[int, ...], name: str | None) -> object:
+    """The named calendar ``name`` if it has these weekdays, else the list of weekday names."""
+    if name is not None and NAMED_CALENDARS.get(name) == workdays:
+        return name
+    return [WEEKDAY_NAMES[d] if 0 <= d < len(WEEKDAY_NAMES) else d for d in workdays]
+
+
+def _calendars_values(calendars: tuple[Calendar, ...]) -> dict[str, object]:
+    """The flat keys of the named calendars; holidays always written, so that an empty list
+    does not read back as the project's holidays."""
+    values: dict[str, object] = {}
+    for calendar in calendars:
+        named = next((n for n, days in NAMED_CALENDARS.items() if days == calendar.workdays), None)
+        values[f"{CALENDARS}.{calendar.name}.workdays"] = _workdays_value(calendar.workdays, named)
+        values[f"{CALENDARS}.{calendar.name}.holidays"] = list(calendar.holidays)
+    return values
+
+
 def settings_values(project: Project) -> dict[str, object]:
     """The canonical flat settings of ``project`` for writing (absent optional values left out)."""
     calendar = project.calendar
-    if NAMED_CALENDARS.get(calendar.name) == calendar.workdays:
-        days: object = calendar.name
-    else:
-        days = [WEEKDAY_NAMES[d] for d in calendar.workdays]
     values: dict[str, object] = {
         "name": project.name,
         "start": project.start,
-        "calendar": days,
+        "calendar": _workdays_value(calendar.workdays, calendar.name),
         "holidays": list(calendar.holidays),
         "currency": project.currency,
         "costs.indirect_per_day": project.costs.indirect_per_day,
@@ -227,4 +335,4 @@ def settings_values(project: Project) -> dict[str, object]:
         "contract.bonus_cap_days": project.contract.bonus_cap_days,
         "status.data_date": project.data_date,
     }
-    return {k: v for k, v in values.items() if v is not None}
+    return {k: v for k, v in values.items() if v is not None} | _calendars_values(project.calendars)

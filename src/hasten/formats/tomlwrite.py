@@ -1,4 +1,4 @@
-"""A small TOML writer for the settings file: text, numbers, dates, lists and one level of sections.
+"""A small TOML writer for the settings file: text, numbers, dates, lists and nested sections.
 
 The standard library reads TOML (``tomllib``) but cannot write it; this covers exactly the
 value types of ``project.toml`` and nothing more.
@@ -50,11 +50,22 @@ def _key(key: str) -> str:
     return key if bare else _string(key)
 
 
+def _tables(path: tuple[str, ...], table: Mapping[str, object]) -> list[str]:
+    """The lines of ``[a.b]`` tables for the dicts in ``table`` (``path`` leads to it), each
+    followed by its own tables; a table holding only tables gets no header of its own."""
+    lines = []
+    for name, inner in table.items():
+        if not isinstance(inner, Mapping):
+            continue
+        here = path + (name,)
+        plain = [f"{_key(k)} = {_value(v)}" for k, v in inner.items() if not isinstance(v, Mapping)]
+        if plain or all(not isinstance(v, Mapping) for v in inner.values()):
+            lines += ["", "[" + ".".join(_key(p) for p in here) + "]", *plain]
+        lines += _tables(here, inner)
+    return lines
+
+
 def toml_text(document: Mapping[str, object]) -> str:
-    """TOML for plain keys followed by ``[section]`` tables (dicts one level deep)."""
+    """TOML for plain keys followed by ``[section]`` tables (``[section.name]`` for dicts in them)."""
     lines = [f"{_key(k)} = {_value(v)}" for k, v in document.items() if not isinstance(v, Mapping)]
-    for section, table in document.items():
-        if isinstance(table, Mapping):
-            lines += ["", f"[{_key(section)}]"]
-            lines += [f"{_key(k)} = {_value(v)}" for k, v in table.items()]
-    return "\n".join(lines) + "\n"
+    return "\n".join(lines + _tables((), document)) + "\n"

@@ -9,9 +9,11 @@ Layout:
   ``holidays`` is ONE cell with the dates separated by commas (``2025-12-25, 2025-12-26``);
   a key may appear only once.
   ``calendar`` is a name (``mon-fri``) or the working weekdays separated by commas.
-  Keys under ``calendars.`` are refused: per-activity calendars are not supported yet.
+  A named calendar takes two rows: ``calendars.NAME.workdays`` (as ``calendar``) and
+  ``calendars.NAME.holidays`` (dates separated by commas; ``none`` for no holidays; the row
+  left out or its cell empty: the project's holidays).
 * ``activities``, ``links``, ``crash_steps`` and ``options`` have the same columns as the
-  CSV files (the progress and date columns of ``activities`` included); ``links``,
+  CSV files (the progress, date and ``calendar`` columns of ``activities`` included); ``links``,
   ``crash_steps`` and ``options`` are optional (written only when they have rows).
 
 Dates are written as ISO text (``2025-03-03``); date cells typed in a spreadsheet are read
@@ -33,6 +35,7 @@ from hasten.formats.cells import Where, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
 from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 
 __all__ = ["SHEETS", "labels", "read", "write"]
@@ -140,6 +143,14 @@ def _fill(sheet, columns: tuple[str, ...], records: list[Mapping[str, object]]) 
     sheet.freeze_panes = "A2"
 
 
+def _setting(key: str, value: object) -> object:
+    """A setting's cell value: a named calendar without holidays says ``none`` (an empty cell
+    would read back as the project's holidays)."""
+    if value == [] and key.startswith(f"{CALENDARS}.") and key.endswith(".holidays"):
+        return "none"
+    return value
+
+
 def write(document: Document, path: Path) -> None:
     """Write the workbook whole (temporary file, then rename)."""
     import openpyxl  # imported on use, see _load
@@ -147,7 +158,7 @@ def write(document: Document, path: Path) -> None:
     book = openpyxl.Workbook()
     book.active.title = SHEETS["settings"]
     _fill(book.active, _SETTINGS_COLUMNS,
-          [{"key": k, "value": v} for k, v in document.settings.items()])
+          [{"key": k, "value": _setting(k, v)} for k, v in document.settings.items()])
     for key, columns in (("activities", document.activity_columns), ("links", LINK_COLUMNS),
                          ("crash_steps", STEP_COLUMNS), ("options", OPTION_COLUMNS)):
         records = getattr(document, key)
