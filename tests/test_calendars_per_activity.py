@@ -22,6 +22,8 @@ from __future__ import annotations
 import itertools
 from datetime import date, timedelta
 
+import numpy as np
+import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
@@ -31,6 +33,7 @@ from hasten.checks import check_plan
 from hasten.crashing import Study
 from hasten.model import Activity, Calendar, Link, LinkType, Project
 from hasten.network import Network, schedule
+from hasten.optimise import _Relation
 
 START = date(2025, 3, 3)  # a Monday
 ONE = timedelta(days=1)
@@ -95,8 +98,8 @@ def reference_forward(project: Project, durations: dict[str, int],
             else:
                 best = max(best, own[j].first_finish(moment) + k.lag - durations[j])
         es[j] = best
-    finish = max((days[""].first_finish(own[a.id].F(es[a.id] + durations[a.id]))
-                  for a in project.activities), default=0)
+    finish = max([0] + [days[""].first_finish(own[a.id].F(es[a.id] + durations[a.id]))
+                        for a in project.activities])  # (never before the start)
     return es, finish
 
 
@@ -213,6 +216,19 @@ def test_early_dates_and_finish_match_the_reference(project):
 @PROPERTY
 @given(calendar_projects(max_n=5))
 def test_least_cost_matches_brute_force(project):
+    least_cost_matches_brute_force(project)
+
+
+@PROPERTY
+@given(calendar_projects(max_n=5))
+def test_least_cost_matches_brute_force_with_narrow_windows(project):
+    # the exact windows of the relations between calendars start at two days and must grow
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setattr(_Relation, "MARGIN", 0)
+        least_cost_matches_brute_force(project)
+
+
+def least_cost_matches_brute_force(project):
     acts = project.activities
     best: dict[int, float] = {}
     for combo in itertools.product(*[range(a.shortest, a.duration + 1) for a in acts]):
@@ -243,3 +259,33 @@ def test_one_calendar_under_another_name_changes_nothing():
     sched = schedule(project)
     assert sched.finish == finish_nx
     assert {a.id: a.es for a in sched.activities} == es_nx
+
+
+@PROPERTY
+@given(st.lists(st.integers(0, 3), min_size=2, max_size=40), st.integers(-3, 3), st.data())
+def test_a_window_is_exact_inside_and_below_the_steps_outside(rises, lag, data):
+    # y >= g(x) + lag for a nondecreasing step function g (random rises); minimise y with x
+    # held at each value: inside the window the bound is g(x) + lag, outside it is never
+    # above g(x) + lag, and a widened window covers the old one and the new value
+    from hasten.solver import INF, LinearModel
+
+    lo = data.draw(st.integers(-5, 20))
+    values = lo // 2 + np.concatenate([[0], np.cumsum(rises)])
+    hi = lo + len(values) - 1
+    lm = LinearModel()
+    x, y = lm.add_columns([lo, -INF], [hi, INF], integer=True)
+    lm.define_objective("y", [y], [1.0])
+    lm.use_objective("y")
+    rel = _Relation(int(x), int(y), lo, values, lag, (0,))
+    for at in data.draw(st.lists(st.integers(lo, hi), min_size=1, max_size=3)):
+        before = rel.window
+        rel.widen(lm, at)
+        wl, wh = rel.window
+        assert wl <= at <= wh and (before is None or (wl <= before[0] and before[1] <= wh))
+        for v in range(lo, hi + 1):
+            lm.set_col_bounds(int(x), v, v)
+            least = lm.solve().objective
+            g = int(values[v - lo]) + lag
+            assert least <= g + 1e-6
+            if wl <= v <= wh:
+                assert abs(least - g) <= 1e-6, (v, rel.window)

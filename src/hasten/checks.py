@@ -172,8 +172,8 @@ class PlanChecker:
         if not self.several:
             return int(f.max())
         project = self.net.clock
-        return max(int(x) if c is project else project.offset_of(c.date_of(int(x) - 1), finish=False) + 1
-                   for x, c in zip(f.tolist(), self.clocks))
+        return max([0] + [int(x) if c is project else project.offset_of(c.date_of(int(x) - 1), finish=False) + 1
+                          for x, c in zip(f.tolist(), self.clocks)])  # (never before the start)
 
     def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None,
                     changed: Sequence[int] | None = None) -> list[float]:

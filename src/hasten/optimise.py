@@ -74,6 +74,99 @@ def _convex(network: Network) -> None:
                     "steps by cost per day, or model them as discrete options")
 
 
+def _minorant(x: np.ndarray, y: np.ndarray) -> list[tuple[int, int, int]]:
+    """The lower convex hull of the points ``(x, y)`` (``x`` increasing, whole numbers) as
+    rows ``a * Y - b * X >= c`` with whole ``a > 0``, ``b``, ``c``: every point has
+    ``Y = y`` on or above each row, and no convex function under the points is higher."""
+    hull: list[tuple[int, int]] = []
+    for p in zip(x.tolist(), y.tolist()):
+        while len(hull) >= 2:
+            (x1, y1), (x2, y2) = hull[-2], hull[-1]
+            if (x2 - x1) * (p[1] - y1) - (y2 - y1) * (p[0] - x1) <= 0:  # hull[-1] not below the chord
+                hull.pop()
+            else:
+                break
+        hull.append(p)
+    if len(hull) == 1:
+        return [(1, 0, hull[0][1])]
+    rows = []
+    for (x1, y1), (x2, y2) in zip(hull, hull[1:]):
+        a, b = x2 - x1, y2 - y1  # (Y - y1) / (X - x1) >= b / a on this piece
+        rows.append((a, b, a * y1 - b * x1))
+    return rows
+
+
+class _Relation:
+    """``y >= g(x) + lag`` for a step function ``g`` given by its ``values`` at
+    ``x = lo .. hi`` (whole days, nondecreasing), written exactly on a window ``wl .. wh``
+    and by valid linear bounds outside it:
+
+    - ``x = lo + d0 + sum_m z_m + dE``, with ``d0`` in ``[0, wl - lo]``, 0/1 columns
+      ``z_m`` (``x >= wl + m``) taken in order after ``d0`` is full, and ``dE`` in
+      ``[0, hi - wh]`` only when every ``z`` is 1;
+    - ``y >= g(wl) - s0 (wl - lo) + s0 d0 + sum_m (g(wl + m) - g(wl + m - 1)) z_m + sE dE + lag``
+      with ``s0`` the steepest slope from a point before the window to ``g(wl)`` and ``sE``
+      the flattest slope from ``g(wh)`` to a point after it, so the bound is ``g`` on the
+      window and below ``g`` elsewhere: a relaxation that is exact wherever ``x`` falls
+      in the window. A window that a solve leaves is replaced by a wider one.
+    """
+
+    MARGIN = 7  # days each side of the solve's value when a window is made or widened
+
+    def __init__(self, x: int, y: int, lo: int, values, lag: int, who: tuple[int, ...]):
+        self.x, self.y, self.lo, self.lag, self.who = x, y, lo, lag, who
+        self.values = np.asarray(values, dtype=np.int64)
+        self.hi = lo + len(self.values) - 1
+        self.window: tuple[int, int] | None = None
+        self.rows: list[int] = []
+
+    def g(self, x: int) -> int:
+        return int(self.values[x - self.lo])
+
+    def holds(self, values: np.ndarray) -> bool:
+        x = int(np.clip(np.rint(values[self.x]), self.lo, self.hi))
+        return values[self.y] + 1e-6 >= self.g(x) + self.lag
+
+    def widen(self, lm: LinearModel, at: int) -> None:
+        wl, wh = max(self.lo, at - self.MARGIN), min(self.hi, at + self.MARGIN)
+        if self.window is not None:
+            wl, wh = min(wl, self.window[0]), max(wh, self.window[1])
+        if wh == wl and wh < self.hi:
+            wh += 1
+        elif wh == wl and wl > self.lo:
+            wl -= 1
+        for row in self.rows:  # the old window's rows no longer bind
+            lm.set_row_bounds(row, -INF, INF)
+        self.window, self.rows = (wl, wh), []
+        lo, hi = self.lo, self.hi
+        g = self.values - self.values[wl - lo]  # g relative to g(wl)
+        if lo == hi:
+            self.rows.append(lm.add_row([self.y], [1.0], float(self.values[0] + self.lag), INF))
+            return
+        rel = np.arange(lo, hi + 1)
+        s0 = float(np.max(-g[: wl - lo] / (wl - rel[: wl - lo]))) if wl > lo else 0.0
+        sE = float(np.min((g[wh - lo + 1:] - g[wh - lo]) / (rel[wh - lo + 1:] - wh))) if wh < hi else 0.0
+        d0 = lm.add_columns([0.0], float(wl - lo))[0]
+        z = lm.add_columns(np.zeros(wh - wl), 1.0, integer=True)
+        dE = lm.add_columns([0.0], float(hi - wh))[0]
+        rise = np.diff(g[wl - lo: wh - lo + 1]).astype(float)
+        cols = np.concatenate([[self.x, d0], z, [dE]])
+        self.rows.append(lm.add_row(cols, np.concatenate([[1.0, -1.0], -np.ones(len(z)), [-1.0]]),
+                                    float(lo), float(lo)))
+        base = float(self.values[wl - lo]) - s0 * (wl - lo) + self.lag
+        cols = np.concatenate([[self.y, d0], z, [dE]])
+        self.rows.append(lm.add_row(cols, np.concatenate([[1.0, -s0], -rise, [-sE]]), base, INF))
+        if len(z):
+            self.rows.append(lm.add_row([d0, z[0]], [1.0, -float(wl - lo)], 0.0, INF))  # d0 full first
+            self.rows.append(lm.add_row([dE, z[-1]], [1.0, -float(hi - wh)], -INF, 0.0))  # dE after all z
+            if len(z) > 1:
+                m = len(z) - 1
+                index = np.empty(2 * m, dtype=np.int64)
+                index[0::2], index[1::2] = z[1:], z[:-1]
+                first = lm.add_rows(np.arange(0, 2 * m, 2), index, np.tile([1.0, -1.0], m), -INF, 0.0)
+                self.rows.extend(np.asarray(first).tolist())
+
+
 class CrashModel:
     """Least-cost acceleration model for one network.
 
@@ -93,6 +186,7 @@ class CrashModel:
         self.end = lm.add_columns(np.asarray(network.finish_release, dtype=float), INF)
         self.finish = int(lm.add_columns([0.0], INF)[0])
         self.horizon_finish: int | None = None  # latest finish modelled (several calendars)
+        self._relations: list[_Relation] = []  # relations between calendars (see _calendar_rows)
         owner, days, per_day = [], [], []
         for i, steps in enumerate(network.steps):
             for step in steps:
@@ -155,6 +249,7 @@ class CrashModel:
         self.horizon = max(net.forward_finish(), 1)
         own_horizon = net.latest_finish(self.horizon)  # in each activity's own calendar
         cols, costs, self.penalised = [], [], []
+        self._deadlines: list = []  # (activity, its clock, the activity, deadline offset)
         for i, act in enumerate(net.project.activities):
             if act.deadline is None or net.fixed[i]:
                 continue  # (a deadline without damages costs nothing but binds strict plans)
@@ -175,6 +270,7 @@ class CrashModel:
             cols.append(b)
             costs.append(steps)
             self.penalised.append(i)
+            self._deadlines.append((i, clock, act, limit))
         self.late = np.concatenate(cols) if cols else np.zeros(0, dtype=np.int64)
         self.late_cost = np.concatenate(costs) if costs else np.zeros(0)
 
@@ -237,39 +333,68 @@ class CrashModel:
         its own: ``y >= g(x) + lag`` where ``g`` converts a position of one calendar to the
         next position of another (:class:`hasten.calendar.Timeline`), a step function.
 
-        ``x`` is written as ``lo + sum_m z_m`` with 0/1 columns ``z_m`` taken in order
-        (``z_m = 1``: ``x >= lo + m``), and ``g(x)`` as ``g(lo) + sum_m (g(lo + m) -
-        g(lo + m - 1)) z_m``; exact for whole-day ``x`` between ``lo`` and ``hi``, the least
-        and greatest values any plan finishing by the horizon can give it
-        (:meth:`_event_bounds`). The whole model then takes whole days by integer columns.
+        Each starts as its convex minorant over the values ``x`` can take (a few rows
+        ``y >= a x + b`` under the steps, :func:`_minorant`): a relaxation. After a solve,
+        the durations are scheduled exactly (:meth:`_holds`); if that schedule meets
+        everything the solve promised, the plan is optimal. Otherwise the relations the
+        solve broke are made exact on a window of days around the solve's value
+        (:class:`_Relation`) and the model is solved again; a window grows when a later
+        solve leaves it. The event and shortening columns are integer (whole days).
         """
         lm, timeline = self.lp, net.timeline
         lm.set_integer(np.concatenate([self.start, self.end, self.cuts]), True)
         lo_s, lo_f, hi_s, hi_f = self._event_bounds(net)
         pred, succ, kind, lag = net.pred, net.succ, net.kind, net.lag
+        rel = []
         for e in cross.tolist():
             i, j, k = pred[e], succ[e], kind[e]
-            from_finish = k in (_FS, _FF)
-            lo, hi = (lo_f[i], hi_f[i]) if from_finish else (lo_s[i], hi_s[i])
-            self._step_row(int(earlier[e]), int(later[e]), lo, hi,
-                           lambda x, a=net.cal[i], b=net.cal[j], k=k: timeline.convert(a, b, x, k), lag[e])
+            lo, hi = (lo_f[i], hi_f[i]) if k in (_FS, _FF) else (lo_s[i], hi_s[i])
+            values = timeline.convert(net.cal[i], net.cal[j], np.arange(lo, max(hi, lo) + 1), k)
+            rel.append(_Relation(int(earlier[e]), int(later[e]), int(lo), values, lag[e], (i, j)))
         for i in np.flatnonzero(~implied & (np.asarray(net.cal) != 0)).tolist():
-            c = net.cal[i]
-            self._step_row(int(self.end[i]), self.finish, lo_f[i], hi_f[i],
-                           lambda x, c=c: timeline.to_project(c, x), 0)
+            values = timeline.to_project(net.cal[i], np.arange(lo_f[i], max(hi_f[i], lo_f[i]) + 1))
+            rel.append(_Relation(int(self.end[i]), self.finish, int(lo_f[i]), values, 0, (i,)))
+        for r in rel:
+            lm.set_col_bounds(r.x, float(r.lo), float(r.hi))
+            for a, b, c in _minorant(np.arange(r.lo, r.hi + 1), r.values):
+                lm.add_row([r.y, r.x], [float(a), float(-b)], float(c + a * r.lag), INF)  # a y - b x >= c + a lag
+        self._relations = rel
 
-    def _step_row(self, x: int, y: int, lo: int, hi: int, g, lag: int) -> None:
-        """Rows for ``y >= g(x) + lag`` with ``x`` a whole number in ``lo..hi``."""
-        lm = self.lp
-        lo, hi = int(lo), int(max(hi, lo))
-        values = np.asarray(g(np.arange(lo, hi + 1)), dtype=float)
-        rise = np.diff(values)
-        z = lm.add_columns(np.zeros(len(rise)), 1.0, integer=True)
-        lm.set_col_bounds(x, float(lo), float(hi))
-        lm.add_row(np.concatenate([[x], z]), np.concatenate([[1.0], -np.ones(len(z))]), float(lo), float(lo))
-        lm.add_row(np.concatenate([[y], z]), np.concatenate([[1.0], -rise]), values[0] + lag, INF)
-        for m in range(len(z) - 1):  # x >= lo + m + 1 only if x >= lo + m
-            lm.add_row([z[m + 1], z[m]], [1.0, -1.0], -INF, 0.0)
+    def _refine(self, values: np.ndarray, late: np.ndarray | None) -> int:
+        """Make exact around the solve's values the relations that ``values`` break, first
+        those among the activities ``late`` marks (negative float when the plan's durations
+        are scheduled exactly against the promised finish); returns how many."""
+        broken = [r for r in self._relations if not r.holds(values)]
+        if late is not None:
+            broken = [r for r in broken if all(late[k] for k in r.who)] or broken
+        for r in broken:
+            r.widen(self.lp, int(np.clip(np.rint(values[r.x]), r.lo, r.hi)))
+        return len(broken)
+
+    def _holds(self, result, objective: Objective, target: int | None, strict: bool):
+        """Whether the durations of ``result``, scheduled exactly at their early dates,
+        finish as early and cost as little in milestone damages as the solve promised;
+        and, when they finish later, which activities have negative float in that
+        schedule against the promised finish (else ``None``)."""
+        sol = self._solution(result.values, result)
+        if sol is None:
+            return False, None
+        d = list(sol.durations)
+        es = self.net.forward(d)
+        finish = self.net.finish_of(es, d)
+        promised = math.ceil(result.values[self.finish] - _INT_TOL)
+        if objective is Objective.COST and target is not None:
+            promised = min(target, self.horizon_finish) if self.horizon_finish is not None else target
+        if finish > promised:
+            late = np.asarray(self.net.backward(d, promised)) < np.asarray(es)
+            return False, late
+        damages = 0.0
+        for i, clock, act, limit in self._deadlines:
+            f = es[i] + d[i]
+            if strict and f > limit:
+                return False, None
+            damages += act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
+        return damages <= sol.penalty + 1e-6 * max(1.0, abs(damages)), None
 
     def _event_bounds(self, net: Network):
         """Least and greatest start and finish of each activity over every plan that
@@ -354,6 +479,18 @@ class CrashModel:
     # -- solving -----------------------------------------------------------------------
     def _run(self, objective: Objective, target: int | None, cap: float | None, *,
              aside: bool = False, strict: bool = False, duals: bool = False):
+        """Solve (see :meth:`_run_once`); with relations between calendars still relaxed,
+        until the plan holds exactly (:meth:`_calendar_rows`)."""
+        while True:
+            result = self._run_once(objective, target, cap, aside=aside, strict=strict, duals=duals)
+            if result is None or not self._relations:
+                return result
+            holds, late = self._holds(result, objective, target, strict)
+            if holds or not self._refine(result.values, late):
+                return result  # (a plan that does not hold always breaks a pending relation)
+
+    def _run_once(self, objective: Objective, target: int | None, cap: float | None, *,
+                  aside: bool = False, strict: bool = False, duals: bool = False):
         """Solve; with ``aside`` on a copy, so the live model keeps its warm start for the
         least-cost questions that are asked over and over."""
         # A MILP gets a fresh solver each time: re-running a MILP in the same HiGHS object
@@ -400,6 +537,8 @@ class CrashModel:
         proven = result is None or result.status == "optimal"
         s = values[self.start]
         starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
+        if self.net.several:  # (relations between calendars may be relaxed in the solve)
+            starts = tuple(self.net.forward(durations))
         return Solution(durations, float(values @ self.lp._objective_vector()), added,
                         tuple(choices.tolist()) if self.discrete else (), penalty, proven,
                         None if proven else result.bound, None if proven else result.gap, starts)
