@@ -289,3 +289,29 @@ def test_a_window_is_exact_inside_and_below_the_steps_outside(rises, lag, data):
             assert least <= g + 1e-6
             if wl <= v <= wh:
                 assert abs(least - g) <= 1e-6, (v, rel.window)
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+def test_a_wide_network_on_mixed_calendars_matches_the_reference(seed):
+    # wide enough for the numpy passes (one level of the network at a time); early dates
+    # and finish against the reference, late dates against the plain loop passes
+    import random
+
+    rng = random.Random(seed)
+    acts, links = [], []
+    for k in range(240):
+        acts.append(Activity(f"t{k}", rng.randint(0, 9), calendar=rng.choice(["", "", "crane", "six-day", "odd"])))
+        if k >= 40:
+            for i in rng.sample(range(k - 40, k - 20), rng.randint(1, 2)):
+                links.append(Link(f"t{i}", f"t{k}", rng.choice(list(LinkType)), rng.randint(-2, 3)))
+    odd = Calendar((1, 3, 5), (START + timedelta(days=9),), "odd")
+    project = Project("wide", START, tuple(acts), tuple(links), calendars=(CRANE, SIX, odd))
+    net = Network(project)
+    assert net._vector and net.several
+    es, finish = reference_forward(project, {a.id: a.duration for a in acts})
+    sched = schedule(net)
+    assert {a.id: a.es for a in sched.activities} == es and sched.finish == finish
+    d = net.durations
+    net._vector = False
+    assert net.backward(d, finish) == [a.ls for a in sched.activities]
+    assert net.forward(d) == [a.es for a in sched.activities]

@@ -196,9 +196,14 @@ class Network:
         self.order: list[int] = np.argsort(level, kind="stable").tolist()
         top = int(level.max()) + 1 if n else 0
         # many nodes per level: numpy passes one level at a time; long chains: plain loops
-        self._vector = n > 0 and top * 20 <= n and not self.several
+        self._vector = n > 0 and top * 20 <= n
         cal = np.asarray(self.cal, dtype=np.int64)
         self._cross = cal[self._p] != cal[self._s]  # links between two calendars
+        # links between calendars grouped by (predecessor's calendar, successor's, kind)
+        ncal = len(self.timeline.clocks)
+        self._group = (cal[self._p] * ncal + cal[self._s]) * 4 + kind
+        self._groups = {int(key): (int(key) // 4 // ncal, int(key) // 4 % ncal, int(key) % 4)
+                        for key in np.unique(self._group[self._cross]).tolist()}
         by_succ = np.argsort(level[self._s], kind="stable")
         self._in_level = np.split(by_succ, np.searchsorted(level[self._s][by_succ], np.arange(1, top)))
         by_pred = np.argsort(level[self._p], kind="stable")
@@ -223,18 +228,40 @@ class Network:
         p, s, lag, ff, tf = self._p, self._s, self._lag, self._from_finish, self._to_finish
         for links in self._in_level[1:]:  # predecessors are on earlier levels: already final
             i, j = p[links], s[links]
-            bound = es[i] + lag[links] + np.where(ff[links], d[i], 0) - np.where(tf[links], d[j], 0)
+            at = es[i] + np.where(ff[links], d[i], 0)
+            if self.several:
+                at = self._across(links, at)
+            bound = at + lag[links] - np.where(tf[links], d[j], 0)
             np.maximum.at(es, j, bound)
         return es
 
+    def _across(self, links: np.ndarray, at: np.ndarray, inverse: bool = False) -> np.ndarray:
+        """Positions ``at`` of the predecessors of ``links`` in their successors' calendars
+        (``inverse``: successors' positions back in the predecessors' calendars), for the
+        links between two calendars; the others are left as they are."""
+        cross = self._cross[links]
+        if not cross.any():
+            return at
+        at = at.copy()
+        group = self._group[links]
+        move = self.timeline.latest if inverse else self.timeline.convert
+        for key in np.unique(group[cross]).tolist():
+            a, b, k = self._groups[key]
+            sel = group == key
+            at[sel] = move(a, b, at[sel], k)
+        return at
+
     def _backward_levels(self, d: np.ndarray, finish: int) -> np.ndarray:
-        ls = finish - d
+        ls = (np.asarray(self.latest_finish(finish), dtype=np.int64) if self.several else finish) - d
         p, s, lag, ff, tf = self._p, self._s, self._lag, self._from_finish, self._to_finish
         for links in reversed(self._out_level):  # successors are on later levels: already final
             if not len(links):
                 continue
             i, j = p[links], s[links]
-            bound = ls[j] + np.where(tf[links], d[j], 0) - lag[links] - np.where(ff[links], d[i], 0)
+            x = ls[j] + np.where(tf[links], d[j], 0) - lag[links]
+            if self.several:
+                x = self._across(links, x, inverse=True)
+            bound = x - np.where(ff[links], d[i], 0)
             np.minimum.at(ls, i, bound)
         return ls
 
@@ -330,9 +357,7 @@ class Network:
         later = es[s] + np.where(self._to_finish, d[s], 0)
         earlier = es[p] + np.where(self._from_finish, d[p], 0)
         if self.several:
-            kind = np.asarray(self.kind, dtype=np.int64)
-            for e in np.flatnonzero(self._cross).tolist():
-                earlier[e] = self._convert(int(p[e]), int(s[e]), int(earlier[e]), int(kind[e]))
+            earlier = self._across(np.arange(len(p)), earlier)
         return later - earlier - self._lag
 
 
