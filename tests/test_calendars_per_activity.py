@@ -315,3 +315,30 @@ def test_a_wide_network_on_mixed_calendars_matches_the_reference(seed):
     net._vector = False
     assert net.backward(d, finish) == [a.ls for a in sched.activities]
     assert net.forward(d) == [a.es for a in sched.activities]
+
+
+def test_progress_counts_in_each_activity_s_own_calendar():
+    # Hand-worked (our own): start Mon 3 Mar 2025, data date Sat 8 Mar (remaining work from
+    # that day on). P (six-day) started Mon 3, 3 days left: Sat 8, Mon 10, Tue 11. Q (Mon-Fri)
+    # after P: Wed 12 - Thu 13. R (Mon-Fri, not started): first Mon-Fri day from Sat 8 = Mon 10.
+    # S (every day, not started): Sat 8. T (six-day) finished Mon 3 - Wed 5, fixed.
+    acts = (Activity("P", 8, calendar="six-day", actual_start=date(2025, 3, 3), remaining=3),
+            Activity("Q", 2),
+            Activity("R", 1),
+            Activity("S", 2, calendar="crane"),
+            Activity("T", 3, calendar="six-day", actual_start=date(2025, 3, 3),
+                     actual_finish=date(2025, 3, 5)))
+    project = Project("progress", START, acts, (Link("P", "Q"), Link("T", "S")), calendars=(CRANE, SIX),
+                      data_date=date(2025, 3, 8))
+    net = Network(project)
+    sched = schedule(net)
+    dates = {}
+    for k, a in enumerate(sched.activities):
+        clock = net.timeline.clock_of(k)
+        dates[a.id] = (clock.date_of(a.es), clock.date_of(a.ef - 1))
+    assert dates["P"] == (date(2025, 3, 3), date(2025, 3, 11))  # its actual start stands
+    assert dates["Q"] == (date(2025, 3, 12), date(2025, 3, 13))
+    assert dates["R"][0] == date(2025, 3, 10)
+    assert dates["S"] == (date(2025, 3, 8), date(2025, 3, 9))
+    assert dates["T"] == (date(2025, 3, 3), date(2025, 3, 5))
+    assert sched.finish == 9  # Mon 3 .. Thu 13 on Mon-Fri

@@ -294,3 +294,47 @@ def test_readme_examples_run(tmp_path: Path, monkeypatch):
     for line in lines:
         out = runner.invoke(app, shlex.split(line)[1:])
         assert out.exit_code == 0, f"{line}\n{out.output}"
+
+
+def _hand_calendar_project(folder: Path) -> Path:
+    """The hand-worked three-calendar example of tests/test_calendars_per_activity.py
+    (our own arithmetic there), written as a project folder."""
+    from test_calendars_per_activity import hand_project
+
+    write_project(hand_project(), folder)
+    return folder
+
+
+def test_schedule_shows_each_activity_in_its_own_calendar(tmp_path: Path):
+    folder = _hand_calendar_project(tmp_path / "hand")
+    out = run("schedule", folder)
+    assert out.exit_code == 0, out.output
+    rows = {line.split()[0]: line.split() for line in out.output.splitlines()
+            if line.split()[:1] and line.split()[0] in {"A", "B", "C", "D", "M"}}
+    # B works to the every-day calendar: Sat 8 - Mon 10 March 2025 (hand-worked)
+    assert rows["B"][1:4] == ["crane", "3", "2025-03-08"] and rows["B"][4] == "2025-03-10"
+    assert rows["D"][1] == "six-day" and rows["A"][1] == "mon-fri"
+    assert "own calendar" in out.output
+    data = json.loads(run("schedule", folder, "--json").output)
+    by = {a["id"]: a for a in data["activities"]}
+    assert (by["B"]["calendar"], by["B"]["early_start"], by["B"]["early_finish"]) == ("crane", "2025-03-08", "2025-03-10")
+    assert data["finish"] == 8 and data["finish_date"] == "2025-03-12"
+
+
+def test_plan_across_calendars_and_the_rest_day_caution(tmp_path: Path):
+    folder = _hand_calendar_project(tmp_path / "hand")
+    data = json.loads(run("plan", folder, "--finish", "7", "--json").output)
+    assert data["finish"] == 7 and data["added_cost"] == 200  # hand-worked: one day off A
+    assert not any("rest day" in c for c in data["cautions"])  # A works Mon-Fri
+    # crash only B (every-day calendar): make A uncrashable and the target reachable by B
+    import dataclasses
+
+    from test_calendars_per_activity import hand_project
+
+    p = hand_project()
+    acts = (dataclasses.replace(p.activities[0], crash_duration=5, crash_cost=1000),) + p.activities[1:]
+    write_project(dataclasses.replace(p, activities=acts), tmp_path / "b")
+    out = run("plan", tmp_path / "b", "--finish", "7")
+    # B on the crane shortened to Sat-Sun: C can start Mon 10 (hand-worked)
+    assert out.exit_code == 0, out.output
+    assert "no weekly rest day" in out.output

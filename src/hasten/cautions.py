@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from typing import Iterable
 
-__all__ = ["plan_cautions", "GENERAL", "CURING", "HEAVY", "STACKING"]
+__all__ = ["plan_cautions", "GENERAL", "CURING", "HEAVY", "STACKING", "NO_REST_DAY"]
 
 GENERAL = (
     "Acceleration usually means overtime, extra shifts or extra crews. Long hours raise "
@@ -33,13 +33,22 @@ STACKING = (
     "stacking) lowers productivity and raises accident risk; plan the work areas and "
     "supervision with the site safety lead.")
 
+NO_REST_DAY = (
+    "Some shortened work runs on a calendar with no weekly rest day. With overtime on top, "
+    "fatigue builds from week to week; the Business Roundtable's study of scheduled overtime "
+    "(1980) advises a periodic shutdown for a Sunday or weekend, and many labour laws require "
+    "a weekly rest period. Check the crew rota against local labour law and collective "
+    "agreements.")
+
 _CONCRETE = re.compile(r"concrete|pour|slab|formwork|form work|curing|cure|footing|deck|shotcrete",
                        re.IGNORECASE)
 
 
-def plan_cautions(shortened: Iterable[tuple[str, str, int, int]]) -> list[str]:
+def plan_cautions(shortened: Iterable[tuple[str, str, int, int]], *,
+                  seven_day: Iterable[str] = ()) -> list[str]:
     """Cautions for a plan, from ``(name, trade, normal, new duration)`` of each
-    shortened activity. Empty when nothing is shortened."""
+    shortened activity; ``seven_day``: names of shortened activities whose calendar
+    works every day of the week. Empty when nothing is shortened."""
     rows = [r for r in shortened if r[3] < r[2]]
     if not rows:
         return []
@@ -50,4 +59,6 @@ def plan_cautions(shortened: Iterable[tuple[str, str, int, int]]) -> list[str]:
         out.append(HEAVY)
     if len({trade for _, trade, _, _ in rows if trade}) >= 3:
         out.append(STACKING)
+    if any(True for _ in seven_day):
+        out.append(NO_REST_DAY)
     return out

@@ -152,8 +152,12 @@ def _finish_line(study: Study, label: str, finish: int) -> str:
     return f"{label}: {finish} working days ({_d(study.clock.project_finish_date(finish))})"
 
 
-def _cautions(plan: Plan) -> list[str]:
-    return plan_cautions((a.name, a.trade, a.normal, a.duration) for a in plan.changed)
+def _cautions(plan: Plan, project: Project) -> list[str]:
+    timeline = Timeline(project)
+    pos = {a.id: k for k, a in enumerate(project.activities)}
+    seven = [a.name or a.id for a in plan.changed if a.duration < a.normal
+             and len(timeline.clock_of(pos[a.id]).calendar.workdays) == 7]
+    return plan_cautions(((a.name, a.trade, a.normal, a.duration) for a in plan.changed), seven_day=seven)
 
 
 def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> str:
@@ -188,7 +192,7 @@ def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> st
         lines.append("One more day: not possible (or not proven in the time allowed).")
     else:
         lines.append(f"One more day earlier would cost {money(plan.next_day_cost, cur)} more.")
-    cautions = _cautions(plan)
+    cautions = _cautions(plan, study.project)
     if cautions:
         lines += ["", "Cautions:"] + [f"- {c}" for c in cautions]
     return "\n".join(lines)
@@ -228,7 +232,7 @@ def plan_json(study: Study, plan: Plan) -> dict:
         "trades": [{"trade": t.trade, "shortened_days": t.shortened_days,
                     "added_cost": _r(t.added_cost)} for t in plan.trades],
         "critical_paths": [list(p) for p in plan.schedule.critical_paths],
-        "cautions": _cautions(plan),
+        "cautions": _cautions(plan, study.project),
     }
 
 
@@ -365,7 +369,7 @@ def recovery_text(study: Study, rec) -> str:
     plans = [c.plan for c in rec.courses if c.plan is not None and c.plan.changed]
     cautions = []
     for p in plans:
-        for text in _cautions(p):
+        for text in _cautions(p, study.project):
             if text not in cautions:
                 cautions.append(text)
     if cautions:
