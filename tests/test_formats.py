@@ -553,12 +553,17 @@ def test_yard_folder_reads_as_written_by_hand():
     assert read_project(YARD) == YARD_PROJECT
 
 
-def test_progress_round_trip_folder_xlsx_json_folder(tmp_path):
-    current = YARD_PROJECT
+def assert_round_trips(project, folder):
+    """folder -> workbook -> JSON -> folder gives back an equal project at every step."""
+    current = project
     for name in ("p.xlsx", "p.json", "again"):
-        write_project(current, tmp_path / name)
-        current = read_project(tmp_path / name)
-        assert current == YARD_PROJECT, name
+        write_project(current, folder / name)
+        current = read_project(folder / name)
+        assert current == project, name
+
+
+def test_progress_round_trip_folder_xlsx_json_folder(tmp_path):
+    assert_round_trips(YARD_PROJECT, tmp_path)
 
 
 def test_progress_written_layouts(tmp_path):
@@ -714,11 +719,7 @@ def test_named_calendars_round_trip_folder_xlsx_json_folder(tmp_path):
     # a third calendar no activity names, with weekdays that match no named calendar
     project = replace(DEPOT_PROJECT, calendars=DEPOT_PROJECT.calendars + (
         Calendar((0, 2, 4), (date(2025, 6, 9),), "odd_days"),))
-    current = project
-    for name in ("p.xlsx", "p.json", "again"):
-        write_project(current, tmp_path / name)
-        current = read_project(tmp_path / name)
-        assert current == project, name
+    assert_round_trips(project, tmp_path)
 
 
 def test_named_calendars_written_layouts(tmp_path):
