@@ -128,9 +128,12 @@ def apply_status(project: Project, clock: CalendarClock, timeline: Timeline | No
     their own) gives each activity's clock and converts links between calendars."""
     data = None if project.data_date is None else clock.offset_of(project.data_date, finish=False)
     if data is None and not any(a.not_before for a in project.activities):
-        # no progress, no dates: everything waits to start at day 0 at its normal pace
-        return Status(None, tuple([ActivityStatus(WAITING, a.duration, 0, None, None)
-                                   for a in project.activities]), frozenset(), ())
+        # no progress, no dates: everything waits to start at day 0 at its normal pace (one
+        # shared, immutable status per duration: large projects have few distinct ones)
+        shared: dict[int, ActivityStatus] = {}
+        return Status(None, tuple([shared.get(a.duration) or shared.setdefault(
+            a.duration, ActivityStatus(WAITING, a.duration, 0, None, None)) for a in project.activities]),
+            frozenset(), ())
     several = timeline is not None and timeline.several
     if several:  # the data date in each activity's own calendar
         clocks = [timeline.clock_of(k) for k in range(len(project.activities))]
