@@ -307,6 +307,9 @@ def _hand_calendar_project(folder: Path) -> Path:
 
 def test_schedule_shows_each_activity_in_its_own_calendar(tmp_path: Path):
     folder = _hand_calendar_project(tmp_path / "hand")
+    checked = run("check", folder)
+    assert checked.exit_code == 0 and "Calendars of their own: crane (1 activity), six-day (1 activity)" \
+        in checked.output
     out = run("schedule", folder)
     assert out.exit_code == 0, out.output
     rows = {line.split()[0]: line.split() for line in out.output.splitlines()

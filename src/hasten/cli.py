@@ -99,6 +99,11 @@ def check(project: ProjectArg) -> None:
         _echo(f"{project}: valid. {len(p.activities)} activities, {len(p.links)} links, "
               f"{sum(1 for a in p.activities if a.max_shortening > 0)} can be shortened; "
               f"normal finish {sched.finish} working days.")
+        used = [(c.name, sum(1 for a in p.activities if a.calendar == c.name)) for c in p.calendars]
+        if used:
+            _echo("Calendars of their own: " + ", ".join(
+                f"{name} ({n} activit{'y' if n == 1 else 'ies'})" for name, n in used)
+                  + f"; the others work to the project calendar ({p.calendar.name}).")
 
 
 @app.command()
