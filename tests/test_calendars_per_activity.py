@@ -229,20 +229,24 @@ def test_least_cost_matches_brute_force_with_narrow_windows(project):
 
 
 def least_cost_matches_brute_force(project):
+    # and ties: among the least-cost plans the fewest shortened activities, then fewest days
     acts = project.activities
-    best: dict[int, float] = {}
+    combos = []
     for combo in itertools.product(*[range(a.shortest, a.duration + 1) for a in acts]):
         durations = dict(zip((a.id for a in acts), combo))
         _, finish = reference_forward(project, durations)
         cost = sum(slope(a) * (a.duration - durations[a.id]) for a in acts)
-        best[finish] = min(best.get(finish, float("inf")), cost)
+        cuts = [a.duration - durations[a.id] for a in acts]
+        combos.append((finish, cost, sum(1 for c in cuts if c), sum(cuts)))
     study = Study(project)
     assert study.normal_finish == reference_forward(project, {a.id: a.duration for a in acts})[1]
-    assert study.shortest_finish == min(best)
+    assert study.shortest_finish == min(f for f, _, _, _ in combos)
     for target in range(study.shortest_finish, study.normal_finish + 1):
-        expected = min(c for f, c in best.items() if f <= target)
+        expected = min(c for f, c, _, _ in combos if f <= target)
+        fewest = min((n, k) for f, c, n, k in combos if f <= target and c <= expected + TOL)
         plan = study.plan(target)
         assert abs(plan.added_cost - expected) <= TOL * max(1.0, expected), target
+        assert (len(plan.changed), sum(c.shortened_by for c in plan.activities)) == fewest, target
         durations = {c.id: c.duration for c in plan.activities}
         assert reference_forward(project, durations)[1] == plan.finish <= target
         starts = [a.es for a in plan.schedule.activities]

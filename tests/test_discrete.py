@@ -185,3 +185,27 @@ def test_time_limit_never_claims_optimality(tmp_path):
         text = CliRunner().invoke(app, ["plan", str(tmp_path / "big"), "--finish", str(normal - 30),
                                         "--time-limit", "0.05"]).output
         assert "NOT PROVEN OPTIMAL" in text or "time limit" in text
+
+
+@PROPERTY
+@given(option_projects())
+def test_ties_go_to_the_fewest_changed_activities_then_days(project):
+    # reference: every combination of ways (brute force); among those finishing by the
+    # target at the least cost, the fewest activities changed (shortened or by an option),
+    # then the fewest working days taken off
+    choices = [_ways(a) for a in project.activities]
+    combos = []
+    for combo in itertools.product(*choices):
+        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+        changed = sum(1 for a, w in zip(project.activities, combo) if w[0] != a.duration or w[2] >= 0)
+        days = sum(a.duration - w[0] for a, w in zip(project.activities, combo))
+        combos.append((own_finish(project, durations), sum(w[1] for w in combo), changed, days))
+    study = Study(project)
+    for target in range(study.shortest_finish, study.normal_finish + 1):
+        least = min(c for f, c, _, _ in combos if f <= target)
+        expected = min((n, k) for f, c, n, k in combos if f <= target and c <= least + 1e-6)
+        plan = study.plan(target, next_day=False)
+        got = (sum(1 for a in plan.activities if a.shortened_by or a.option),
+               sum(a.shortened_by for a in plan.activities))
+        assert plan.added_cost == pytest.approx(least, abs=1e-6)
+        assert got == expected, target

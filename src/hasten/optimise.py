@@ -28,7 +28,7 @@ LP then takes the cheaper step first by itself.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from enum import Enum
 
 import numpy as np
@@ -41,6 +41,8 @@ __all__ = ["CrashModel", "Objective", "Solution"]
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _INT_TOL = 1e-6
+#: Branch-and-bound nodes the tie-break of a MILP may search (see _fewest_changed_mip).
+TIE_BREAK_NODES = 2000
 
 
 class Objective(str, Enum):
@@ -539,7 +541,8 @@ class CrashModel:
         starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
         if self.net.several:  # (relations between calendars may be relaxed in the solve)
             starts = tuple(self.net.forward(durations))
-        return Solution(durations, float(values @ self.lp._objective_vector()), added,
+        objective = float(values[: self.lp.num_cols] @ self.lp._objective_vector())  # (copies add columns)
+        return Solution(durations, objective, added,
                         tuple(choices.tolist()) if self.discrete else (), penalty, proven,
                         None if proven else result.bound, None if proven else result.gap, starts)
 
@@ -580,18 +583,92 @@ class CrashModel:
         """Least added direct cost to finish by ``target``.
 
         With ``tie_break``, among the plans of that least cost the one with the fewest
-        shortened activities, then the fewest crash days (see :meth:`_fewest_crashed`).
+        shortened activities, then the fewest crash days (see :meth:`_fewest_crashed`, and
+        :meth:`_fewest_changed_mip` for a MILP).
         With ``strict`` no activity may pass its own deadline. Returns ``None`` when no
         plan meets the target (and, if strict, every deadline).
         """
         best = self.solve(Objective.COST, target=target, strict=strict, duals=tie_break)
-        if best is None or not tie_break or best.added_cost == 0 or self.lp.is_mip:
+        if best is None or not tie_break:
+            return best
+        if self.lp.is_mip:
+            fewer = self._fewest_changed_mip(best, target, strict)
+            return best if fewer is None else fewer
+        if best.added_cost == 0:
             return best
         fewer = self._fewest_crashed(self._last, target)
         total = best.added_cost + best.penalty
         if fewer is not None and fewer.added_cost + fewer.penalty <= total + 1e-6 * max(1.0, abs(total)):
             return fewer
         return best
+
+    def _changes(self, sol: Solution) -> tuple[int, int]:
+        """(activities changed: shortened or by an option, working days taken off in all)."""
+        normal = self.net.durations
+        changed = sum(1 for k, (d, n) in enumerate(zip(sol.durations, normal))
+                      if d != n or (sol.choices and sol.choices[k] >= 0))
+        return changed, sum(n - d for d, n in zip(sol.durations, normal))
+
+    def _fewest_changed_mip(self, best: Solution, target: int, strict: bool) -> Solution | None:
+        """The tie-break of a MILP (discrete options, several calendars): among plans
+        costing no more than ``best`` (acceleration and milestone damages), the one that
+        changes the fewest activities (shortened, or performed by an option), then takes
+        the fewest working days off. A second MILP on a copy, with the cost held by a row
+        and 0/1 "changed" columns; ``None`` when it finds nothing better or its plan does
+        not hold exactly (relations between calendars are relaxed in the copy)."""
+        if not best.proven or self._changes(best)[0] == 0:
+            return None
+        n = len(self.net)
+        lm = self.lp.copy()
+        cols, coefs = self.lp.objectives[Objective.COST.value]
+        total = best.added_cost + best.penalty
+        lm.add_row(cols, coefs, -INF, total + 1e-6 * max(1.0, abs(total)))
+        owners = np.unique(np.concatenate([self.cut_owner, self.opt_owner]))
+        z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
+        z_of = np.full(n, -1, dtype=np.int64)
+        z_of[owners] = z
+        days = np.asarray(lm.col_upper, dtype=float)[self.cuts]
+        m = len(self.cuts)
+        if m:  # a shortening day only if the activity counts as changed
+            index = np.empty(2 * m, dtype=np.int64)
+            index[0::2], index[1::2] = self.cuts, z_of[self.cut_owner]
+            value = np.empty(2 * m)
+            value[0::2], value[1::2] = 1.0, -days
+            lm.add_rows(np.arange(0, 2 * m, 2), index, value, -INF, 0.0)
+        k = len(self.opt_x)
+        if k:  # an option only if the activity counts as changed
+            index = np.empty(2 * k, dtype=np.int64)
+            index[0::2], index[1::2] = self.opt_x, z_of[self.opt_owner]
+            lm.add_rows(np.arange(0, 2 * k, 2), index, np.tile([1.0, -1.0], k), -INF, 0.0)
+        # days taken off: shortening columns, option duration changes, an option's own days
+        day_cols = np.concatenate([self.cuts, self.opt_x, self.opt_w])
+        day_coef = np.concatenate([np.ones(m), self.opt_delta, np.ones(len(self.opt_w))])
+        weight = float(np.abs(days).sum() + np.abs(self.opt_delta).sum() + self.w_room.sum()) + 1.0
+        lm.define_objective("fewest_changed", np.concatenate([z, day_cols]),
+                            np.concatenate([np.full(len(z), weight), day_coef]))
+        lm.use_objective("fewest_changed")
+        if self.horizon_finish is not None:
+            target = min(target, self.horizon_finish)
+        lm.set_col_bounds(self.finish, 0.0, float(target))
+        lm.set_row_bounds(self.cost_cap, -INF, INF)
+        if len(self.late):
+            lm.set_cols_bounds(self.late, 0.0, 0.0 if strict else 1.0)
+        # Only a proven tie-break is used, so that the same input gives the same plan: the
+        # search is bounded by a number of nodes (the same on every run), and by time only
+        # as a last resort. Stopped early, the plan stays the least-cost one first found.
+        lm.node_limit = TIE_BREAK_NODES
+        if lm.time_limit is None:
+            lm.time_limit = 30.0
+        out = lm.solve()
+        if out.values is None or out.status != "optimal":
+            return None
+        values = out.values[: self.lp.num_cols]
+        sol = self._solution(values, out)
+        if sol is None or self._changes(sol) >= self._changes(best):
+            return None
+        if self._relations and not self._holds(out, Objective.COST, target, strict)[0]:
+            return None
+        return replace(sol, objective=best.objective, proven=True, bound=None, gap=None)
 
     def _fewest_crashed(self, result, target: int) -> Solution | None:
         """Among the least-cost plans, the one shortening the fewest activities, then

@@ -110,6 +110,7 @@ class LinearModel:
     def __init__(self, *, solver: str | None = None, time_limit: float | None = None):
         self.solver = available_solver(solver)
         self.time_limit = time_limit
+        self.node_limit: int | None = None  # a MILP stops after this many branch-and-bound nodes
         self.col_lower: list[float] = []
         self.col_upper: list[float] = []
         self.col_integer: list[bool] = []
@@ -329,6 +330,8 @@ class _HighsBackend:
         self.h.setOptionValue("output_flag", False)
         if model.time_limit is not None:
             self.h.setOptionValue("time_limit", float(model.time_limit))
+        if model.node_limit is not None:  # (a work limit: unlike time, the same on every run)
+            self.h.setOptionValue("mip_max_nodes", int(model.node_limit))
         self.model = model
         self._warm = False
         self._added(model, 0, 0)
