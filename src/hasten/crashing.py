@@ -145,6 +145,7 @@ class Study:
         self._model: CrashModel | None = None
         self._shortest: int | None = None
         self._focus: Focus | None = None
+        self._focusable = applies(self.network)  # plans may be solved on a part (hasten.focus)
         self._reach = 0  # least reach of the focused part (the curve widens it once)
 
     # -- basics ------------------------------------------------------------------------
@@ -186,7 +187,7 @@ class Study:
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
-        if self._model is None and applies(self.network):  # solve on the part that can matter
+        if self._model is None and self._focusable:  # solve on the part that can matter
             if self._focus is None:
                 self._focus = Focus(self.network, time_limit=self.time_limit)
             sol = self._focus.least_cost(target, reach=self._reach, tie_break=tie_break)

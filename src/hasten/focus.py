@@ -100,7 +100,6 @@ class Focus:
             durations = self.normal.copy()
             durations[keep] = sol.durations
             starts = self.net.forward(durations)
-            finish = max((s + d for s, d in zip(starts, durations.tolist())), default=0)
-            if finish <= target:
+            if self.net.finish_of(starts, durations.tolist()) <= target:
                 return replace(sol, durations=tuple(durations.tolist()), starts=tuple(starts))
             reach = 2 * max(reach, self._reach) + 1
