@@ -346,3 +346,34 @@ def test_progress_counts_in_each_activity_s_own_calendar():
     assert dates["S"] == (date(2025, 3, 8), date(2025, 3, 9))
     assert dates["T"] == (date(2025, 3, 3), date(2025, 3, 5))
     assert sched.finish == 9  # Mon 3 .. Thu 13 on Mon-Fri
+
+
+@PROPERTY
+@given(calendar_projects(max_n=4), st.data())
+def test_a_milestone_on_its_own_calendar_prices_its_damages_like_brute_force(project, data):
+    # one activity becomes a milestone with its own deadline and damages per calendar day;
+    # its date is the last day of its own calendar before its position (the day its
+    # predecessors end); reference: every whole-day duration vector, least of acceleration
+    # plus milestone damages at each target
+    acts = list(project.activities)
+    m = data.draw(st.integers(0, len(acts) - 1))
+    deadline = START + timedelta(days=data.draw(st.integers(0, 20)))
+    rate = float(data.draw(st.integers(1, 30)) * 10)
+    acts[m] = Activity(acts[m].id, 0, crash_duration=0, cost=acts[m].cost, calendar=acts[m].calendar,
+                       deadline=deadline, damages_per_day=rate)
+    project = Project(project.name, project.start, tuple(acts), project.links, calendars=project.calendars)
+    days = {"": Days(project.calendar, project.start)} | {c.name: Days(c, project.start) for c in project.calendars}
+    own = days[acts[m].calendar]
+    rows = []
+    for combo in itertools.product(*[range(a.shortest, a.duration + 1) for a in acts]):
+        durations = dict(zip((a.id for a in acts), combo))
+        es, finish = reference_forward(project, durations)
+        f = es[acts[m].id]
+        day = own.S(f - 1) if f > 0 else own.S(0)
+        damages = rate * max(0, (day - deadline).days)
+        rows.append((finish, sum(slope(a) * (a.duration - durations[a.id]) for a in acts) + damages))
+    study = Study(project)
+    for target in range(study.shortest_finish, study.normal_finish + 1):
+        expected = min(c for f, c in rows if f <= target)
+        plan = study.plan(target, next_day=False)
+        assert abs(plan.added_cost + plan.penalty - expected) <= TOL * max(1.0, expected), target

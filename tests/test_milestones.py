@@ -471,3 +471,21 @@ def test_recovery_relations_on_random_projects(project, indirect, shift, damages
     if meets:
         full = courses["recover fully"]
         assert close(full.acceleration_cost, min(r[1] for r in meets))
+
+
+def test_a_deadline_before_the_first_working_day_is_missed_even_at_the_start():
+    # hand-worked of our own: the project starts Tue 2024-01-02 (make_project starts Mon
+    # 2024-01-01, moved a day here); milestone M opens the job (no predecessors) with a
+    # deadline of Mon 2024-01-01 and 100 a calendar day. M is dated Tue 01-02, the first
+    # working day: 1 day late whatever the plan, 100 of damages; and no strict plan exists.
+    project = make_project([
+        Activity("M", 0, deadline=date(2024, 1, 1), damages_per_day=100.0),
+        Activity("A", 3, crash_duration=2, cost=0.0, crash_cost=10.0),
+    ], [Link("M", "A")])
+    project = dataclasses.replace(project, start=date(2024, 1, 2))
+    study = Study(project)
+    for target in (3, 2):
+        plan = study.plan(target)
+        assert close(plan.penalty, 100.0), target
+    with pytest.raises(HastenError):
+        study.plan(3, strict=True)

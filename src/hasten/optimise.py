@@ -259,8 +259,12 @@ class CrashModel:
             limit = clock.offset_of(act.deadline, finish=True)
             if limit >= horizon:
                 continue
+            self._deadlines.append((i, clock, act, limit))
+            # A deadline before the first working day (limit <= 0) is missed even at offset
+            # 0: the steps then start from a virtual offset -1 that costs nothing.
+            limit = limit if limit > 0 else -1
             g = [act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
-                 for f in range(limit, horizon + 1)]
+                 if f >= 0 else 0.0 for f in range(limit, horizon + 1)]
             steps = np.diff(g)
             b = lm.add_columns(np.zeros(len(steps)), 1.0)
             lm.add_row(np.concatenate([[self.end[i]], b]), np.concatenate([[1.0], -np.ones(len(b))]),
@@ -272,7 +276,6 @@ class CrashModel:
             cols.append(b)
             costs.append(steps)
             self.penalised.append(i)
-            self._deadlines.append((i, clock, act, limit))
         self.late = np.concatenate(cols) if cols else np.zeros(0, dtype=np.int64)
         self.late_cost = np.concatenate(costs) if costs else np.zeros(0)
 
