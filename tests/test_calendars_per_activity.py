@@ -377,3 +377,11 @@ def test_a_milestone_on_its_own_calendar_prices_its_damages_like_brute_force(pro
         expected = min(c for f, c in rows if f <= target)
         plan = study.plan(target, next_day=False)
         assert abs(plan.added_cost + plan.penalty - expected) <= TOL * max(1.0, expected), target
+
+
+def test_an_undefined_calendar_is_a_clear_error_for_library_users():
+    from hasten.errors import HastenError
+
+    project = Project("t", START, (Activity("A", 1, calendar="night"),), calendars=(SIX,))
+    with pytest.raises(HastenError, match="'night'.*defined: six-day"):
+        Network(project)

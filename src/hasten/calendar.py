@@ -11,6 +11,7 @@ from datetime import date, timedelta
 
 import numpy as np
 
+from .errors import HastenError
 from .model import Calendar
 
 __all__ = [
@@ -112,7 +113,11 @@ class Timeline:
         for cal in project.calendars:
             index[cal.name] = len(self.clocks)
             self.clocks.append(CalendarClock(cal, project.start))
-        self.of: list[int] = [index[a.calendar] for a in project.activities]
+        try:
+            self.of: list[int] = [index[a.calendar] for a in project.activities]
+        except KeyError as exc:
+            raise HastenError(f"an activity names the calendar {exc.args[0]!r}, which the project "
+                              f"does not define; defined: {', '.join(list(index)[1:]) or 'none'}") from None
         # calendars that fall on exactly the same days are one calendar here
         same = {}
         for k, clock in enumerate(self.clocks):
