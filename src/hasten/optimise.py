@@ -537,8 +537,14 @@ class CrashModel:
         choices = np.full(n, -1, dtype=np.int64)
         chosen = np.flatnonzero(x > 0.5)
         choices[self.opt_owner[chosen]] = self.opt_index[chosen]
+        # the cost of the whole-day plan: solver values within its tolerances, rounded
+        x = np.rint(x)
+        y = np.where(np.abs(y - np.rint(y)) <= _INT_TOL, np.rint(y), y)
+        w = np.where(np.abs(w - np.rint(w)) <= _INT_TOL, np.rint(w), w)
         added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
-        penalty = float(values[self.late] @ self.late_cost) if len(self.late) else 0.0
+        late = values[self.late]
+        late = np.where(np.abs(late - np.rint(late)) <= _INT_TOL, np.rint(late), late)
+        penalty = float(late @ self.late_cost) if len(self.late) else 0.0
         proven = result is None or result.status == "optimal"
         s = values[self.start]
         starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
