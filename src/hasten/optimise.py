@@ -23,6 +23,11 @@ is solved again.
 
 Cost steps must be convex (cost per day not falling from one step to the next); the
 LP then takes the cheaper step first by itself.
+
+Activities on calendars of their own: each counts its events in its own working days, so
+the rows above hold within one calendar; a link between two calendars (and the project
+finish of work on another calendar) is a step function of the predecessor's event and
+makes the model a MILP (:meth:`CrashModel._calendar_rows`, :class:`_Relation`).
 """
 
 from __future__ import annotations
