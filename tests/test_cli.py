@@ -328,6 +328,7 @@ def test_plan_across_calendars_and_the_rest_day_caution(tmp_path: Path):
     folder = _hand_calendar_project(tmp_path / "hand")
     data = json.loads(run("plan", folder, "--finish", "7", "--json").output)
     assert data["finish"] == 7 and data["added_cost"] == 200  # hand-worked: one day off A
+    assert {a["id"]: a["calendar"] for a in data["activities"]}["B"] == "crane"
     assert not any("rest day" in c for c in data["cautions"])  # A works Mon-Fri
     # crash only B (every-day calendar): make A uncrashable and the target reachable by B
     import dataclasses
@@ -341,3 +342,5 @@ def test_plan_across_calendars_and_the_rest_day_caution(tmp_path: Path):
     # B on the crane shortened to Sat-Sun: C can start Mon 10 (hand-worked)
     assert out.exit_code == 0, out.output
     assert "no weekly rest day" in out.output
+    row = next(line.split() for line in out.output.splitlines() if line.startswith("B "))
+    assert row[:5] == ["B", "crane", "3", "2", "1"]  # calendar, normal, new days, shortened by

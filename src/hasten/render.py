@@ -172,9 +172,11 @@ def plan_text(study: Study, plan: Plan, *, title: str = "Least-cost plan") -> st
                   f"Added direct cost: {money(0, cur)}"]
         return "\n".join(lines)
     with_options = any(a.option for a in plan.changed)
-    rows = [[a.id, a.name, a.trade] + ([a.option or "normal"] if with_options else [])
+    own = {a.id: a.calendar for a in study.project.activities} if study.project.calendars else None
+    rows = [[a.id, a.name, a.trade] + ([own[a.id] or study.project.calendar.name] if own else [])
+            + ([a.option or "normal"] if with_options else [])
             + [a.normal, a.duration, a.shortened_by, money(a.added_cost)] for a in plan.changed]
-    headers = (["id", "name", "trade"] + (["way"] if with_options else [])
+    headers = (["id", "name", "trade"] + (["calendar"] if own else []) + (["way"] if with_options else [])
                + ["normal days", "new days", "shortened by", "added cost"])
     lines += [f"Added direct cost: {money(plan.added_cost, cur)} "
               f"(direct cost {money(plan.normal_direct_cost, cur)} -> {money(plan.direct_cost, cur)})",
@@ -209,6 +211,8 @@ def _proof(plan: Plan, cur: str) -> list[str]:
 
 
 def plan_json(study: Study, plan: Plan) -> dict:
+    own = {a.id: a.calendar for a in study.project.activities}  # "" = the project calendar
+    default = study.project.calendar.name
     clock = study.clock
     return {
         "project": study.project.name,
@@ -225,7 +229,8 @@ def plan_json(study: Study, plan: Plan) -> dict:
         "proven_optimal": plan.proven,
         "lower_bound": None if plan.bound is None else _r(plan.bound),
         "gap": plan.gap,
-        "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "normal": a.normal,
+        "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "calendar": own.get(a.id) or default,
+                        "normal": a.normal,
                         "duration": a.duration, "shortened_by": a.shortened_by,
                         "option": a.option or None, "added_cost": _r(a.added_cost)}
                        for a in plan.activities],
