@@ -36,6 +36,7 @@ import re
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
 from datetime import date
+from typing import NamedTuple
 
 from graphlib import CycleError as GraphCycle
 from graphlib import TopologicalSorter
@@ -82,9 +83,9 @@ class _ActivityRow:
     where: Where
 
 
-@dataclass(frozen=True)
-class _LinkSpec:
-    """A link and the cells that gave it (the successor's cell only for the links table)."""
+class _LinkSpec(NamedTuple):
+    """A link and the cells that gave it (the successor's cell only for the links table);
+    a named tuple, as one is made per link."""
 
     link: Link
     where: Where
