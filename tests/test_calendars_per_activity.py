@@ -385,3 +385,18 @@ def test_an_undefined_calendar_is_a_clear_error_for_library_users():
     project = Project("t", START, (Activity("A", 1, calendar="night"),), calendars=(SIX,))
     with pytest.raises(HastenError, match="'night'.*defined: six-day"):
         Network(project)
+
+
+def test_the_longest_path_shows_work_that_drives_the_finish_with_weekend_float():
+    # Hand-worked (our own): A (Mon-Fri, 3 days) Mon 3 - Wed 5 Mar 2025; B (every day, 2
+    # days) Thu 6 - Fri 7; C (Mon-Fri, 2 days) Mon 10 - Tue 11, the finish (7 working days).
+    # B could end on Sunday without delaying C: 2 days of float (its own calendar), and A
+    # then 2 days too; only C is critical. The driving links still run A -> B -> C.
+    project = Project("drive", START, (Activity("A", 3), Activity("B", 2, calendar="crane"), Activity("C", 2)),
+                      (Link("A", "B"), Link("B", "C")), calendars=(CRANE,))
+    sched = schedule(project)
+    by = sched.by_id()
+    assert sched.finish == 7
+    assert (by["A"].total_float, by["B"].total_float, by["C"].total_float) == (2, 2, 0)
+    assert sched.critical_paths == (("C",),)
+    assert sched.longest_paths == (("A", "B", "C"),)

@@ -389,6 +389,10 @@ class Schedule:
     critical_paths: tuple[tuple[str, ...], ...]
     deadline: int | None = None
     paths_truncated: bool = False
+    # with calendars of their own: chains of driving links back from the work that ends at
+    # the project finish (float counts in each activity's own calendar, so a seven-day
+    # activity can drive the finish with a weekend of float and not be critical)
+    longest_paths: tuple[tuple[str, ...], ...] = ()
 
     def by_id(self) -> dict[str, ActivityDates]:
         return {a.id: a for a in self.activities}
@@ -430,6 +434,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
         driving[j].append(i)
     critical = [t == least and a for t, a in zip(tf, live)]
     paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
+    longest = _longest_paths(net, driving, es, d, finish) if net.several else ()
     states = net.status.activities
     rows = []
     for i in range(n):
@@ -443,7 +448,22 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
         rows.append(ActivityDates(net.ids[i], d[i], start, es[i] + d[i], late_start, ls[i] + d[i], tf[i],
                                   free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
                                   states[i].state))
-    return Schedule(finish, tuple(rows), paths, deadline, truncated)
+    return Schedule(finish, tuple(rows), paths, deadline, truncated, longest)
+
+
+def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: list[int], finish: int):
+    """Chains of driving links from a start to the work that ends at the project finish."""
+    cap = net.latest_finish(finish)
+    ends = [i for i in range(len(d)) if not net.fixed[i] and es[i] + d[i] >= cap[i]]
+    on = [False] * len(d)
+    stack = list(ends)
+    while stack:
+        j = stack.pop()
+        if on[j]:
+            continue
+        on[j] = True
+        stack.extend(i for i in driving[j] if not on[i] and not net.fixed[i])
+    return _critical_paths(net, on, driving, es, d, finish)[0]
 
 
 def _critical_paths(net: Network, critical: list[bool], driving: list[list[int]],

@@ -129,6 +129,8 @@ def _paths(sched: Schedule) -> list[str]:
         out.append(f"Critical path {k}: " + " -> ".join(path))
     if sched.paths_truncated:
         out.append(f"(only the first {len(sched.critical_paths)} critical paths are listed)")
+    for k, path in enumerate(sched.longest_paths, 1):
+        out.append(f"Longest path {k} (driving links back from the finish): " + " -> ".join(path))
     return out
 
 
@@ -142,6 +144,7 @@ def schedule_json(project: Project, sched: Schedule, clock: CalendarClock, warni
         "deadline": sched.deadline,
         "critical_paths": [list(p) for p in sched.critical_paths],
         "critical_paths_truncated": sched.paths_truncated,
+        "longest_paths": [list(p) for p in sched.longest_paths],
         "warnings": list(warnings),
         "activities": schedule_rows(project, sched, clock),
     }
