@@ -45,7 +45,7 @@ from .solver import INF, LinearModel
 __all__ = ["CrashModel", "Objective", "Solution"]
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
-_INT_TOL = 1e-6
+_INT_TOL = 1e-5  # whole-day test of solver values (HiGHS's MIP tolerances are 1e-6)
 #: Branch-and-bound nodes the tie-break of a MILP may search (see _fewest_changed_mip).
 TIE_BREAK_NODES = 2000
 
@@ -132,7 +132,7 @@ class _Relation:
 
     def holds(self, values: np.ndarray) -> bool:
         x = int(np.clip(np.rint(values[self.x]), self.lo, self.hi))
-        return values[self.y] + 1e-6 >= self.g(x) + self.lag
+        return values[self.y] + _INT_TOL >= self.g(x) + self.lag
 
     def widen(self, lm: LinearModel, at: int) -> None:
         wl, wh = max(self.lo, at - self.MARGIN), min(self.hi, at + self.MARGIN)
