@@ -231,16 +231,22 @@ def test_best_reports_the_costs_of_its_own_plan():
     assert close(best.plan.penalty, own_damages(project, ef))
 
 
+def late_milestone_project(**kwargs):
+    """A (5 d, crash to 3 at 10 a day) -> M (milestone, deadline Tue 2024-01-02, 100 a
+    calendar day) -> B (2 d): the hand-worked project of the tests below (our own)."""
+    return make_project([
+        Activity("A", 5, crash_duration=3, cost=0.0, crash_cost=20.0),
+        Activity("M", 0, deadline=date(2024, 1, 2), damages_per_day=100.0),
+        Activity("B", 2),
+    ], [Link("A", "M"), Link("M", "B")], **kwargs)
+
+
 def test_strict_plan_raises_when_the_deadline_cannot_be_met():
     # hand-worked of our own: A (5 d, crash to 3) -> M (milestone) -> B (2 d).
     # At the shortest, A = 3: M at offset 3, dated day 2 = Wed 2024-01-03. A deadline of
     # Tue 2024-01-02 cannot be met by any plan (finish 5 is the shortest: 3 + 2), yet a
     # non-strict plan at that finish exists and pays 1 calendar day (01-03 - 01-02) x 100.
-    project = make_project([
-        Activity("A", 5, crash_duration=3, cost=0.0, crash_cost=20.0),
-        Activity("M", 0, deadline=date(2024, 1, 2), damages_per_day=100.0),
-        Activity("B", 2),
-    ], [Link("A", "M"), Link("M", "B")])
+    project = late_milestone_project()
     study = Study(project)
     assert study.shortest_finish == 5
     with pytest.raises(HastenError):
@@ -259,11 +265,7 @@ def test_a_failed_strict_plan_leaves_later_plans_alone():
     #   A = 5: 0 + M Fri 01-05, 3 days late x 100 = 300
     #   A = 4: 10 + M Thu 01-04, 2 days x 100 = 210
     #   A = 3: 20 + M Wed 01-03, 1 day x 100 = 120   <- least, by finish 5 and by finish 7
-    project = make_project([
-        Activity("A", 5, crash_duration=3, cost=0.0, crash_cost=20.0),
-        Activity("M", 0, deadline=date(2024, 1, 2), damages_per_day=100.0),
-        Activity("B", 2),
-    ], [Link("A", "M"), Link("M", "B")])
+    project = late_milestone_project()
     study = Study(project)
     with pytest.raises(HastenError):
         study.plan(5, strict=True)
@@ -281,12 +283,7 @@ def test_recovery_when_full_recovery_is_impossible():
     #   A = 4: cost 10; finish 6 = Mon 01-08, 3 x 50 = 150; M Thu 01-04, 2 x 100 = 200; 360
     #   A = 3: cost 20; finish 5 = Fri 01-05, on time;      M Wed 01-03, 1 x 100 = 100; 120
     # least total cost: A = 3, finish 5, total 120; do nothing 500; net effect 380.
-    project = make_project([
-        Activity("A", 5, crash_duration=3, cost=0.0, crash_cost=20.0),
-        Activity("M", 0, deadline=date(2024, 1, 2), damages_per_day=100.0),
-        Activity("B", 2),
-    ], [Link("A", "M"), Link("M", "B")],
-        contract=Contract(finish=date(2024, 1, 5), damages_per_day=50.0))
+    project = late_milestone_project(contract=Contract(finish=date(2024, 1, 5), damages_per_day=50.0))
     rec = recovery(Study(project))
     courses = {c.label: c for c in rec.courses}
     assert not courses["recover fully"].possible

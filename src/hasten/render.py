@@ -60,11 +60,10 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tupl
     return first, last
 
 
-def _row_dates(project: Project, rs, clock: CalendarClock, field: str, other: str):
+def _row_dates(project: Project, timeline: Timeline, rs, clock: CalendarClock, field: str, other: str):
     """Dates of one (start, finish) pair of every row, each in its activity's own calendar."""
     starts = [getattr(r, field) for r in rs]
     finishes = [getattr(r, other) for r in rs]
-    timeline = Timeline(project)
     if not timeline.several:
         return _dates(clock, starts, finishes)
     pos = {a.id: k for k, a in enumerate(project.activities)}
@@ -83,8 +82,9 @@ def schedule_rows(project: Project, sched: Schedule, clock: CalendarClock) -> li
     offsets and dates in its own calendar)."""
     acts = {a.id: a for a in project.activities}
     rs = sched.activities
-    es, ef = _row_dates(project, rs, clock, "es", "ef")
-    ls, lf = _row_dates(project, rs, clock, "ls", "lf")
+    timeline = Timeline(project)
+    es, ef = _row_dates(project, timeline, rs, clock, "es", "ef")
+    ls, lf = _row_dates(project, timeline, rs, clock, "ls", "lf")
     rows = []
     for k, r in enumerate(rs):
         a = acts[r.id]
