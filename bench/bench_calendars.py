@@ -27,7 +27,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from generate import random_project  # noqa: E402
 from hasten.crashing import Study  # noqa: E402
-from hasten.model import Calendar, Project  # noqa: E402
+from hasten.project import Calendar, Project  # noqa: E402
 from hasten.network import Network, schedule  # noqa: E402
 
 CALENDARS = (Calendar((0, 1, 2, 3, 4, 5, 6), (), "every-day"), Calendar((0, 1, 2, 3, 4, 5), (), "six-day"))

@@ -40,7 +40,7 @@ sys.path.insert(0, str(HERE))
 from generate import project_folder, random_project  # noqa: E402
 from hasten.calendar import CalendarClock  # noqa: E402
 from hasten.formats import read_project  # noqa: E402
-from hasten.model import Project  # noqa: E402
+from hasten.project import Project  # noqa: E402
 from hasten.network import Network, schedule  # noqa: E402
 from hasten import render  # noqa: E402
 

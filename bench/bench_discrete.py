@@ -18,8 +18,8 @@ from pathlib import Path
 
 from hasten.crashing import Study
 from hasten.formats.research import read_research
-from hasten.model import Activity, Link, LinkType, Option, Project
-from hasten.options import drop_dominated
+from hasten.project import Activity, Link, LinkType, Option, Project
+from hasten.dominated import drop_dominated
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -46,7 +46,7 @@ import pulp  # noqa: E402
 
 from generate import project_folder, random_project  # noqa: E402
 from hasten.crashing import Study  # noqa: E402
-from hasten.model import LinkType, Project  # noqa: E402
+from hasten.project import LinkType, Project  # noqa: E402
 from hasten.optimise import Objective  # noqa: E402
 
 SEED = 1
@@ -274,13 +274,13 @@ def naive_pulp_cost(a: Arrays, target: int) -> float:
 
 def plan_breakdown(project: Project, target: int) -> dict[str, float]:
     """Where the time of ``Study(project).plan(target)`` goes, step by step as ``Study.plan``
-    does it on the part of the network that can matter (hasten.focus; uses internal names)."""
-    from hasten.focus import Focus
+    does it on the part of the network that can matter (hasten.partial; uses internal names)."""
+    from hasten.partial import PartialSolver
     from hasten.network import schedule
 
     out: dict[str, float] = {}
     out["Study(): network, normal CPM, checker"], st = timed(Study, project)
-    out["total floats at normal durations"], focus = timed(Focus, st.network)
+    out["total floats at normal durations"], focus = timed(PartialSolver, st.network)
     reach = st.normal_finish - target + 1  # the plan's day and the next
     out["part: sub-network and model build"], (model, keep) = timed(focus._part_for, reach)
     out[f"  (part: {len(keep)} of {len(project.activities)} activities)"] = 0.0
@@ -301,7 +301,7 @@ def plan_breakdown(project: Project, target: int) -> dict[str, float]:
 
 def whole_model_plan(project: Project, target: int):
     """``Study.plan`` on the whole network's model: once the whole model is built the study
-    no longer solves on parts (hasten.focus)."""
+    no longer solves on parts (hasten.partial)."""
     st = Study(project)
     st.model  # noqa: B018 - build it
     return st.plan(target)

@@ -9,7 +9,7 @@ from datetime import date
 from pathlib import Path
 
 from hasten.formats import read_project, write_project
-from hasten.model import Activity, Link, LinkType, Project
+from hasten.project import Activity, Link, LinkType, Project
 
 __all__ = ["random_project", "project_folder"]
 

@@ -4,7 +4,7 @@ strategies for small random projects.
 
 Everything here is written apart from src/hasten (network.py, optimise.py, checks.py): the
 references must not share code with what they check. Only the dataclasses of
-hasten.model are used, to build projects.
+hasten.project are used, to build projects.
 """
 
 from __future__ import annotations
@@ -23,7 +23,7 @@ from hypothesis import HealthCheck, settings
 from hypothesis import strategies as st
 from scipy.optimize import linprog
 
-from hasten.model import Activity, Costs, CrashStep, Link, LinkType, Project
+from hasten.project import Activity, Costs, CrashStep, Link, LinkType, Project
 
 DATA = Path(__file__).parent / "data"
 START = date(2024, 1, 1)  # a Monday; any start date would do for working-day offsets

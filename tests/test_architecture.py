@@ -7,8 +7,8 @@ import ast
 from pathlib import Path
 
 SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
-CORE = ["model", "errors", "calendar", "network", "solver", "optimise", "crashing", "checks", "costs",
-        "cautions", "status", "recovery", "options"]
+CORE = ["project", "errors", "calendar", "network", "solver", "optimise", "crashing", "checks", "time_costs",
+        "cautions", "progress", "recovery", "dominated", "partial"]
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 

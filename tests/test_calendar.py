@@ -24,7 +24,7 @@ from hypothesis import strategies as st
 from conftest import PROPERTY, make_project
 from hasten.calendar import CalendarClock
 from hasten.crashing import Study
-from hasten.model import Activity, Calendar, Link
+from hasten.project import Activity, Calendar, Link
 
 WEEKMASKS = {
     "mon-fri": (0, 1, 2, 3, 4),

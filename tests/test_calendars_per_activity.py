@@ -31,7 +31,7 @@ from conftest import PROPERTY, TOL, make_project, nx_cpm, slope
 from hasten.calendar import Timeline
 from hasten.checks import check_plan
 from hasten.crashing import Study
-from hasten.model import Activity, Calendar, Link, LinkType, Project
+from hasten.project import Activity, Calendar, Link, LinkType, Project
 from hasten.network import Network, schedule
 from hasten.optimise import _Relation
 

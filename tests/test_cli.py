@@ -16,7 +16,7 @@ from typer.testing import CliRunner
 from conftest import load_json, make_project, project_from_example
 from hasten.cli import app
 from hasten.formats import read_project, write_project
-from hasten.model import Activity, Calendar, Contract, Link
+from hasten.project import Activity, Calendar, Contract, Link
 
 runner = CliRunner()
 ROOT = Path(__file__).resolve().parents[1]

@@ -21,10 +21,10 @@ from hypothesis import strategies as st
 from conftest import (PROPERTY, TOL, brute_force_curve, link_holds, linprog_least_cost,
                       linprog_min_finish, own_cut_cost, own_finish, projects, slope)
 from hasten.checks import check_plan
-from hasten.costs import time_costs
+from hasten.time_costs import time_costs
 from hasten.crashing import Study
 from hasten.errors import InfeasibleTargetError
-from hasten.model import Contract, Costs
+from hasten.project import Contract, Costs
 from hasten.network import Network
 from hasten.optimise import CrashModel, Objective
 

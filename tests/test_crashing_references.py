@@ -23,7 +23,7 @@ import pytest
 from conftest import (DATA, START, TOL, linprog_least_cost, linprog_min_finish, load_json,
                       make_project, project_from_example, project_from_stadium)
 from hasten.crashing import Study
-from hasten.model import Activity, Calendar, Contract, Link, LinkType
+from hasten.project import Activity, Calendar, Contract, Link, LinkType
 from hasten.network import schedule
 
 

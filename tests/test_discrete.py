@@ -23,7 +23,7 @@ from hypothesis import strategies as st
 from conftest import PROPERTY, make_project, own_finish
 from hasten.crashing import Study
 from hasten.formats.research import read_research
-from hasten.model import Activity, Link, LinkType, Option
+from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
 from hasten.optimise import CrashModel
 

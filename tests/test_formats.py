@@ -32,7 +32,7 @@ from hasten.formats import (convert, parse_predecessors, parse_tables, read_proj
                             write_project)
 from hasten.formats.cells import WHOLE_LIMIT, Where, number_value, whole_value
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
-from hasten.model import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
+from hasten.project import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
                           Option, Project)
 
 DATA = Path(__file__).parent / "data" / "formats"
@@ -635,11 +635,11 @@ def test_remaining_wins_over_percent_complete():
     # C gives remaining 5 and percent_complete 40; 40 percent of 12 days would leave 8
     # (ceil(12 * 0.6) = 8, hand arithmetic). Both are kept, and progress uses remaining.
     from hasten.calendar import CalendarClock
-    from hasten.status import apply_status
+    from hasten.progress import apply_progress
     project = read_project(YARD)
     c = project.activity("C")
     assert (c.remaining, c.percent_complete) == (5, 40.0)
-    status = apply_status(project, CalendarClock(project.calendar, project.start))
+    status = apply_progress(project, CalendarClock(project.calendar, project.start))
     assert status.activities[2].duration == 5
     # D gives percent_complete 62.5 only: 8 * (100 - 62.5) / 100 = 3 days left (hand arithmetic)
     assert status.activities[3].duration == 3

@@ -29,9 +29,9 @@ import pytest
 from hasten.errors import CycleError, InputError
 from hasten.formats import read_project, write_project
 from hasten.formats.research import read_research
-from hasten.model import Calendar, LinkType, Project
+from hasten.project import Calendar, LinkType, Project
 from hasten.network import schedule
-from hasten.options import drop_dominated
+from hasten.dominated import drop_dominated
 
 DATA = Path(__file__).parent / "data"
 MM = sorted((DATA / "psplib_mm").glob("*.mm"))

@@ -31,10 +31,10 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from conftest import PROPERTY, START, TOL, make_project, own_cut_cost, own_forward
-from hasten.costs import time_costs
+from hasten.time_costs import time_costs
 from hasten.crashing import Study
 from hasten.errors import HastenError
-from hasten.model import Activity, Contract, Costs, CrashStep, Link, LinkType
+from hasten.project import Activity, Contract, Costs, CrashStep, Link, LinkType
 from hasten.recovery import recovery
 
 FS, SS = LinkType.FS, LinkType.SS
@@ -169,7 +169,7 @@ def test_plan_with_milestone_damages_matches_brute_force(project):
 def test_best_matches_brute_force_total(project, indirect, contract_shift, damages, bonus):
     # reference: the least over every duration vector of added + milestone damages + time
     # costs at its finish; time costs by our own reading of costs.py's definition, and
-    # compared with hasten.costs.time_costs at every finish
+    # compared with hasten.time_costs.time_costs at every finish
     contract = Contract()
     if contract_shift is not None:
         normal_date = milestone_date(own_forward(project, {a.id: a.duration for a in project.activities})[0])

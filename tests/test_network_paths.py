@@ -13,7 +13,7 @@ import random
 import pytest
 
 from conftest import make_project, nx_cpm
-from hasten.model import Activity, Link, LinkType
+from hasten.project import Activity, Link, LinkType
 from hasten.network import Network, schedule
 
 

@@ -31,7 +31,7 @@ def test_both_solvers_give_the_published_crash_costs(name: str):
 
 
 def test_cbc_solves_the_milp_too():
-    from hasten.model import Activity, Link, Option
+    from hasten.project import Activity, Link, Option
     from conftest import make_project
 
     # two ways to save 4 days on a 10-day activity: an option (500) or crashing (4 x 150)

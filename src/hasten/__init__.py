@@ -1,12 +1,12 @@
 """hasten: least-cost schedule acceleration for construction projects.
 
-The library core: :mod:`hasten.model` (dataclasses), :mod:`hasten.network` (CPM),
+The library core: :mod:`hasten.project` (dataclasses), :mod:`hasten.network` (CPM),
 :mod:`hasten.optimise` (the LP builder), :mod:`hasten.crashing` (the questions),
 :mod:`hasten.checks` (independent plan checks).
 """
 
 from .errors import HastenError, InputError
-from .model import Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType, Project
+from .project import Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType, Project
 from .network import Schedule, schedule
 
 

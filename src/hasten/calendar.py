@@ -12,7 +12,7 @@ from datetime import date, timedelta
 import numpy as np
 
 from .errors import HastenError
-from .model import Calendar
+from .project import Calendar
 
 __all__ = [
     "CalendarClock",

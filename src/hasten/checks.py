@@ -14,8 +14,8 @@ from typing import Sequence
 import numpy as np
 
 from .errors import PlanCheckError
-from .model import LinkType, Option, Project
-from .status import DONE
+from .project import LinkType, Option, Project
+from .progress import DONE
 
 __all__ = ["option_added_cost", "check_plan", "PlanChecker"]
 
@@ -65,8 +65,8 @@ class PlanChecker:
         self.lo_normal = self.hi - np.array([sum(x.days for x in st) for st in network.steps], dtype=np.int64)
         self.deadlines = [k for k, a in enumerate(project.activities)
                           if a.deadline is not None and a.damages_per_day]
-        self.links, self.pred, self.succ, self.kind, self.lag = _link_arrays(project, network.status.dropped)
-        status = network.status
+        self.links, self.pred, self.succ, self.kind, self.lag = _link_arrays(project, network.progress.dropped)
+        status = network.progress
         # each activity's own calendar (the project calendar unless it names another)
         self.clocks = [network.timeline.clock_of(k) for k in range(len(project.activities))]
         self.several = network.timeline.several

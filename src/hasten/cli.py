@@ -24,7 +24,7 @@ from .errors import HastenError, InputError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
 from .formats.files import write_file
-from .options import drop_dominated
+from .dominated import drop_dominated
 from .network import Network
 from .network import schedule as cpm
 
@@ -120,7 +120,7 @@ def schedule(
         clock = net.clock
         limit = None if deadline is None else clock.offset_of(_date(deadline, "--deadline"), finish=True)
         sched = cpm(net, deadline=limit)
-        warnings = net.status.warnings
+        warnings = net.progress.warnings
         if out is not None:
             _write_table(out, render.schedule_rows(p, sched, clock))
         if as_json:

@@ -13,10 +13,10 @@ from datetime import date
 from typing import Callable
 
 from .checks import PlanChecker
-from .costs import TimeCosts, time_costs
+from .time_costs import TimeCosts, time_costs
 from .errors import HastenError, InfeasibleTargetError
-from .focus import Focus, applies
-from .model import Project
+from .partial import PartialSolver, solvable_on_part
+from .project import Project
 from .network import Network, Schedule, schedule
 from .optimise import CrashModel, Solution
 
@@ -144,8 +144,8 @@ class Study:
         self.time_limit = time_limit
         self._model: CrashModel | None = None
         self._shortest: int | None = None
-        self._focus: Focus | None = None
-        self._focusable = applies(self.network)  # plans may be solved on a part (hasten.focus)
+        self._partial: PartialSolver | None = None
+        self._partial_ok = solvable_on_part(self.network)  # plans may be solved on a part (hasten.partial)
         self._reach = 0  # least reach of the focused part (the curve widens it once)
 
     # -- basics ------------------------------------------------------------------------
@@ -187,10 +187,10 @@ class Study:
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
-        if self._model is None and self._focusable:  # solve on the part that can matter
-            if self._focus is None:
-                self._focus = Focus(self.network, time_limit=self.time_limit)
-            sol = self._focus.least_cost(target, reach=self._reach, tie_break=tie_break)
+        if self._model is None and self._partial_ok:  # solve on the part that can matter
+            if self._partial is None:
+                self._partial = PartialSolver(self.network, time_limit=self.time_limit)
+            sol = self._partial.least_cost(target, reach=self._reach, tie_break=tie_break)
             if sol is not None:
                 return sol
         sol = self.model.least_cost(target, tie_break=tie_break, strict=strict)

@@ -14,16 +14,15 @@ backward pass).
 from __future__ import annotations
 
 from dataclasses import dataclass
-from graphlib import CycleError as _GraphCycle
-from graphlib import TopologicalSorter
 from typing import NamedTuple, Sequence
 
 import numpy as np
 
 from .calendar import Timeline
 from .errors import CycleError
-from .model import LinkType, Project
-from .status import DONE, STARTED, WAITING, apply_status
+from .graph import find_cycle, levels
+from .project import LinkType, Project
+from .progress import DONE, STARTED, WAITING, apply_progress
 
 __all__ = [
     "Network",
@@ -40,30 +39,6 @@ _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _KIND = {LinkType.FS: _FS, LinkType.SS: _SS, LinkType.FF: _FF, LinkType.SF: _SF}
 
 
-def _levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
-    """The level of each activity (the most links on a chain before it), found one level at
-    a time with numpy (Kahn's algorithm); ``None`` when the links form a loop."""
-    indeg = np.bincount(succ, minlength=n)
-    order = np.argsort(pred, kind="stable")
-    out_start = np.searchsorted(pred[order], np.arange(n + 1))
-    level = np.full(n, -1, dtype=np.int64)
-    frontier = np.flatnonzero(indeg == 0)
-    depth, seen = 0, 0
-    while len(frontier):
-        level[frontier] = depth
-        seen += len(frontier)
-        starts, counts = out_start[frontier], out_start[frontier + 1] - out_start[frontier]
-        total = int(counts.sum())
-        if not total:
-            break
-        offsets = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
-        targets = succ[order[np.repeat(starts, counts) + offsets]]
-        indeg -= np.bincount(targets, minlength=n)
-        frontier = np.unique(targets[indeg[targets] == 0])
-        depth += 1
-    return level if seen == n else None
-
-
 class Network:
     """A project compiled to integer-indexed arrays, in topological order.
 
@@ -76,8 +51,8 @@ class Network:
         self.clock = self.timeline.project_clock  # the project calendar's
         self.several = self.timeline.several  # some activities work to calendars of their own
         self.cal: list[int] = self.timeline.of  # calendar of each activity (0: the project's)
-        self.status = apply_status(project, self.clock, self.timeline)
-        acts, states = project.activities, self.status.activities
+        self.progress = apply_progress(project, self.clock, self.timeline)
+        acts, states = project.activities, self.progress.activities
         self.ids: list[str] = [a.id for a in acts]
         self.index: dict[str, int] = {a: i for i, a in enumerate(self.ids)}
         n = len(self.ids)
@@ -95,8 +70,8 @@ class Network:
         every_pred = np.fromiter((idx[k.pred] for k in links), dtype=np.int64, count=len(links))
         every_succ = np.fromiter((idx[k.succ] for k in links), dtype=np.int64, count=len(links))
         levels = self._cycle_check(every_pred, every_succ)
-        if self.status.progressed:
-            kept = [e for e, k in enumerate(links) if e not in self.status.dropped
+        if self.progress.progressed:
+            kept = [e for e, k in enumerate(links) if e not in self.progress.dropped
                     and self._compile_link(k, idx[k.pred], idx[k.succ], states)]
             self.pred: list[int] = every_pred[kept].tolist()
             self.succ: list[int] = every_succ[kept].tolist()
@@ -154,24 +129,18 @@ class Network:
     def _cycle_check(self, pred: np.ndarray, succ: np.ndarray) -> np.ndarray:
         """Refuse a loop in the links (all of them, also those progress has overridden);
         returns the level of each activity."""
-        levels = _levels(len(self.ids), pred, succ)
-        if levels is not None:
-            return levels
-        preds: dict[int, list[int]] = {j: [] for j in range(len(self.ids))}
-        for i, j in zip(pred.tolist(), succ.tolist()):
-            preds[j].append(i)
-        try:  # name the loop
-            TopologicalSorter(preds).prepare()
-        except _GraphCycle as exc:
-            loop = exc.args[1][:-1]  # graphlib repeats the first node at the end
-            raise CycleError([self.ids[i] for i in reversed(loop)]) from None
+        level = levels(len(self.ids), pred, succ)
+        if level is not None:
+            return level
+        loop = find_cycle(len(self.ids), pred, succ)
+        raise CycleError([self.ids[int(pred[e])] for e in loop])
 
     @property
     def steps(self) -> list:
         """Crash steps still available per activity, in order of use (built on first use)."""
         if self._steps is None:
             self._steps = [a.segments() if st.steps is None else st.steps
-                           for a, st in zip(self.project.activities, self.status.activities)]
+                           for a, st in zip(self.project.activities, self.progress.activities)]
         return self._steps
 
     @property
@@ -192,7 +161,7 @@ class Network:
         self._from_finish = (kind == _FS) | (kind == _FF)  # the link leaves the predecessor's finish
         self._to_finish = (kind == _FF) | (kind == _SF)  # it constrains the successor's finish
         if level is None:
-            level = _levels(n, self._p, self._s)
+            level = levels(n, self._p, self._s)
         self.order: list[int] = np.argsort(level, kind="stable").tolist()
         top = int(level.max()) + 1 if n else 0
         # many nodes per level: numpy passes one level at a time; long chains: plain loops
@@ -435,7 +404,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     critical = [t == least and a for t, a in zip(tf, live)]
     paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
     longest = _longest_paths(net, driving, es, d, finish) if net.several else ()
-    states = net.status.activities
+    states = net.progress.activities
     rows = []
     for i in range(n):
         shown = net.shown_start[i]

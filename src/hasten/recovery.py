@@ -117,4 +117,4 @@ def recovery(study: Study, progress=None) -> Recovery:
                            "may recover only part of the delay"))
     days_late = 0 if contract is None else max(0, (base.finish_date - contract).days)
     return Recovery(project.data_date, study.normal_finish, base.finish_date, contract, days_late,
-                    tuple(milestones), tuple(courses), net.status.warnings)
+                    tuple(milestones), tuple(courses), net.progress.warnings)

@@ -12,7 +12,7 @@ from typing import TYPE_CHECKING
 
 from .calendar import CalendarClock, Timeline
 from .cautions import plan_cautions
-from .model import Project
+from .project import Project
 from .network import Schedule
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it

@@ -19,7 +19,7 @@ from hasten.errors import InputError
 from hasten.formats import folder, jsonfile, workbook
 from hasten.formats.document import document_tables, first_difference, to_document
 from hasten.formats.parse import parse_tables
-from hasten.model import Project
+from hasten.project import Project
 
 __all__ = ["read_project", "write_project", "convert"]
 

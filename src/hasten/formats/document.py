@@ -33,7 +33,7 @@ from hasten.formats.parse import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS,
                                   PROGRESS_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
-from hasten.model import Activity, Link, Option, Project
+from hasten.project import Activity, Link, Option, Project
 
 __all__ = ["Document", "to_document", "document_tables", "first_difference"]
 

@@ -1,4 +1,4 @@
-"""The one validation path: tables read from any form -> :class:`~hasten.model.Project`.
+"""The one validation path: tables read from any form -> :class:`~hasten.project.Project`.
 
 :func:`parse_tables` is pure: it takes :class:`~hasten.formats.tables.Tables` (text cells,
 each row with the row number the user sees) and returns a Project or raises
@@ -14,7 +14,7 @@ Progress and date columns of the activities table (all optional):
 * ``remaining`` (whole working days, at most the duration) and ``percent_complete``
   (0 to 100, decimals allowed) describe a started activity, so they need an actual start.
   Both may be given: ``remaining`` wins and ``percent_complete`` is kept for the record
-  (see :mod:`hasten.status`). On a finished activity only ``remaining`` 0 and
+  (see :mod:`hasten.progress`). On a finished activity only ``remaining`` 0 and
   ``percent_complete`` 100 are accepted.
 * ``not_before``: the activity starts on or after this date (a delivery, an access date).
 * ``deadline``: the last day allowed for the activity's finish (an interim milestone);
@@ -46,7 +46,7 @@ from hasten.formats.cells import Where, date_value, number_value, text_value, wh
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
 from hasten.formats.settings import CALENDARS, parse_settings
 from hasten.formats.tables import Row, Table, Tables
-from hasten.model import Activity, CrashStep, Link, LinkType, Option, Project
+from hasten.project import Activity, CrashStep, Link, LinkType, Option, Project
 
 __all__ = [
     "ACTIVITY_COLUMNS",

@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 
 from hasten.formats.cells import Where
-from hasten.model import LinkType
+from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
 

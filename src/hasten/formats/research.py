@@ -30,12 +30,12 @@ What an instance becomes:
 * ``.mm``: a mode's cost is the sum of its nonrenewable resource amounts (N1 + N2 + ...).
   The normal way of a job is its mode with the longest duration (ties: the lowest cost,
   then the lowest mode number); the activity's ``cost`` is that mode's cost. Every other
-  mode becomes an :class:`~hasten.model.Option` named ``mode M`` with its duration and
+  mode becomes an :class:`~hasten.project.Option` named ``mode M`` with its duration and
   ``added_cost = cost of mode M - cost of the normal mode`` (negative when the faster mode
   uses fewer nonrenewable units). Modes equal to the normal one in duration and cost are
   left out, as are other modes of a job whose longest mode lasts 0 periods (a milestone
   has no other way of being done). Dominated modes are kept;
-  :func:`hasten.options.drop_dominated` removes them before optimising.
+  :func:`hasten.dominated.drop_dominated` removes them before optimising.
 * The project is named after the file (``j102_2 (PSPLIB multi-mode)``), starts on
   2027-01-04 and uses the ``all-days`` calendar: the instances count periods, not working
   days, so every day is a period. The currency is empty (costs are resource units).
@@ -55,7 +55,7 @@ from pathlib import Path
 
 from hasten.errors import CycleError, InputError
 from hasten.formats.settings import NAMED_CALENDARS
-from hasten.model import Activity, Calendar, Link, Option, Project
+from hasten.project import Activity, Calendar, Link, Option, Project
 
 __all__ = ["read_research", "RESEARCH_SUFFIXES", "RESEARCH_START"]
 

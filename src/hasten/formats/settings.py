@@ -3,7 +3,7 @@
 Keys are flat and dotted here (``contract.finish``); :func:`flatten` and :func:`nest` convert
 from and to the sectioned TOML/JSON layout. Unknown keys are refused.
 
-``[status] data_date`` is the data date of a progress update (see :mod:`hasten.status`):
+``[status] data_date`` is the data date of a progress update (see :mod:`hasten.progress`):
 the first day of remaining work; actual dates must lie before it. It may not be before the
 project start.
 
@@ -29,7 +29,7 @@ from datetime import date
 
 from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
 from hasten.formats.tables import Settings
-from hasten.model import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
+from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
 
 __all__ = [
     "SETTING_KEYS",

@@ -1,4 +1,4 @@
-"""Tests of hasten.options.drop_dominated (dropping dominated discrete options).
+"""Tests of hasten.dominated.drop_dominated (dropping dominated discrete options).
 
 Checks:
 
@@ -25,8 +25,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from hasten.formats.research import read_research
-from hasten.model import Activity, Link, LinkType, Option, Project
-from hasten.options import dominated_options, drop_dominated
+from hasten.project import Activity, Link, LinkType, Option, Project
+from hasten.dominated import dominated_options, drop_dominated
 
 PSPLIB_MM = Path(__file__).parent / "data" / "psplib_mm"
 START = date(2025, 1, 6)

@@ -17,7 +17,7 @@ its actual dates, the data date and its not-before date become positions of that
 Out-of-sequence progress: a link whose successor's constrained event is already fixed in
 the past (the start of a started or finished successor, the finish of a finished one) is
 kept only if the actual dates satisfy it. Otherwise it is dropped with a warning that names
-it: the actual dates stand (progress override) and the successor's remaining work is not
+it: the actual dates stand and the successor's remaining work is not
 held back by it. Links that constrain a started successor's finish (FF, SF) are kept.
 """
 
@@ -28,16 +28,16 @@ from dataclasses import dataclass
 
 from .calendar import CalendarClock, Timeline
 from .errors import InputError
-from .model import Activity, CrashStep, LinkType, Project
+from .project import Activity, CrashStep, LinkType, Project
 
-__all__ = ["ActivityStatus", "Status", "apply_status", "DONE", "STARTED", "WAITING"]
+__all__ = ["ActivityProgress", "Progress", "apply_progress", "DONE", "STARTED", "WAITING"]
 
 DONE, STARTED, WAITING = "finished", "started", "not started"
 _KIND = {LinkType.FS: 0, LinkType.SS: 1, LinkType.FF: 2, LinkType.SF: 3}
 
 
 @dataclass(frozen=True)
-class ActivityStatus:
+class ActivityProgress:
     """What is left to schedule of one activity.
 
     ``duration`` and ``release`` describe the part still to be scheduled: for a finished
@@ -54,9 +54,9 @@ class ActivityStatus:
 
 
 @dataclass(frozen=True)
-class Status:
+class Progress:
     data_offset: int | None  # working-day offset of the data date (first day of remaining work)
-    activities: tuple[ActivityStatus, ...]
+    activities: tuple[ActivityProgress, ...]
     dropped: frozenset[int]  # indexes of project.links no longer in force
     warnings: tuple[str, ...]
 
@@ -75,14 +75,14 @@ def _truncate(steps: tuple[CrashStep, ...], days: int) -> tuple[CrashStep, ...]:
     return tuple(out)
 
 
-def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> ActivityStatus:
+def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> ActivityProgress:
     release = 0
     if act.not_before is not None:
         release = max(release, clock.offset_of(act.not_before, finish=False))
     if data is None or (act.actual_start is None and act.actual_finish is None):
         if data is not None:
             release = max(release, data)
-        return ActivityStatus(WAITING, act.duration, release, None, None)
+        return ActivityProgress(WAITING, act.duration, release, None, None)
     if act.actual_start is None:
         raise InputError(f"activity {act.id} has an actual finish but no actual start",
                          column="actual_start", value=None, fix="give the date work started")
@@ -93,14 +93,14 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
                          fix="actual dates are history: keep them before the data date, or move the data date")
     if act.duration == 0:  # a milestone is dated on the day its predecessors end
         at = clock.offset_of(act.actual_finish or act.actual_start, finish=True)
-        return ActivityStatus(DONE, 0, at, at, ())
+        return ActivityProgress(DONE, 0, at, at, ())
     start = clock.offset_of(act.actual_start, finish=False)
     if act.actual_finish is not None:
         if act.actual_finish < act.actual_start:
             raise InputError(f"activity {act.id} finishes before it starts", column="actual_finish",
                              value=str(act.actual_finish), fix="check both actual dates")
         finish = max(clock.offset_of(act.actual_finish, finish=True), start)
-        return ActivityStatus(DONE, finish - start, start, start, ())
+        return ActivityProgress(DONE, finish - start, start, start, ())
     elapsed = max(data - start, 0)  # working days since the actual start
     if act.remaining is not None:
         remaining = act.remaining
@@ -117,11 +117,11 @@ def _one(act: Activity, clock: CalendarClock, data: int | None, data_date) -> Ac
                          f"duration ({act.duration})", column="remaining", value=remaining,
                          fix="lower the remaining days or raise the duration")
     allowance = (act.max_shortening * remaining) // act.duration if act.duration else 0
-    return ActivityStatus(STARTED, remaining, max(release, data), start,
+    return ActivityProgress(STARTED, remaining, max(release, data), start,
                           _truncate(act.segments(), allowance))
 
 
-def apply_status(project: Project, clock: CalendarClock, timeline: Timeline | None = None) -> Status:
+def apply_progress(project: Project, clock: CalendarClock, timeline: Timeline | None = None) -> Progress:
     """Progress and date constraints of every activity, and the links still in force.
 
     ``clock`` is the project calendar's; ``timeline`` (when activities have calendars of
@@ -130,9 +130,9 @@ def apply_status(project: Project, clock: CalendarClock, timeline: Timeline | No
     if data is None and not any(a.not_before for a in project.activities):
         # no progress, no dates: everything waits to start at day 0 at its normal pace (one
         # shared, immutable status per duration: large projects have few distinct ones)
-        shared: dict[int, ActivityStatus] = {}
-        return Status(None, tuple([shared.get(a.duration) or shared.setdefault(
-            a.duration, ActivityStatus(WAITING, a.duration, 0, None, None)) for a in project.activities]),
+        shared: dict[int, ActivityProgress] = {}
+        return Progress(None, tuple([shared.get(a.duration) or shared.setdefault(
+            a.duration, ActivityProgress(WAITING, a.duration, 0, None, None)) for a in project.activities]),
             frozenset(), ())
     several = timeline is not None and timeline.several
     if several:  # the data date in each activity's own calendar
@@ -168,5 +168,5 @@ def apply_status(project: Project, clock: CalendarClock, timeline: Timeline | No
                 f"out-of-sequence progress: link {link.pred} -> {link.succ} ({link.type.value}"
                 f"{'' if not link.lag else f'{link.lag:+d}'}) does not hold: {link.succ} has an actual "
                 f"{what} before {link.pred} allowed it. The actual dates stand and the link no longer "
-                f"holds back {link.succ} (progress override)")
-    return Status(data, states, frozenset(dropped), tuple(warnings))
+                f"holds back {link.succ}")
+    return Progress(data, states, frozenset(dropped), tuple(warnings))

@@ -1,4 +1,4 @@
-"""Plans solved on the part of the network that can matter (hasten.focus) against
+"""Plans solved on the part of the network that can matter (hasten.partial) against
 independent references:
 
 - scipy.optimize.linprog (HiGHS) on our own start/duration LP of the WHOLE network
@@ -22,11 +22,11 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-import hasten.focus as focus
+import hasten.partial as focus
 from conftest import PROPERTY, TOL, brute_force_curve, linprog_least_cost, make_project, projects
 from hasten.checks import check_plan
 from hasten.crashing import Study
-from hasten.model import Activity, Link, LinkType, Option
+from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
 from hasten.optimise import CrashModel
 
@@ -58,7 +58,7 @@ def test_focused_least_cost_matches_linprog_on_the_whole_network(project):
 
 def _focused_matches_linprog(project):
     net = Network(project)
-    part = focus.Focus(net)
+    part = focus.PartialSolver(net)
     whole = CrashModel(net)
     lo = whole.shortest_finish()
     for target in range(part.normal_finish - 1, lo - 2, -1):
@@ -91,7 +91,7 @@ def test_focused_curve_matches_brute_force_with_free_days(project, data):
     study._model = None  # ask the curve of the focused parts, not of the whole model
     with any_part():
         points = study.curve(shortest=min(expected))
-    assert study._focus is not None or min(expected) == study.normal_finish
+    assert study._partial is not None or min(expected) == study.normal_finish
     assert {p.finish: round(p.added_cost, 6) for p in points} == \
         {f: round(c, 6) for f, c in expected.items() if f <= study.normal_finish}
 
@@ -117,7 +117,7 @@ def test_a_plan_on_a_larger_network_is_solved_on_a_part_and_matches_linprog(seed
     study = Study(project)
     target = study.normal_finish - 8
     plan = study.plan(target)
-    part_model, keep = study._focus._part  # solved on a part of the network
+    part_model, keep = study._partial._part  # solved on a part of the network
     assert len(keep) < len(project.activities)
     assert study._model is None  # the whole model was never needed
     assert close(plan.added_cost, linprog_least_cost(project, target))  # reference: scipy
@@ -135,12 +135,12 @@ def test_a_plan_on_a_larger_network_is_solved_on_a_part_and_matches_linprog(seed
 def test_focus_is_not_used_with_discrete_options_or_deadlines():
     base = _layered(20, 4)
     net = Network(base)
-    assert focus.applies(net)
+    assert focus.solvable_on_part(net)
     first = base.activities[0]
     with_deadline = dataclasses.replace(base, activities=(
         dataclasses.replace(first, deadline=base.start),) + base.activities[1:])
-    assert not focus.applies(Network(with_deadline))
+    assert not focus.solvable_on_part(Network(with_deadline))
     with_option = dataclasses.replace(base, activities=(
         dataclasses.replace(first, options=(Option("second crew", max(first.duration - 1, 0), 500.0),)),)
         + base.activities[1:])
-    assert not focus.applies(Network(with_option))
+    assert not focus.solvable_on_part(Network(with_option))

@@ -1,6 +1,6 @@
 """Dropping dominated discrete options before optimising.
 
-An activity's discrete options (:class:`~hasten.model.Option`) are alternatives to its
+An activity's discrete options (:class:`~hasten.project.Option`) are alternatives to its
 normal way of being done, which takes ``activity.duration`` days at added cost 0. A plain
 option ``o`` (one that cannot be shortened further, ``crash_duration`` None) is *dominated*
 by another plain way ``p`` of the same activity — another option or the normal way — when
@@ -27,7 +27,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from .model import Activity, LinkType, Option, Project
+from .project import Activity, LinkType, Option, Project
 
 __all__ = ["drop_dominated", "dominated_options"]
 

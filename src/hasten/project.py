@@ -103,7 +103,7 @@ class Activity:
     crash_cost: float | None = None
     steps: tuple[CrashStep, ...] = ()
     options: tuple[Option, ...] = ()  # at most one is chosen, or none (normal)
-    # progress at the data date (see hasten.status)
+    # progress at the data date (see hasten.progress)
     actual_start: date | None = None
     actual_finish: date | None = None  # the last day worked
     remaining: int | None = None  # working days left; derived from percent_complete if absent

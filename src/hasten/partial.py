@@ -2,7 +2,7 @@
 
 To finish ``r`` working days before the normal finish, the least-cost plan rarely
 touches an activity whose total float (at normal durations) exceeds ``r``: every path
-through it has room to spare. :class:`Focus` builds the same crashing model
+through it has room to spare. :class:`PartialSolver` builds the same crashing model
 (:class:`~hasten.optimise.CrashModel`) for the activities with total float up to a
 reach, plus everything already finished, and the links among them.
 
@@ -21,7 +21,7 @@ fewest days) is also the whole network's: a plan of the whole network that short
 activity outside the part at a cost would cost more than the part's least cost.
 Activities with a free shortening day are the exception; they are never shortened by
 the tie-break either. Used only for the linear model without discrete options, interim
-deadlines or damages (:func:`applies`).
+deadlines or damages (:func:`solvable_on_part`).
 """
 
 from __future__ import annotations
@@ -33,12 +33,12 @@ import numpy as np
 from .network import Network
 from .optimise import CrashModel, Solution
 
-__all__ = ["Focus", "applies"]
+__all__ = ["PartialSolver", "solvable_on_part"]
 
 WHOLE_SHARE = 0.6  # a part this large (share of activities) is solved as the whole network
 
 
-def applies(network: Network) -> bool:
+def solvable_on_part(network: Network) -> bool:
     """True when plans of ``network`` may be solved on a part of it: linear costs only
     (no discrete options), one calendar, and no activity with a deadline of its own."""
     project = network.project
@@ -46,7 +46,7 @@ def applies(network: Network) -> bool:
             and not any(a.deadline is not None for a in project.activities))
 
 
-class Focus:
+class PartialSolver:
     """Solves least-cost plans of ``network`` on its smallest part that can matter."""
 
     def __init__(self, network: Network, *, time_limit: float | None = None):

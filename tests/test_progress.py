@@ -1,13 +1,13 @@
-"""Progress at the data date (hasten.status applied through hasten.network.schedule).
+"""Progress at the data date (hasten.progress applied through hasten.network.schedule).
 
 Sources of the checks:
 
 - a hand-worked status example of our own (labelled so, arithmetic in comments);
 - the same network rebuilt by hand for the remaining work (finished work removed, started
   work cut to its remaining days), scheduled by a forward pass written in this file
-  (independent of network.py and status.py) on random networks (hypothesis);
-- the rules written in the docstring of src/hasten/status.py (the spec): out-of-sequence
-  progress override, the remaining share of the crash allowance (rounded down), the
+  (independent of network.py and progress.py) on random networks (hypothesis);
+- the rules written in the docstring of src/hasten/progress.py (the spec): out-of-sequence
+  links broken by progress, the remaining share of the crash allowance (rounded down), the
   percent-complete rounding (rounded up), and the bad-data errors.
 """
 
@@ -25,7 +25,7 @@ from conftest import PROPERTY, START, TOL, make_project
 from hasten.calendar import CalendarClock
 from hasten.crashing import Study
 from hasten.errors import InfeasibleTargetError, InputError
-from hasten.model import Activity, CrashStep, Link, LinkType
+from hasten.project import Activity, CrashStep, Link, LinkType
 from hasten.network import Network, schedule
 
 FS, SS, FF = LinkType.FS, LinkType.SS, LinkType.FF
@@ -115,8 +115,8 @@ def test_hand_worked_status_example():
               "E": "not started", "F": "not started", "G": "not started", "H": "not started"}
     project = hand_worked_project()
     net = Network(project)
-    assert net.status.data_offset == 12  # hand-worked: Wed 01-17 = day 12
-    assert net.status.warnings == ()  # all progress is in sequence
+    assert net.progress.data_offset == 12  # hand-worked: Wed 01-17 = day 12
+    assert net.progress.warnings == ()  # all progress is in sequence
     sched = schedule(net)
     clock = CalendarClock(project.calendar, project.start)
     rows = sched.by_id()
@@ -134,7 +134,7 @@ def test_hand_worked_status_example():
 
 
 @pytest.mark.parametrize("duration, percent, remaining", [
-    # hand-worked (the status.py rule: remaining = duration * (100 - percent) / 100, rounded up)
+    # hand-worked (the progress.py rule: remaining = duration * (100 - percent) / 100, rounded up)
     (8, 30, 6),     # 8 * 0.70 = 5.6 -> 6
     (8, 25, 6),     # 8 * 0.75 = 6.0 exactly -> 6 (no rounding up past a whole number)
     (10, 33, 7),    # 10 * 0.67 = 6.7 -> 7
@@ -145,7 +145,7 @@ def test_hand_worked_status_example():
 ])
 def test_percent_complete_rounds_remaining_days_up(duration, percent, remaining):
     # source: hand-worked of our own (arithmetic in each row's comment); rule from the
-    # status.py docstring ("percent_complete of the duration, rounded up")
+    # progress.py docstring ("percent_complete of the duration, rounded up")
     project = make_project([Activity("X", duration, actual_start=date(2024, 1, 2),
                                      percent_complete=percent)], [], data_date=date(2024, 1, 10))
     net = Network(project)
@@ -235,7 +235,7 @@ def progressed(draw):
 
 def rebuilt_forward(facts) -> tuple[int, dict[int, int]]:
     """Early finishes of the network rebuilt by hand for the remaining work, by a plain
-    forward pass written here (independent of network.py and status.py):
+    forward pass written here (independent of network.py and progress.py):
 
     - finished activities are removed; a link from one becomes an earliest start (FS: actual
       finish + lag, SS: actual start + lag) or an earliest finish (FF: actual finish + lag)
@@ -292,7 +292,7 @@ def test_remaining_work_matches_the_network_rebuilt_by_hand(case):
     # forward pass (rebuilt_forward above); dates by numpy.busday_offset called here
     project, facts = case
     net = Network(project)
-    assert net.status.warnings == ()  # the generated history is in sequence
+    assert net.progress.warnings == ()  # the generated history is in sequence
     sched = schedule(net)
     finish, ef = rebuilt_forward(facts)
     rows = sched.by_id()
@@ -316,7 +316,7 @@ def test_remaining_work_matches_the_network_rebuilt_by_hand(case):
 # ---------------------------------------------------------------------------------------
 
 def test_out_of_sequence_progress_warns_and_keeps_the_actual_start():
-    # source: status.py docstring (progress override); numbers hand-worked of our own:
+    # source: progress.py docstring; numbers hand-worked of our own:
     # mon-fri from Mon 2024-01-01; data date Wed 01-10 = day 7.
     # P (6 d) started Mon 01-01 = day 0, 2 days remaining: resumes day 7, ef = 7 + 2 = 9.
     # S (4 d) has P -> S FS but started Thu 01-04 = day 3 while P is not finished: out of
@@ -330,8 +330,8 @@ def test_out_of_sequence_progress_warns_and_keeps_the_actual_start():
         Activity("T", 2),
     ], [Link("P", "S"), Link("S", "T")], data_date=date(2024, 1, 10))
     net = Network(project)
-    assert len(net.status.warnings) == 1
-    text = net.status.warnings[0]
+    assert len(net.progress.warnings) == 1
+    text = net.progress.warnings[0]
     assert "P" in text and "S" in text and "FS" in text
     assert "P -> S" in text  # the link named with both ids in order
     sched = schedule(net)  # still computes
@@ -342,15 +342,15 @@ def test_out_of_sequence_progress_warns_and_keeps_the_actual_start():
 
 
 def test_out_of_sequence_ss_link_is_named_with_its_type_and_lag():
-    # source: status.py docstring; hand-worked of our own: Q (5 d) not started,
+    # source: progress.py docstring; hand-worked of our own: Q (5 d) not started,
     # R has Q -> R SS+1 but started Tue 01-02 = day 1; data date Mon 01-08 = day 5.
     project = make_project([
         Activity("Q", 5),
         Activity("R", 3, actual_start=date(2024, 1, 2), remaining=2),
     ], [Link("Q", "R", SS, 1)], data_date=date(2024, 1, 8))
     net = Network(project)
-    assert len(net.status.warnings) == 1
-    text = net.status.warnings[0]
+    assert len(net.progress.warnings) == 1
+    text = net.progress.warnings[0]
     assert "Q -> R" in text and "SS" in text and "+1" in text
     rows = schedule(net).by_id()
     # R keeps its actual start (day 1) and resumes at the data date: ef = 5 + 2 = 7;
@@ -370,7 +370,7 @@ def test_out_of_sequence_ss_link_is_named_with_its_type_and_lag():
     (7, 3, 2),   # floor(3 * 2 / 7) = floor(0.857) = 0: cannot be shortened at all
 ])
 def test_started_activity_can_be_shortened_by_its_remaining_share(duration, crash_days, remaining):
-    # source: status.py docstring ("shortened by the unused part of its crash allowance in
+    # source: progress.py docstring ("shortened by the unused part of its crash allowance in
     # proportion to the remaining work (rounded down)"); numbers hand-worked of our own:
     # P started Mon 01-01 (day 0), data date Thu 01-04 = day 3; P resumes at day 3 and ends
     # at 3 + R. Q (6 d, FS after P) can lose 4 days at 500 a day; P costs 200 a day.
@@ -403,7 +403,7 @@ def test_started_activity_can_be_shortened_by_its_remaining_share(duration, cras
 
 
 def test_started_activity_takes_its_crash_steps_in_order():
-    # source: status.py docstring ("taking its crash steps in order"); hand-worked of our own:
+    # source: progress.py docstring ("taking its crash steps in order"); hand-worked of our own:
     # P (8 d) has steps 2 days at 100 then 3 days at 300 (allowance 5); started Mon 01-01,
     # data date Thu 01-04 = day 3, remaining 6: floor(5 * 6 / 8) = floor(3.75) = 3 days,
     # i.e. 2 at 100 and 1 at 300. P alone: normal finish 3 + 6 = 9, shortest 9 - 3 = 6.
@@ -441,7 +441,7 @@ DATA_DATE = date(2024, 1, 17)  # a Wednesday
     (Activity("X", 5, actual_start=date(2024, 1, 10), remaining=6), "remaining"),
 ])
 def test_bad_progress_data_raises_input_error(activity, column):
-    # source: status.py docstring and RULES.md ("Bad input: raise hasten.errors.InputError
+    # source: progress.py docstring and RULES.md ("Bad input: raise hasten.errors.InputError
     # naming ... column, value and fix")
     project = make_project([activity, Activity("Y", 2)], [Link("X", "Y")], data_date=DATA_DATE)
     with pytest.raises(InputError) as err:

@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .calendar import CalendarClock
-from .model import Project
+from .project import Project
 
 __all__ = ["TimeCosts", "time_costs"]
 
