@@ -20,7 +20,6 @@ run, and note the load (printed at the start).
 from __future__ import annotations
 
 import argparse
-import contextlib
 import cProfile
 import io
 import json
@@ -45,6 +44,7 @@ import highspy  # noqa: E402
 import pulp  # noqa: E402
 
 from generate import project_folder, random_project  # noqa: E402
+from hasten.solver_highs import quiet_stdout  # noqa: E402  (the banner silencer hasten uses)
 from hasten.crashing import Study  # noqa: E402
 from hasten.project import LinkType, Project  # noqa: E402
 from hasten.optimise import Objective  # noqa: E402
@@ -73,20 +73,6 @@ def timed(fn, *args, **kwargs):
     t = time.perf_counter()
     out = fn(*args, **kwargs)
     return time.perf_counter() - t, out
-
-
-@contextlib.contextmanager
-def quiet_stdout():
-    """Silence file descriptor 1 for a moment."""
-    sys.stdout.flush()
-    saved = os.dup(1)
-    try:
-        with open(os.devnull, "wb") as null:
-            os.dup2(null.fileno(), 1)
-            yield
-    finally:
-        os.dup2(saved, 1)
-        os.close(saved)
 
 
 def median(xs) -> float:

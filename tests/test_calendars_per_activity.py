@@ -271,7 +271,7 @@ def test_a_window_is_exact_inside_and_below_the_steps_outside(rises, lag, data):
     # y >= g(x) + lag for a nondecreasing step function g (random rises); minimise y with x
     # held at each value: inside the window the bound is g(x) + lag, outside it is never
     # above g(x) + lag, and a widened window covers the old one and the new value
-    from hasten.solver import INF, LinearModel
+    from hasten.solver_model import INF, LinearModel
 
     lo = data.draw(st.integers(-5, 20))
     values = lo // 2 + np.concatenate([[0], np.cumsum(rises)])

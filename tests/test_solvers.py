@@ -11,7 +11,9 @@ from __future__ import annotations
 
 import pytest
 
-import hasten.solver as solver
+import hasten.solver_cbc as solver_cbc
+import hasten.solver_highs as solver_highs
+import hasten.solver_model as solver
 from conftest import load_json, project_from_example
 from hasten.errors import SolverError
 from hasten.network import Network
@@ -44,9 +46,9 @@ def test_cbc_solves_the_milp_too():
 
 
 def test_no_solver_is_a_clear_error(monkeypatch):
-    monkeypatch.setattr(solver, "_HAVE_HIGHS", False)
-    monkeypatch.setattr(solver.pulp.PULP_CBC_CMD, "available", lambda self: False)
-    monkeypatch.setattr(solver.pulp.COIN_CMD, "available", lambda self: False)
+    monkeypatch.setattr(solver_highs, "AVAILABLE", False)
+    monkeypatch.setattr(solver_cbc.pulp.PULP_CBC_CMD, "available", lambda self: False)
+    monkeypatch.setattr(solver_cbc.pulp.COIN_CMD, "available", lambda self: False)
     with pytest.raises(SolverError, match="install highspy"):
         solver.available_solver()
     with pytest.raises(SolverError, match="unknown solver"):
@@ -54,5 +56,5 @@ def test_no_solver_is_a_clear_error(monkeypatch):
 
 
 def test_falls_back_to_cbc_without_highspy(monkeypatch):
-    monkeypatch.setattr(solver, "_HAVE_HIGHS", False)
+    monkeypatch.setattr(solver_highs, "AVAILABLE", False)
     assert solver.available_solver() == "cbc"

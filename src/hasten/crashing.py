@@ -258,7 +258,7 @@ class Study:
 
         Linear costs: traced downwards, each day re-solved warm from the last basis.
         With discrete options (not convex): each day solved exactly as a MILP from scratch
-        (see :mod:`hasten.solver` on why the previous plan is not passed as a start).
+        (see :mod:`hasten.solver_model` on why the previous plan is not passed as a start).
         """
         hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
         lo = self.shortest_finish if shortest is None else shortest

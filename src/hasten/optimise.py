@@ -1,6 +1,6 @@
 """The least-cost acceleration model, built once per network and re-solved.
 
-:class:`CrashModel` writes the time-cost trade-off into a :class:`~hasten.solver.LinearModel`
+:class:`CrashModel` writes the time-cost trade-off into a :class:`~hasten.solver_model.LinearModel`
 and answers: the shortest possible finish, the least added cost for a target finish
 (ties to fewer crash days), and the earliest finish within a budget. The curve, budget
 mode and the plan all re-solve the same model with another bound or objective; later
@@ -40,7 +40,7 @@ import numpy as np
 
 from .errors import HastenError, SolverError
 from .network import Network
-from .solver import INF, LinearModel
+from .solver_model import INF, LinearModel
 
 __all__ = ["CrashModel", "Objective", "Solution"]
 

@@ -1,11 +1,11 @@
-"""A linear / mixed-integer model kept as arrays, and the solvers that run it.
+"""A linear / mixed-integer model kept as arrays, solved by one of two back-ends.
 
-This is the only module that imports PuLP or highspy. :class:`LinearModel` is the one
-model builder the optimiser uses: columns with bounds and integrality, rows with
-bounds, named objectives. It is solved with HiGHS (the model is passed to highspy in
-bulk and kept alive, so a change of a bound, a row or the objective is re-solved warm
-from the previous basis) or, where highspy is missing, with CBC through PuLP (the same
-arrays become a PuLP problem).
+:class:`LinearModel` is the one model builder the optimiser uses: columns with bounds and
+integrality, rows with bounds, named objectives. It is solved with HiGHS
+(:mod:`hasten.solver_highs`: the model is passed to highspy in bulk and kept alive, so a
+change of a bound, a row or the objective is re-solved warm from the previous basis) or,
+where highspy is missing, with CBC through PuLP (:mod:`hasten.solver_cbc`: the same arrays
+become a PuLP problem). Those two modules are the only ones that import a solver library.
 
 Why arrays and not PuLP expressions for the main path: on a 10,000-activity network,
 building the PuLP objects alone took longer than HiGHS needs to solve the whole LP
@@ -15,27 +15,14 @@ The PuLP path stays, tested against HiGHS on the same models.
 
 from __future__ import annotations
 
-import contextlib
-import os
-import sys
-import warnings
 from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
-import pulp
 
 from .errors import SolverError
 
 __all__ = ["LinearModel", "Result", "available_solver", "INF"]
-
-try:
-    import highspy
-
-    _HAVE_HIGHS = True
-except ImportError:  # pragma: no cover - depends on the machine
-    highspy = None
-    _HAVE_HIGHS = False
 
 INF = float("inf")
 
@@ -59,45 +46,19 @@ class Result:
     row_values: np.ndarray | None = None
 
 
-def _cbc(time_limit: float | None = None):
-    """A CBC solver through PuLP: an installed CBC (COIN_CMD) or the one bundled with PuLP
-    3.x (PULP_CBC_CMD, deprecated there for PuLP 4, still the only one on many machines)."""
-    coin = pulp.COIN_CMD(msg=False, timeLimit=time_limit)
-    if coin.available():
-        return coin
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", DeprecationWarning)
-        return pulp.PULP_CBC_CMD(msg=False, timeLimit=time_limit)
-
-
 def available_solver(prefer: str | None = None) -> str:
     """``"highs"`` when highspy imports, else ``"cbc"`` when PuLP's CBC runs, else an error."""
     if prefer not in (None, "highs", "cbc"):
         raise SolverError(f"unknown solver {prefer!r}; use highs or cbc")
-    if prefer != "cbc" and _HAVE_HIGHS:
+    from . import solver_cbc, solver_highs  # the solver libraries load on first use
+
+    if prefer != "cbc" and solver_highs.AVAILABLE:
         return "highs"
-    if _cbc().available():
+    if solver_cbc.available():
         return "cbc"
     raise SolverError("no solver can run here: install highspy (pip install highspy), "
                       "or make PuLP's bundled CBC runnable")
 
-
-@contextlib.contextmanager
-def _quiet_stdout():
-    """Silence file descriptor 1 briefly: HiGHS prints a banner when a model is made."""
-    sys.stdout.flush()
-    try:
-        saved = os.dup(1)
-    except OSError:  # pragma: no cover - no descriptor 1 at all
-        yield
-        return
-    try:
-        with open(os.devnull, "wb") as null:
-            os.dup2(null.fileno(), 1)
-            yield
-    finally:
-        os.dup2(saved, 1)
-        os.close(saved)
 
 
 class LinearModel:
@@ -314,175 +275,12 @@ class LinearModel:
         if self.objective is None:
             raise SolverError("no objective chosen")
         if self._backend is None:
-            self._backend = (_HighsBackend if self.solver == "highs" else _PulpBackend)(self)
+            if self.solver == "highs":
+                from .solver_highs import HighsBackend as Backend
+            else:
+                from .solver_cbc import CbcBackend as Backend
+            self._backend = Backend(self)
         elif self._pending_cols or self._pending_rows:
             self._backend.add_structure(self, self._pending_cols, self._pending_rows)
         self._pending_cols = self._pending_rows = 0
         return self._backend.run(duals)
-
-
-class _HighsBackend:
-    """highspy, built once from the arrays and kept alive for warm re-solves."""
-
-    def __init__(self, model: LinearModel):
-        with _quiet_stdout():
-            self.h = highspy.Highs()
-        self.h.setOptionValue("output_flag", False)
-        # A MILP is solved to its optimum, not to HiGHS's default 0.01% relative gap (which
-        # could call a plan costing 28 more in 286,000 "optimal")
-        self.h.setOptionValue("mip_rel_gap", 0.0)
-        self.h.setOptionValue("mip_abs_gap", 1e-6)
-        if model.time_limit is not None:
-            self.h.setOptionValue("time_limit", float(model.time_limit))
-        if model.node_limit is not None:  # (a work limit: unlike time, the same on every run)
-            self.h.setOptionValue("mip_max_nodes", int(model.node_limit))
-        self.model = model
-        self._warm = False
-        self._added(model, 0, 0)
-        self.set_objective(model._objective_vector())
-
-    def _added(self, model: LinearModel, col0: int, row0: int) -> None:
-        h, inf = self.h, highspy.kHighsInf
-        ncol = model.num_cols - col0
-        if ncol:
-            lo = np.asarray(model.col_lower[col0:], dtype=float)
-            up = np.asarray(model.col_upper[col0:], dtype=float)
-            h.addCols(ncol, np.zeros(ncol), np.where(np.isinf(lo), -inf, lo), np.where(np.isinf(up), inf, up),
-                      0, np.zeros(0, dtype=np.int32), np.zeros(0, dtype=np.int32), np.zeros(0))
-            ints = [c for c in range(col0, model.num_cols) if model.col_integer[c]]
-            if ints:
-                self.set_integer(np.array(ints), True)
-        nrow = model.num_rows - row0
-        if nrow:
-            starts, index, value = model.matrix()
-            first = starts[row0]
-            lo = np.asarray(model.row_lower[row0:], dtype=float)
-            up = np.asarray(model.row_upper[row0:], dtype=float)
-            h.addRows(nrow, np.where(np.isinf(lo), -inf, lo), np.where(np.isinf(up), inf, up),
-                      len(index) - first, (starts[row0:] - first).astype(np.int32),
-                      index[first:].astype(np.int32), value[first:])
-
-    def add_structure(self, model: LinearModel, ncols: int, nrows: int) -> None:
-        self._added(model, model.num_cols - ncols, model.num_rows - nrows)
-        self.set_objective(model._objective_vector())
-
-    def set_objective(self, c: np.ndarray) -> None:
-        n = len(c)
-        self.h.changeColsCost(n, np.arange(n, dtype=np.int32), c)
-
-    def set_time_limit(self, seconds: float | None) -> None:
-        self.h.setOptionValue("time_limit", highspy.kHighsInf if seconds is None else float(seconds))
-
-    def set_cols_bounds(self, cols, lower, upper) -> None:
-        inf = highspy.kHighsInf
-        self.h.changeColsBounds(len(cols), np.asarray(cols, dtype=np.int32),
-                                np.where(np.isinf(lower), -inf, lower), np.where(np.isinf(upper), inf, upper))
-
-    def set_rows_bounds(self, rows, lower, upper) -> None:
-        inf = highspy.kHighsInf
-        self.h.changeRowsBounds(len(rows), np.asarray(rows, dtype=np.int32),
-                                np.where(np.isinf(lower), -inf, lower), np.where(np.isinf(upper), inf, upper))
-
-    def set_integer(self, cols: np.ndarray, integer: bool) -> None:
-        kind = highspy.HighsVarType.kInteger if integer else highspy.HighsVarType.kContinuous
-        self.h.changeColsIntegrality(len(cols), np.asarray(cols, dtype=np.int32),
-                                     np.array([kind] * len(cols)))
-
-    def run(self, duals: bool = False) -> Result:
-        h = self.h
-        mip = self.model.is_mip
-        h.run()
-        status = h.getModelStatus()
-        S = highspy.HighsModelStatus
-        if not mip and status == S.kOptimal and not self._warm:
-            # later LP solves start from this basis: presolve would only cost time (about a
-            # third of a warm re-solve on 10,000 activities). Set once: setting an option
-            # again before each run was seen to slow the warm re-solves down.
-            h.setOptionValue("presolve", "off")
-            self._warm = True
-        if status in (S.kSolveError, S.kPostsolveError):
-            # Seen with HiGHS 1.16 on small MILPs that presolve reduces to nothing: "solution
-            # has untransformed violations" and a solve error. Solve again without presolve.
-            h.setOptionValue("presolve", "off")
-            try:
-                h.run()
-            finally:
-                if mip:
-                    h.setOptionValue("presolve", "choose")
-            status = h.getModelStatus()
-        info = h.getInfo()
-        if status == S.kOptimal:
-            sol = h.getSolution()
-            if mip or not duals or not sol.dual_valid:
-                return Result("optimal", np.asarray(sol.col_value), info.objective_function_value)
-            return Result("optimal", np.asarray(sol.col_value), info.objective_function_value,
-                          col_dual=np.asarray(sol.col_dual), row_dual=np.asarray(sol.row_dual),
-                          row_values=np.asarray(sol.row_value))
-        if status in (S.kInfeasible, S.kUnboundedOrInfeasible):
-            return Result("infeasible")
-        if status in (S.kTimeLimit, S.kIterationLimit, S.kInterrupt, S.kSolutionLimit):
-            has = info.primal_solution_status == 2  # feasible
-            values = np.asarray(h.getSolution().col_value) if has else None
-            return Result("stopped", values, info.objective_function_value if has else None,
-                          info.mip_dual_bound if mip else None, info.mip_gap if (mip and has) else None)
-        raise SolverError(f"HiGHS stopped with status '{h.modelStatusToString(status)}'")
-
-
-class _PulpBackend:
-    """CBC through PuLP. CBC re-solves from scratch anyway, so the PuLP problem is built
-    afresh from the arrays at every run; changes between runs need no bookkeeping."""
-
-    def __init__(self, model: LinearModel):
-        self.model = model
-
-    def add_structure(self, model, ncols, nrows) -> None:
-        pass
-
-    def set_objective(self, c) -> None:
-        pass
-
-    def set_cols_bounds(self, cols, lower, upper) -> None:
-        pass
-
-    def set_time_limit(self, seconds) -> None:
-        pass
-
-
-    def set_rows_bounds(self, rows, lower, upper) -> None:
-        pass
-
-    def set_integer(self, cols, integer) -> None:
-        pass
-
-    def _problem(self) -> tuple[pulp.LpProblem, list]:
-        m = self.model
-        prob = pulp.LpProblem("hasten", pulp.LpMinimize)
-        xs = [prob.add_variable(f"x{c:07d}", None if lo == -INF else lo, None if up == INF else up,
-                                pulp.LpInteger if integer else pulp.LpContinuous)
-              for c, (lo, up, integer) in enumerate(zip(m.col_lower, m.col_upper, m.col_integer))]
-        starts, index, value = m.matrix()
-        ends = np.append(starts[1:], len(index)).astype(np.int64)
-        for r, (lo, up) in enumerate(zip(m.row_lower, m.row_upper)):
-            terms = [(xs[int(j)], float(v)) for j, v in zip(index[starts[r]:ends[r]], value[starts[r]:ends[r]])]
-            if lo == up:
-                prob.addConstraint(pulp.LpConstraint(pulp.LpAffineExpression(terms), pulp.LpConstraintEQ, f"e{r}", lo))
-                continue
-            if up != INF:
-                prob.addConstraint(pulp.LpConstraint(pulp.LpAffineExpression(terms), pulp.LpConstraintLE, f"u{r}", up))
-            if lo != -INF:
-                prob.addConstraint(pulp.LpConstraint(pulp.LpAffineExpression(terms), pulp.LpConstraintGE, f"l{r}", lo))
-        c = m._objective_vector()
-        prob.setObjective(pulp.LpAffineExpression([(xs[j], float(c[j])) for j in np.flatnonzero(c)]))
-        return prob, xs
-
-    def run(self, duals: bool = False) -> Result:
-        prob, xs = self._problem()
-        status = prob.solve(_cbc(self.model.time_limit))
-        values = np.array([v.varValue or 0.0 for v in xs])
-        if status == pulp.LpStatusOptimal and prob.sol_status == pulp.LpSolutionOptimal:
-            return Result("optimal", values, pulp.value(prob.objective) or 0.0)
-        if status == pulp.LpStatusInfeasible:
-            return Result("infeasible")
-        if prob.sol_status == pulp.LpSolutionIntegerFeasible:
-            return Result("stopped", values, pulp.value(prob.objective) or 0.0, None, None)
-        raise SolverError(f"CBC stopped with status '{pulp.LpStatus[status]}'")
