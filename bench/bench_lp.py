@@ -47,7 +47,8 @@ from generate import project_folder, random_project  # noqa: E402
 from hasten.solver_highs import quiet_stdout  # noqa: E402  (the banner silencer hasten uses)
 from hasten.crashing import Study  # noqa: E402
 from hasten.project import LinkType, Project  # noqa: E402
-from hasten.optimise import Objective  # noqa: E402
+from hasten import crash_ties  # noqa: E402
+from hasten.crash_model import Objective  # noqa: E402
 
 SEED = 1
 COMPRESS = 60  # working days taken off the normal finish for the plan and the curve
@@ -272,7 +273,7 @@ def plan_breakdown(project: Project, target: int) -> dict[str, float]:
     out[f"  (part: {len(keep)} of {len(project.activities)} activities)"] = 0.0
     out["first least-cost solve (pass to HiGHS + run)"], sol = timed(model.solve, Objective.COST, target=target,
                                                                      duals=True)
-    out["tie-break MILP (fewest activities crashed)"], better = timed(model._fewest_crashed, model._last, target)
+    out["tie-break MILP (fewest activities crashed)"], better = timed(crash_ties.fewest_crashed, model, model._last, target)
     if better is not None and better.added_cost <= sol.added_cost + 1e-6 * max(1.0, sol.added_cost):
         sol = better
     durations = np.asarray(st.network.durations)

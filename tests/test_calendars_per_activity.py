@@ -33,7 +33,7 @@ from hasten.checks import check_plan
 from hasten.crashing import Study
 from hasten.project import Activity, Calendar, Link, LinkType, Project
 from hasten.network import Network, schedule
-from hasten.optimise import _Relation
+from hasten.crash_calendars import Relation as _Relation
 
 START = date(2025, 3, 3)  # a Monday
 ONE = timedelta(days=1)

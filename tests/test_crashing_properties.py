@@ -26,7 +26,7 @@ from hasten.crashing import Study
 from hasten.errors import InfeasibleTargetError
 from hasten.project import Contract, Costs
 from hasten.network import Network
-from hasten.optimise import CrashModel, Objective
+from hasten.crash_model import CrashModel, Objective
 
 
 def close(a: float, b: float) -> bool:

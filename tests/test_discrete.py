@@ -25,7 +25,7 @@ from hasten.crashing import Study
 from hasten.formats.research import read_research
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
-from hasten.optimise import CrashModel
+from hasten.crash_model import CrashModel
 
 DATA = Path(__file__).parent / "data" / "psplib_mm"
 J10 = ["j102_2.mm", "j1010_1.mm", "j1012_10.mm", "j1024_1.mm"]

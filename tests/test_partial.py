@@ -28,7 +28,7 @@ from hasten.checks import check_plan
 from hasten.crashing import Study
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
-from hasten.optimise import CrashModel
+from hasten.crash_model import CrashModel
 
 
 def close(a: float, b: float) -> bool:

@@ -17,7 +17,7 @@ import hasten.solver_model as solver
 from conftest import load_json, project_from_example
 from hasten.errors import SolverError
 from hasten.network import Network
-from hasten.optimise import CrashModel
+from hasten.crash_model import CrashModel
 
 QUES10 = {22: 40.0, 18: 280.0, 17: 420.0, 12: 1280.0}
 

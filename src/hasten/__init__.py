@@ -1,7 +1,7 @@
 """hasten: least-cost schedule acceleration for construction projects.
 
 The library core: :mod:`hasten.project` (dataclasses), :mod:`hasten.network` (CPM),
-:mod:`hasten.optimise` (the LP builder), :mod:`hasten.crashing` (the questions),
+:mod:`hasten.crash_model` (the LP builder), :mod:`hasten.crashing` (the questions),
 :mod:`hasten.checks` (independent plan checks).
 """
 

@@ -18,7 +18,7 @@ from .errors import HastenError, InfeasibleTargetError
 from .partial import PartialSolver, solvable_on_part
 from .project import Project
 from .network import Network, Schedule, schedule
-from .optimise import CrashModel, Solution
+from .crash_model import CrashModel, Solution
 
 __all__ = [
     "ActivityChange",

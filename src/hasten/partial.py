@@ -3,7 +3,7 @@
 To finish ``r`` working days before the normal finish, the least-cost plan rarely
 touches an activity whose total float (at normal durations) exceeds ``r``: every path
 through it has room to spare. :class:`PartialSolver` builds the same crashing model
-(:class:`~hasten.optimise.CrashModel`) for the activities with total float up to a
+(:class:`~hasten.crash_model.CrashModel`) for the activities with total float up to a
 reach, plus everything already finished, and the links among them.
 
 Why this is exact: the part's model has the same columns and costs for its activities
@@ -31,7 +31,7 @@ from dataclasses import replace
 import numpy as np
 
 from .network import Network
-from .optimise import CrashModel, Solution
+from .crash_model import CrashModel, Solution
 
 __all__ = ["PartialSolver", "solvable_on_part"]
 

@@ -4,6 +4,7 @@ fallback where highspy is missing. The only module that imports PuLP.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
 import warnings
 
 import numpy as np
@@ -11,6 +12,9 @@ import pulp
 
 from .errors import SolverError
 from .solver_model import INF, Result
+
+if TYPE_CHECKING:
+    from .solver_model import LinearModel
 
 __all__ = ["CbcBackend", "available"]
 

@@ -7,6 +7,7 @@ imports highspy.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
 import contextlib
 import os
 import sys
@@ -15,6 +16,9 @@ import numpy as np
 
 from .errors import SolverError
 from .solver_model import Result
+
+if TYPE_CHECKING:
+    from .solver_model import LinearModel
 
 __all__ = ["HighsBackend", "AVAILABLE", "quiet_stdout"]
 

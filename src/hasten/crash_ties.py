@@ -1,0 +1,157 @@
+"""Ties among least-cost plans: the one that changes the fewest activities, then the
+fewest working days.
+
+For the LP (:func:`fewest_crashed`), the least-cost plans form the optimal face: fix every
+column with a non-zero reduced cost at its value and every row with a non-zero dual at its
+bound (complementary slackness) and search the face with a small MILP. For a MILP
+(discrete options, calendars of their own; :func:`fewest_changed_mip`) a second MILP holds
+the cost at its least and counts the activities changed, within a node limit so that the
+same input always gives the same plan.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from .crash_calendars import holds
+from .solver_model import INF
+
+if TYPE_CHECKING:
+    from .crash_model import Solution
+
+__all__ = ["fewest_crashed", "fewest_changed_mip", "changes", "TIE_BREAK_NODES"]
+
+#: Branch-and-bound nodes the tie-break of a MILP may search (see fewest_changed_mip).
+TIE_BREAK_NODES = 2000
+
+
+def changes(model, sol: Solution) -> tuple[int, int]:
+    """(activities changed: shortened or by an option, working days taken off in all)."""
+    normal = model.net.durations
+    changed = sum(1 for k, (d, n) in enumerate(zip(sol.durations, normal))
+                  if d != n or (sol.choices and sol.choices[k] >= 0))
+    return changed, sum(n - d for d, n in zip(sol.durations, normal))
+
+
+def fewest_changed_mip(model, best: Solution, target: int, strict: bool) -> Solution | None:
+    """The tie-break of a MILP (discrete options, several calendars): among plans
+    costing no more than ``best`` (acceleration and milestone damages), the one that
+    changes the fewest activities (shortened, or performed by an option), then takes
+    the fewest working days off. A second MILP on a copy, with the cost held by a row
+    and 0/1 "changed" columns; ``None`` when it finds nothing better or its plan does
+    not hold exactly (relations between calendars are relaxed in the copy)."""
+    if not best.proven or changes(model, best)[0] == 0:
+        return None
+    n = len(model.net)
+    lm = model.lp.copy()
+    cols, coefs = model.lp.objectives["cost"]
+    total = best.added_cost + best.penalty
+    lm.add_row(cols, coefs, -INF, total + 1e-6 * max(1.0, abs(total)))
+    owners = np.unique(np.concatenate([model.cut_owner, model.opt_owner]))
+    z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
+    z_of = np.full(n, -1, dtype=np.int64)
+    z_of[owners] = z
+    days = np.asarray(lm.col_upper, dtype=float)[model.cuts]
+    m = len(model.cuts)
+    if m:  # a shortening day only if the activity counts as changed
+        index = np.empty(2 * m, dtype=np.int64)
+        index[0::2], index[1::2] = model.cuts, z_of[model.cut_owner]
+        value = np.empty(2 * m)
+        value[0::2], value[1::2] = 1.0, -days
+        lm.add_rows(np.arange(0, 2 * m, 2), index, value, -INF, 0.0)
+    k = len(model.opt_x)
+    if k:  # an option only if the activity counts as changed
+        index = np.empty(2 * k, dtype=np.int64)
+        index[0::2], index[1::2] = model.opt_x, z_of[model.opt_owner]
+        lm.add_rows(np.arange(0, 2 * k, 2), index, np.tile([1.0, -1.0], k), -INF, 0.0)
+    # days taken off: shortening columns, option duration changes, an option's own days
+    day_cols = np.concatenate([model.cuts, model.opt_x, model.opt_w])
+    day_coef = np.concatenate([np.ones(m), model.opt_delta, np.ones(len(model.opt_w))])
+    weight = float(np.abs(days).sum() + np.abs(model.opt_delta).sum() + model.w_room.sum()) + 1.0
+    lm.define_objective("fewest_changed", np.concatenate([z, day_cols]),
+                        np.concatenate([np.full(len(z), weight), day_coef]))
+    lm.use_objective("fewest_changed")
+    if model.horizon_finish is not None:
+        target = min(target, model.horizon_finish)
+    lm.set_col_bounds(model.finish, 0.0, float(target))
+    lm.set_row_bounds(model.cost_cap, -INF, INF)
+    if len(model.late):
+        lm.set_cols_bounds(model.late, 0.0, 0.0 if strict else 1.0)
+    # Only a proven tie-break is used, so that the same input gives the same plan: the
+    # search is bounded by a number of nodes (the same on every run), and by time only
+    # as a last resort. Stopped early, the plan stays the least-cost one first found.
+    lm.node_limit = TIE_BREAK_NODES
+    if lm.time_limit is None:
+        lm.time_limit = 30.0
+    out = lm.solve()
+    if out.values is None or out.status != "optimal":
+        return None
+    values = out.values[: model.lp.num_cols]
+    sol = model.solution_of(values, out)
+    if sol is None or changes(model, sol) >= changes(model, best):
+        return None
+    if model.relations and not holds(model, out, "cost", target, strict)[0]:
+        return None
+    return replace(sol, objective=best.objective, proven=True, bound=None, gap=None)
+
+
+def fewest_crashed(model, result, target: int) -> Solution | None:
+    """Among the least-cost plans, the one shortening the fewest activities, then
+    the fewest days.
+
+    The least-cost plans form the optimal face of the LP: fix every column with a
+    non-zero reduced cost at its value and every row with a non-zero dual at its
+    bound (complementary slackness), and any plan left costs the least. Over that
+    face a small MILP counts shortened activities. Needs duals (HiGHS); returns
+    ``None`` when there is no choice to make or the solver gives no duals.
+    """
+    if result is None or result.col_dual is None:
+        return None
+    tol = 1e-7
+    free = np.abs(result.col_dual[model.cuts]) <= tol
+    if not free.any() or not np.any(result.values[model.cuts[free]] > tol):
+        # every shortening this plan uses is forced on all least-cost plans (fixed by
+        # its reduced cost) and the others are unused: nothing to improve
+        return None
+    values = result.values
+    cols = np.flatnonzero(np.abs(result.col_dual) > tol)
+    rows = np.flatnonzero(np.abs(result.row_dual) > tol)
+    full = model.lp.copy()  # leave the live model and its warm start alone
+    rlow, rup = np.asarray(full.row_lower)[rows], np.asarray(full.row_upper)[rows]
+    act = result.row_values[rows]
+    at = np.where(np.abs(act - rlow) <= np.abs(act - rup), rlow, rup)
+    full.set_rows_bounds(rows, at, at)
+    # only the face is searched: fixed columns are taken out of a small model
+    lm, keep = full.reduced(cols, values[cols])
+    where = np.full(model.lp.num_cols, -1, dtype=np.int64)
+    where[keep] = np.arange(len(keep))
+    # one 0/1 column per activity free to change on the face: "it is shortened"
+    owners = np.unique(model.cut_owner[free])
+    room = np.bincount(model.cut_owner, weights=np.asarray(model.lp.col_upper)[model.cuts],
+                       minlength=len(model.net))[owners]
+    z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
+    free_cuts = model.cuts[free]
+    terms: dict[int, list[tuple[int, float]]] = {int(o): [(int(z[k]), -float(room[k]))]
+                                                 for k, o in enumerate(owners)}
+    for col, owner in zip(free_cuts.tolist(), model.cut_owner[free].tolist()):
+        terms[owner].append((int(where[col]), 1.0))
+    index = [c for o in owners.tolist() for c, _ in terms[o]]
+    value = [v for o in owners.tolist() for _, v in terms[o]]
+    starts = np.concatenate([[0], np.cumsum([len(terms[o]) for o in owners.tolist()])[:-1]])
+    lm.add_rows(starts, index, value, -INF, 0.0)
+    lm.set_integer(where[free_cuts], True)
+    weight = float(room.sum()) + 1.0  # one activity more outweighs any number of days
+    lm.define_objective("fewest_crashed", np.concatenate([z, where[free_cuts]]),
+                        np.concatenate([np.full(len(z), weight), np.ones(len(free_cuts))]))
+    lm.use_objective("fewest_crashed")
+    if lm.time_limit is None:
+        lm.time_limit = 10.0
+    out = lm.solve()
+    if out.values is None or out.status not in ("optimal", "stopped"):
+        return None
+    back = values.copy()
+    back[keep] = out.values[: len(keep)]
+    return model.solution_of(back, out)
