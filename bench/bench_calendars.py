@@ -28,7 +28,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from generate import random_project  # noqa: E402
 from hasten.crashing import Study  # noqa: E402
 from hasten.project import Calendar, Project  # noqa: E402
-from hasten.network import Network, schedule  # noqa: E402
+from hasten.cpm import schedule
+from hasten.network import Network  # noqa: E402
 
 CALENDARS = (Calendar((0, 1, 2, 3, 4, 5, 6), (), "every-day"), Calendar((0, 1, 2, 3, 4, 5), (), "six-day"))
 

@@ -41,7 +41,8 @@ from generate import project_folder, random_project  # noqa: E402
 from hasten.calendar import CalendarClock  # noqa: E402
 from hasten.formats import read_project  # noqa: E402
 from hasten.project import Project  # noqa: E402
-from hasten.network import Network, schedule  # noqa: E402
+from hasten.cpm import schedule
+from hasten.network import Network  # noqa: E402
 from hasten import render  # noqa: E402
 
 N = 50_000

@@ -263,7 +263,7 @@ def plan_breakdown(project: Project, target: int) -> dict[str, float]:
     """Where the time of ``Study(project).plan(target)`` goes, step by step as ``Study.plan``
     does it on the part of the network that can matter (hasten.partial; uses internal names)."""
     from hasten.partial import PartialSolver
-    from hasten.network import schedule
+    from hasten.cpm import schedule
 
     out: dict[str, float] = {}
     out["Study(): network, normal CPM, checker"], st = timed(Study, project)

@@ -7,7 +7,7 @@ import ast
 from pathlib import Path
 
 SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
-CORE = ["project", "errors", "calendar", "network", "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties", "crashing", "checks", "time_costs",
+CORE = ["project", "errors", "calendar", "graph", "network", "passes", "cpm", "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties", "crashing", "checks", "time_costs",
         "cautions", "progress", "recovery", "dominated", "partial"]
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 

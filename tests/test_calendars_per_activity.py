@@ -32,7 +32,8 @@ from hasten.calendar import Timeline
 from hasten.checks import check_plan
 from hasten.crashing import Study
 from hasten.project import Activity, Calendar, Link, LinkType, Project
-from hasten.network import Network, schedule
+from hasten.cpm import schedule
+from hasten.network import Network
 from hasten.crash_calendars import Relation as _Relation
 
 START = date(2025, 3, 3)  # a Monday

@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 
 from conftest import (DATA, PROPERTY, link_holds, load_json, nx_cpm, own_forward,
                       project_from_example, project_from_numbers, projects, read_psplib_sm)
-from hasten.network import schedule
+from hasten.cpm import schedule
 
 FIELDS = {"ES": "es", "EF": "ef", "LS": "ls", "LF": "lf", "TF": "total_float", "FF": "free_float"}
 

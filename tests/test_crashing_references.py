@@ -24,7 +24,7 @@ from conftest import (DATA, START, TOL, linprog_least_cost, linprog_min_finish, 
                       make_project, project_from_example, project_from_stadium)
 from hasten.crashing import Study
 from hasten.project import Activity, Calendar, Contract, Link, LinkType
-from hasten.network import schedule
+from hasten.cpm import schedule
 
 
 def close(a: float, b: float) -> bool:

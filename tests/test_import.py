@@ -30,7 +30,7 @@ from hasten.errors import CycleError, InputError
 from hasten.formats import read_project, write_project
 from hasten.formats.research import read_research
 from hasten.project import Calendar, LinkType, Project
-from hasten.network import schedule
+from hasten.cpm import schedule
 from hasten.dominated import drop_dominated
 
 DATA = Path(__file__).parent / "data"

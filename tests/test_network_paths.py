@@ -14,7 +14,8 @@ import pytest
 
 from conftest import make_project, nx_cpm
 from hasten.project import Activity, Link, LinkType
-from hasten.network import Network, schedule
+from hasten.cpm import schedule
+from hasten.network import Network
 
 
 def _wide(seed: int, n: int = 300, layers: int = 6):

@@ -1,4 +1,4 @@
-"""Progress at the data date (hasten.progress applied through hasten.network.schedule).
+"""Progress at the data date (hasten.progress applied through hasten.cpm.schedule).
 
 Sources of the checks:
 
@@ -26,7 +26,8 @@ from hasten.calendar import CalendarClock
 from hasten.crashing import Study
 from hasten.errors import InfeasibleTargetError, InputError
 from hasten.project import Activity, CrashStep, Link, LinkType
-from hasten.network import Network, schedule
+from hasten.cpm import schedule
+from hasten.network import Network
 
 FS, SS, FF = LinkType.FS, LinkType.SS, LinkType.FF
 MON_FRI = "1111100"  # numpy weekmask, Monday first

@@ -7,7 +7,7 @@ The library core: :mod:`hasten.project` (dataclasses), :mod:`hasten.network` (CP
 
 from .errors import HastenError, InputError
 from .project import Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType, Project
-from .network import Schedule, schedule
+from .cpm import Schedule, schedule
 
 
 def __getattr__(name: str):

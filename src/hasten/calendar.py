@@ -85,7 +85,7 @@ class CalendarClock:
         return self.offset_of(target, finish=True)
 
 
-#: Link kinds, as numbered in hasten.network.
+#: Link kinds, as numbered in hasten.network and hasten.passes.
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 
 

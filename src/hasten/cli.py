@@ -26,7 +26,7 @@ from .formats import read_project, write_project
 from .formats.files import write_file
 from .dominated import drop_dominated
 from .network import Network
-from .network import schedule as cpm
+from .cpm import schedule as cpm
 
 if TYPE_CHECKING:
     from .crashing import Study

@@ -17,7 +17,8 @@ from .time_costs import TimeCosts, time_costs
 from .errors import HastenError, InfeasibleTargetError
 from .partial import PartialSolver, solvable_on_part
 from .project import Project
-from .network import Network, Schedule, schedule
+from .cpm import Schedule, schedule
+from .network import Network
 from .crash_model import CrashModel, Solution
 
 __all__ = [

@@ -13,7 +13,7 @@ from typing import TYPE_CHECKING
 from .calendar import CalendarClock, Timeline
 from .cautions import plan_cautions
 from .project import Project
-from .network import Schedule
+from .cpm import Schedule
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
     from .crashing import BestFinish, CurvePoint, Plan, Study
