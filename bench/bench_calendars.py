@@ -26,7 +26,7 @@ from pathlib import Path
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from generate import random_project  # noqa: E402
-from hasten.crashing import Study  # noqa: E402
+from hasten.planner import Planner  # noqa: E402
 from hasten.project import Calendar, Project  # noqa: E402
 from hasten.cpm import schedule
 from hasten.network import Network  # noqa: E402
@@ -61,7 +61,7 @@ def main() -> None:
     for n, share in ((200, 0.2), (1_000, 0.1)):
         project = with_calendars(random_project(n, 1, max(n // 10, 5), 3), share)
         t = time.perf_counter()
-        study = Study(project)
+        study = Planner(project)
         plan = study.plan(study.normal_finish - 10)
         seconds = time.perf_counter() - t
         print(f"plan, {n} activities, {share:.0%} on other calendars, normal finish "

@@ -16,7 +16,7 @@ import sys
 import time
 from pathlib import Path
 
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.formats.research import read_research
 from hasten.project import Activity, Link, LinkType, Option, Project
 from hasten.dominated import drop_dominated
@@ -28,7 +28,7 @@ def psplib() -> list[tuple[str, str, str, str]]:
     path = ROOT / "tests" / "data" / "psplib_mm" / "j3010_1.mm"
     t0 = time.perf_counter()
     project, _ = drop_dominated(read_research(path))
-    study = Study(project)
+    study = Planner(project)
     points = study.curve()
     seconds = time.perf_counter() - t0
     proven = all(p.proven for p in points)
@@ -58,7 +58,7 @@ def options_project(n: int = 500, seed: int = 3) -> Project:
 def options() -> list[tuple[str, str, str, str]]:
     project, _ = drop_dominated(options_project())
     t0 = time.perf_counter()
-    study = Study(project)
+    study = Planner(project)
     target = study.normal_finish - (study.normal_finish - study.shortest_finish) // 2
     plan = study.plan(target, next_day=False)
     seconds = time.perf_counter() - t0

@@ -45,7 +45,7 @@ import pulp  # noqa: E402
 
 from generate import project_folder, random_project  # noqa: E402
 from hasten.solver_highs import quiet_stdout  # noqa: E402  (the banner silencer hasten uses)
-from hasten.crashing import Study  # noqa: E402
+from hasten.planner import Planner  # noqa: E402
 from hasten.project import LinkType, Project  # noqa: E402
 from hasten import crash_ties  # noqa: E402
 from hasten.crash_model import Objective  # noqa: E402
@@ -260,13 +260,13 @@ def naive_pulp_cost(a: Arrays, target: int) -> float:
 # ------------------------------------------------------------------------ plan
 
 def plan_breakdown(project: Project, target: int) -> dict[str, float]:
-    """Where the time of ``Study(project).plan(target)`` goes, step by step as ``Study.plan``
+    """Where the time of ``Planner(project).plan(target)`` goes, step by step as ``Planner.plan``
     does it on the part of the network that can matter (hasten.partial; uses internal names)."""
     from hasten.partial import PartialSolver
     from hasten.cpm import schedule
 
     out: dict[str, float] = {}
-    out["Study(): network, normal CPM, checker"], st = timed(Study, project)
+    out["Planner(): network, normal CPM, checker"], st = timed(Planner, project)
     out["total floats at normal durations"], focus = timed(PartialSolver, st.network)
     reach = st.normal_finish - target + 1  # the plan's day and the next
     out["part: sub-network and model build"], (model, keep) = timed(focus._part_for, reach)
@@ -287,9 +287,9 @@ def plan_breakdown(project: Project, target: int) -> dict[str, float]:
 
 
 def whole_model_plan(project: Project, target: int):
-    """``Study.plan`` on the whole network's model: once the whole model is built the study
+    """``Planner.plan`` on the whole network's model: once the whole model is built the study
     no longer solves on parts (hasten.partial)."""
-    st = Study(project)
+    st = Planner(project)
     st.model  # noqa: B018 - build it
     return st.plan(target)
 
@@ -299,7 +299,7 @@ def bench_plan(args) -> bool:
     project = network(n)
     t_arrays, arrays = timed(Arrays, project)
     folder, t_write = project_folder(project, args.workdir)
-    st = Study(project)
+    st = Planner(project)
     normal = st.normal_finish
     target = normal - COMPRESS
     print(f"\n[plan] {n} activities, {len(project.links)} links, window {n // 10}; normal finish "
@@ -312,7 +312,7 @@ def bench_plan(args) -> bool:
         b, p, r, ref_cost = reference_solve(arrays, target)
         ref.append(b + p + r)
         ref_parts.append((b, p, r))
-        seconds, plan = timed(lambda: Study(project).plan(target))
+        seconds, plan = timed(lambda: Planner(project).plan(target))
         full.append(seconds)
         plan_cost = plan.added_cost
         seconds, whole_plan = timed(whole_model_plan, project, target)
@@ -338,7 +338,7 @@ def bench_plan(args) -> bool:
         ("(a) reference: build+pass+run (highspy)", f"{median(ref):.3f} s", None, None),
         ("    build arrays / passModel / run", f"{b:.3f} / {p:.3f} / {r:.3f} s", None, None),
         ("    (extracting arrays from Project, untimed)", f"{t_arrays:.3f} s", None, None),
-        ("(b) Study(project).plan(target)", f"{median(full):.3f} s", None, None),
+        ("(b) Planner(project).plan(target)", f"{median(full):.3f} s", None, None),
         ("(b)/(a)", f"{ratio:.2f}x", f"<= {PLAN_RATIO_TARGET}x", verdict(ratio <= PLAN_RATIO_TARGET)),
         ("(b') the same plan on the whole model (no part)", f"{median(whole):.3f} s", None, None),
         ("(b')/(a), for comparison", f"{median(whole) / median(ref):.2f}x", None, None),
@@ -348,14 +348,14 @@ def bench_plan(args) -> bool:
          f"{ref_cost:.2f} / {plan_cost:.2f} / {whole_cost:.2f} / {cli_cost:.2f}",
          "equal", verdict(same)),
     ])
-    print("\n  where (b) goes (medians, a separate fresh Study per run):")
+    print("\n  where (b) goes (medians, a separate fresh Planner per run):")
     total = median(full)
     for key in (parts[0] if parts else ()):
         v = median(x[key] for x in parts)
         print(f"    {key:<48} {v:7.3f} s  {100 * v / total:5.1f}%")
     if args.profile:
-        print("\n[plan] cProfile of Study(project).plan(target):")
-        profile(lambda: Study(project).plan(target))
+        print("\n[plan] cProfile of Planner(project).plan(target):")
+        profile(lambda: Planner(project).plan(target))
     return ratio <= PLAN_RATIO_TARGET and median(cli) < PLAN_CLI_TARGET and same
 
 
@@ -371,14 +371,14 @@ def bench_curve(args) -> bool:
     n = 10_000
     project = network(n)
     arrays = Arrays(project)
-    normal = Study(project).normal_finish
+    normal = Planner(project).normal_finish
     print(f"\n[curve] {n} activities, {len(project.links)} links, window {n // 10}; normal finish "
           f"{normal}; warm curve {normal} .. {normal - COMPRESS}; naive PuLP+CBC at "
           f"{', '.join(str(normal - d) for d in naive_days(args.naive_days))}")
 
     warm, raw, points, raw_costs = [], [], None, None
     for _ in range(args.repeat):  # interleaved with the raw highspy trace
-        seconds, points = timed(lambda: Study(project).curve(longest=normal, shortest=normal - COMPRESS))
+        seconds, points = timed(lambda: Planner(project).curve(longest=normal, shortest=normal - COMPRESS))
         warm.append(seconds)
         seconds, raw_costs = reference_trace(arrays, normal, COMPRESS)
         raw.append(seconds)
@@ -399,7 +399,7 @@ def bench_curve(args) -> bool:
     naive_day = statistics.mean(naive)
     speedup = naive_day / warm_day
     table(f"[curve] warm and raw: median of {args.repeat} runs; naive: mean of {len(naive)} days", [
-        (f"warm curve, {COMPRESS} days (incl. Study())", f"{total:.3f} s", f"< {CURVE_TOTAL_TARGET:g} s",
+        (f"warm curve, {COMPRESS} days (incl. Planner())", f"{total:.3f} s", f"< {CURVE_TOTAL_TARGET:g} s",
          verdict(total < CURVE_TOTAL_TARGET)),
         ("warm, per day", f"{warm_day:.4f} s", None, None),
         ("naive PuLP rebuild + CBC, per day", f"{naive_day:.3f} s", None, None),
@@ -413,7 +413,7 @@ def bench_curve(args) -> bool:
     ])
     if args.profile:
         print("\n[curve] cProfile of the warm curve:")
-        profile(lambda: Study(project).curve(longest=normal, shortest=normal - COMPRESS))
+        profile(lambda: Planner(project).curve(longest=normal, shortest=normal - COMPRESS))
     return total < CURVE_TOTAL_TARGET and speedup >= CURVE_SPEEDUP_TARGET and agree and raw_agree
 
 
@@ -424,13 +424,13 @@ def bench_fullcurve(args) -> bool:
     project = network(n)
     times, points = [], None
     for _ in range(args.repeat):
-        seconds, points = timed(lambda: Study(project).curve())
+        seconds, points = timed(lambda: Planner(project).curve())
         times.append(seconds)
     print(f"\n[fullcurve] {n} activities, {len(project.links)} links, window {n // 10}; curve "
           f"{points[0].finish} .. {points[-1].finish}")
     t = median(times)
     table(f"[fullcurve] median of {args.repeat} runs", [
-        ("whole curve, normal to shortest (incl. Study())", f"{t:.3f} s", f"< {FULLCURVE_TARGET:g} s",
+        ("whole curve, normal to shortest (incl. Planner())", f"{t:.3f} s", f"< {FULLCURVE_TARGET:g} s",
          verdict(t < FULLCURVE_TARGET)),
         ("points", str(len(points)), None, None),
         ("per point", f"{t / len(points):.4f} s", None, None),
@@ -438,7 +438,7 @@ def bench_fullcurve(args) -> bool:
     ])
     if args.profile:
         print("\n[fullcurve] cProfile:")
-        profile(lambda: Study(project).curve())
+        profile(lambda: Planner(project).curve())
     return t < FULLCURVE_TARGET
 
 
@@ -466,7 +466,7 @@ def memory_child() -> None:
     project = network(n)
     base = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024  # Linux: kilobytes
     base_hwm = high_water()
-    study = Study(project)
+    study = Planner(project)
     normal = study.normal_finish
     plan = study.plan(normal - COMPRESS)
     points = study.curve(longest=normal, shortest=normal - 10)
@@ -493,7 +493,7 @@ def bench_memory(args) -> bool:
 
     table("[memory] peak resident set size", [
         ("ru_maxrss after generating the project", size(r["base"]), None, None),
-        ("ru_maxrss peak: Study + plan + 10-day curve", size(r["peak"]), f"< {MEMORY_TARGET / mib:.0f} MiB",
+        ("ru_maxrss peak: Planner + plan + 10-day curve", size(r["peak"]), f"< {MEMORY_TARGET / mib:.0f} MiB",
          verdict(r["peak"] < MEMORY_TARGET)),
         ("VmHWM after generating / peak (own memory map)", f"{size(r['base_hwm'])} / {size(r['peak_hwm'])}",
          None, None),

@@ -23,7 +23,7 @@ from hypothesis import strategies as st
 
 from conftest import PROPERTY, make_project
 from hasten.calendar import CalendarClock
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.project import Activity, Calendar, Link
 
 WEEKMASKS = {
@@ -193,8 +193,8 @@ def chain(length: int, calendar: Calendar):
 def test_two_weeks_earlier_counts_working_days(length, workdays, expected):
     # source: legaliq.com, definition of 'calendar day', READ: two weeks are 14 calendar
     # days, 10 or 12 weekdays by local usage (five- or six-day week); no holidays
-    study = Study(chain(length, Calendar(workdays=workdays)))
-    target = study.target_earlier("2w")
+    study = Planner(chain(length, Calendar(workdays=workdays)))
+    target = study.target_earlier(calendar_days=14)
     assert study.normal_finish - target == expected
     # the new finish date is 14 calendar days before the normal one when that is a working
     # day (it always is here: the week repeats), by CalendarClock
@@ -210,12 +210,12 @@ def test_two_weeks_earlier_with_a_holiday_inside(length):
     # The holiday is the weekday 7 calendar days before the finish date without holidays
     # (F0); with it the finish moves to the next working day F1 <= F0 + 3 days, and the
     # window (F1 - 14, F1] still holds F0 - 7 (F1 - 14 <= F0 - 11 < F0 - 7 < F1).
-    plain = Study(chain(length, Calendar()))
+    plain = Planner(chain(length, Calendar()))
     f0 = plain.clock.project_finish_date(plain.normal_finish)
     holiday = f0 - timedelta(days=7)
     assert holiday.weekday() < 5
-    study = Study(chain(length, Calendar(holidays=(holiday,))))
+    study = Planner(chain(length, Calendar(holidays=(holiday,))))
     f1 = study.clock.project_finish_date(study.normal_finish)
     assert f1 - timedelta(days=14) < holiday < f1
-    target = study.target_earlier("2w")
+    target = study.target_earlier(calendar_days=14)
     assert study.normal_finish - target == 9

@@ -30,7 +30,7 @@ from hypothesis import strategies as st
 from conftest import PROPERTY, TOL, make_project, nx_cpm, slope
 from hasten.calendar import Timeline
 from hasten.checks import check_plan
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.project import Activity, Calendar, Link, LinkType, Project
 from hasten.cpm import schedule
 from hasten.network import Network
@@ -167,7 +167,7 @@ def test_hand_worked_crashing_meets_the_weekend():
     # One day off A (200): A Mon-Thu, B Fri-Sun, C Mon 10 - Tue 11: 7 working days.
     # Two days off A, or a day off B as well: B still ends on a weekend day, C still starts
     # Mon 10: 7 is the shortest, for 200.
-    study = Study(hand_project())
+    study = Planner(hand_project())
     assert (study.normal_finish, study.shortest_finish) == (8, 7)
     plan = study.plan(7)
     assert abs(plan.added_cost - 200) <= TOL
@@ -239,7 +239,7 @@ def least_cost_matches_brute_force(project):
         cost = sum(slope(a) * (a.duration - durations[a.id]) for a in acts)
         cuts = [a.duration - durations[a.id] for a in acts]
         combos.append((finish, cost, sum(1 for c in cuts if c), sum(cuts)))
-    study = Study(project)
+    study = Planner(project)
     assert study.normal_finish == reference_forward(project, {a.id: a.duration for a in acts})[1]
     assert study.shortest_finish == min(f for f, _, _, _ in combos)
     for target in range(study.shortest_finish, study.normal_finish + 1):
@@ -373,11 +373,11 @@ def test_a_milestone_on_its_own_calendar_prices_its_damages_like_brute_force(pro
         day = own.S(f - 1) if f > 0 else own.S(0)
         damages = rate * max(0, (day - deadline).days)
         rows.append((finish, sum(slope(a) * (a.duration - durations[a.id]) for a in acts) + damages))
-    study = Study(project)
+    study = Planner(project)
     for target in range(study.shortest_finish, study.normal_finish + 1):
         expected = min(c for f, c in rows if f <= target)
         plan = study.plan(target, next_day=False)
-        assert abs(plan.added_cost + plan.penalty - expected) <= TOL * max(1.0, expected), target
+        assert abs(plan.added_cost + plan.milestone_damages - expected) <= TOL * max(1.0, expected), target
 
 
 def test_an_undefined_calendar_is_a_clear_error_for_library_users():

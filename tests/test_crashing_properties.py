@@ -22,7 +22,7 @@ from conftest import (PROPERTY, TOL, brute_force_curve, link_holds, linprog_leas
                       linprog_min_finish, own_cut_cost, own_finish, projects, slope)
 from hasten.checks import check_plan
 from hasten.time_costs import time_costs
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.errors import InfeasibleTargetError
 from hasten.project import Contract, Costs
 from hasten.network import Network
@@ -55,7 +55,7 @@ def assert_plan_sound(project, plan):
 @given(projects(min_n=3, max_n=9))
 def test_least_cost_matches_linprog_at_every_target(project):
     # reference: scipy.optimize.linprog (HiGHS) on our own start/duration formulation
-    study = Study(project)
+    study = Planner(project)
     lp_shortest = linprog_min_finish(project)
     assert close(lp_shortest, round(lp_shortest))  # whole-day data: the LP minimum is whole
     assert study.shortest_finish == round(lp_shortest)
@@ -83,7 +83,7 @@ def test_curve_matches_brute_force(project):
     # plain forward pass; the least cost at T is the least over vectors finishing by T
     # (some vectors finish after the normal plan: shortening can delay an SS/FF/SF network)
     truth = brute_force_curve(project)
-    study = Study(project)
+    study = Planner(project)
     assert truth[study.normal_finish] == 0
     assert study.normal_finish - 1 not in truth or truth[study.normal_finish - 1] > 0
     assert study.shortest_finish == min(truth)
@@ -99,7 +99,7 @@ def test_stepped_costs_match_brute_force(project):
     # reference: the same enumeration with cost steps taken cheapest first
     # (conftest.own_cut_cost); convex steps let the LP take them in order by itself
     truth = brute_force_curve(project)
-    study = Study(project)
+    study = Planner(project)
     assert study.shortest_finish == min(truth)
     for point in study.curve():
         assert close(point.added_cost, truth[point.finish]), point.finish
@@ -114,7 +114,7 @@ def test_stepped_costs_match_brute_force(project):
 def test_curve_is_monotone_and_convex(project):
     # any LP time-cost curve (least cost as a function of the finish bound) is non-increasing
     # and convex in the bound; with whole-day data its whole-day points are those of the LP
-    study = Study(project)
+    study = Planner(project)
     curve = study.curve()
     normal = {a.id: a.duration for a in project.activities}
     durations = dict(normal)
@@ -138,33 +138,33 @@ def test_best_is_least_total_over_the_curve(project, indirect, contract_shift, d
     # definition: total cost = normal direct + added + indirect + damages - bonus; the best
     # finish is the least total over every curve point (ties: the later finish, crashing.py)
     project = dataclasses.replace(project, costs=Costs(indirect_per_day=indirect))
-    study = Study(project)
+    study = Planner(project)
     contract_day = study.clock.project_finish_date(study.normal_finish) - timedelta(days=contract_shift)
     project = dataclasses.replace(project, contract=Contract(
         finish=contract_day, damages_per_day=damages, bonus_per_day=bonus, bonus_cap_days=cap))
-    study = Study(project)
+    study = Planner(project)
     curve = study.curve()
     totals = {p.finish: project.normal_direct_cost + p.added_cost
               + time_costs(project, study.clock, p.finish).net for p in curve}
     least = min(totals.values())
-    best = study.best()
-    assert close(best.best.total_cost, least)
-    assert best.best.finish == max(t for t, v in totals.items() if close(v, least))
+    best = study.best_finish()
+    assert close(best.point.total_cost, least)
+    assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
     assert sorted(r.finish for r in best.table) == sorted(totals)
     for row in best.table:
         assert close(row.total_cost, totals[row.finish])
-    assert close(best.plan.added_cost, best.best.added_cost)
-    assert best.plan.finish <= best.best.finish
+    assert close(best.plan.added_cost, best.point.added_cost)
+    assert best.plan.finish <= best.point.finish
 
 
 @PROPERTY
 @given(projects(min_n=3, max_n=9), st.floats(0, 1.2))
 def test_budget_is_the_earliest_finish_within_the_spend(project, share):
     # definition: the earliest whole-day finish whose least added cost (linprog) is within spend
-    study = Study(project)
+    study = Planner(project)
     top = linprog_least_cost(project, study.shortest_finish)
     spend = round(share * top, 2)
-    plan = study.budget(spend)
+    plan = study.earliest_within(spend)
     assert plan.added_cost <= spend + TOL
     assert close(plan.added_cost, linprog_least_cost(project, plan.target))
     if plan.target > study.shortest_finish:
@@ -186,7 +186,7 @@ def test_lp_optimum_is_whole_days_without_integer_variables(project):
     model.lp.set_integer = lambda cols, flag: (switched.append(flag), real(cols, flag))
     shortest = model.shortest_finish()
     assert shortest == round(linprog_min_finish(project))
-    normal = Study(project).normal_finish
+    normal = Planner(project).normal_finish
     for target in range(normal, shortest - 1, -1):
         sol = model.solve(Objective.COST, target=target)
         assert sol is not None, target
@@ -199,12 +199,12 @@ def test_lp_optimum_is_whole_days_without_integer_variables(project):
 @given(projects(min_n=3, max_n=9), st.data())
 def test_plans_are_deterministic(project, data):
     # the same question gives the same plan: asked twice of one study and of a fresh study
-    study = Study(project)
+    study = Planner(project)
     target = data.draw(st.integers(study.shortest_finish, study.normal_finish))
     first = study.plan(target)
     study.curve()  # other solves in between must not change the answer
     again = study.plan(target)
-    fresh = Study(project).plan(target)
+    fresh = Planner(project).plan(target)
     key = [(a.id, a.duration) for a in first.activities]
     assert [(a.id, a.duration) for a in again.activities] == key
     assert [(a.id, a.duration) for a in fresh.activities] == key

@@ -22,7 +22,7 @@ import pytest
 
 from conftest import (DATA, START, TOL, linprog_least_cost, linprog_min_finish, load_json,
                       make_project, project_from_example, project_from_stadium)
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.project import Activity, Calendar, Contract, Link, LinkType
 from hasten.cpm import schedule
 
@@ -36,7 +36,7 @@ def cuts(plan) -> dict[str, int]:
     return {a.id: a.shortened_by for a in plan.activities if a.shortened_by}
 
 
-def curve_costs(study: Study) -> dict[int, float]:
+def curve_costs(study: Planner) -> dict[int, float]:
     return {p.finish: p.added_cost for p in study.curve()}
 
 
@@ -50,9 +50,9 @@ QUES10_CHECK = QUES10["independent_check"]
 
 
 @pytest.fixture(scope="module")
-def ques10() -> Study:
+def ques10() -> Planner:
     # no contract: damages and bonus are 0; time costs are the 80 a day indirect cost only
-    return Study(project_from_example(QUES10, indirect=80))
+    return Planner(project_from_example(QUES10, indirect=80))
 
 
 def test_ques10_normal_plan(ques10):
@@ -82,11 +82,11 @@ def test_ques10_published_stages(ques10, stage):
 def test_ques10_best_finish(ques10):
     # ques10.com worked solution (verified text): optimum 18 days, total 5,620
     # = normal direct 3,900 + added 280 + 80 x 18
-    best = ques10.best()
-    assert best.best.finish == QUES10_TEXT["optimum"]["duration"] == 18
-    assert close(best.best.total_cost, QUES10_TEXT["optimum"]["total_cost"])
-    assert close(best.best.total_cost, 3900 + best.best.added_cost + 80 * 18)
-    assert best.best.time.damages == 0 and best.best.time.bonus == 0
+    best = ques10.best_finish()
+    assert best.point.finish == QUES10_TEXT["optimum"]["duration"] == 18
+    assert close(best.point.total_cost, QUES10_TEXT["optimum"]["total_cost"])
+    assert close(best.point.total_cost, 3900 + best.point.added_cost + 80 * 18)
+    assert best.point.time.damages == 0 and best.point.time.bonus == 0
     assert best.plan.finish == 18 and close(best.plan.added_cost, 280)
 
 
@@ -100,7 +100,7 @@ def test_ques10_full_curve_independent_check(ques10):
     for t in expected:
         assert close(got[t], expected[t]), t
     totals = {int(r["T"]): r["total"] for r in QUES10_CHECK["optimum_with_indirect"]["table"]}
-    for row in ques10.best().table:
+    for row in ques10.best_finish().table:
         assert close(row.total_cost, totals[row.finish]), row.finish
 
 
@@ -122,8 +122,8 @@ RELIABLE_BOOK = RELIABLE["published_answers"]["FROM_MEMORY_UNVERIFIED"]
 
 
 @pytest.fixture(scope="module")
-def reliable() -> Study:
-    return Study(project_from_example(RELIABLE))  # crash table from memory
+def reliable() -> Planner:
+    return Planner(project_from_example(RELIABLE))  # crash table from memory
 
 
 def test_reliable_normal_plan_from_memory(reliable):
@@ -163,8 +163,8 @@ with (DATA / "stadium" / "expected_curve_computed.csv").open(newline="") as fh:
 
 
 @pytest.fixture(scope="module")
-def stadium() -> Study:
-    return Study(project_from_stadium(STADIUM))
+def stadium() -> Planner:
+    return Planner(project_from_stadium(STADIUM))
 
 
 def test_stadium_normal_and_shortest(stadium):
@@ -197,19 +197,19 @@ def test_stadium_bonus_question_from_the_curve(stadium):
 
 
 def test_stadium_bonus_question_as_a_contract_bonus():
-    # Gueret, Prins & Sevaux 7.1 Q2 again, asked through Study.best(): every day a working day,
+    # Gueret, Prins & Sevaux 7.1 Q2 again, asked through Planner.best_finish(): every day a working day,
     # so one working day stands for one week; contract finish = last day of week 64 (START + 63
     # days); bonus 30 per day early. Best total = 0 normal direct + added - bonus = -87 (dataset
-    # README); ties 54..57 go to the latest (our rule, crashing.Study.best docstring)
+    # README); ties 54..57 go to the latest (our rule, planner.Planner.best_finish docstring)
     every_day = Calendar(workdays=tuple(range(7)), name="every day")
     project = dataclasses.replace(project_from_stadium(STADIUM), calendar=every_day,
                                   contract=Contract(finish=START + timedelta(days=63), bonus_per_day=30))
-    best = Study(project).best()
-    assert close(best.best.total_cost, -87)
-    assert best.best.finish in (54, 55, 56, 57)
-    assert best.best.finish == 57  # our tie rule: the later finish
-    assert best.best.time.bonus == 30 * (64 - best.best.finish)
-    assert best.best.time.damages == 0 and best.best.time.indirect == 0
+    best = Planner(project).best_finish()
+    assert close(best.point.total_cost, -87)
+    assert best.point.finish in (54, 55, 56, 57)
+    assert best.point.finish == 57  # our tie rule: the later finish
+    assert best.point.time.bonus == 30 * (64 - best.point.finish)
+    assert best.point.time.damages == 0 and best.point.time.indirect == 0
 
 
 @pytest.mark.parametrize("spend", [0, 14, 15, 122, 123, 296, 297, 10_000])
@@ -217,7 +217,7 @@ def test_stadium_budget(stadium, spend):
     # Gueret, Prins & Sevaux 7.1 table; expected_curve_computed.csv (dataset authors): the
     # earliest week whose least crash cost fits the spend
     expected = min(r["deadline_weeks"] for r in STADIUM_CURVE if r["min_crash_cost_k_usd"] <= spend)
-    plan = stadium.budget(spend)
+    plan = stadium.earliest_within(spend)
     assert plan.target == expected
     assert plan.added_cost <= spend
 
@@ -248,7 +248,7 @@ REVERSE_CURVE = {14: 0, 13: 50, 12: 100, 11: 150, 10: 250, 9: 350}  # hand-worke
 
 def test_reverse_critical_crash_all_is_not_the_shortest():
     # hand-worked example of our own (above)
-    study = Study(REVERSE)
+    study = Planner(REVERSE)
     all_crash = schedule(REVERSE, [a.shortest for a in REVERSE.activities]).finish
     assert study.normal_finish == 14
     assert all_crash == 13
@@ -258,7 +258,7 @@ def test_reverse_critical_crash_all_is_not_the_shortest():
 
 def test_reverse_critical_least_cost_plans():
     # hand-worked example of our own (above), cross-checked with our own linprog formulation
-    study = Study(REVERSE)
+    study = Planner(REVERSE)
     got = curve_costs(study)
     assert got == pytest.approx(REVERSE_CURVE)
     for t, cost in REVERSE_CURVE.items():
@@ -288,12 +288,12 @@ def test_equal_cost_chain_least_cost_and_deterministic():
     # hand-worked: X -> Y, 10 a day each, 3 days of room each; finishing 2 days early (8 of 10)
     # costs 20 whichever days are taken; the same question always gets the same plan
     project = chain(3, 3)
-    study = Study(project)
+    study = Planner(project)
     plan = study.plan(8)
     assert close(plan.added_cost, 20) and close(linprog_least_cost(project, 8), 20)
     assert plan.finish <= 8
     again = study.plan(8)
-    fresh = Study(project).plan(8)
+    fresh = Planner(project).plan(8)
     assert cuts(plan) == cuts(again) == cuts(fresh)
 
 
@@ -302,7 +302,7 @@ def test_equal_cost_chain_prefers_fewer_shortened_activities(room_x, room_y):
     # hand-worked: finishing 2 days early costs 20 either way; taking both days from the one
     # activity that has room for them touches one activity instead of two (our rule: ties go to
     # fewer shortened activities, optimise.CrashModel.least_cost)
-    plan = Study(chain(room_x, room_y)).plan(8)
+    plan = Planner(chain(room_x, room_y)).plan(8)
     assert close(plan.added_cost, 20)
     assert len(cuts(plan)) == 1
     assert sum(cuts(plan).values()) == 2
@@ -317,6 +317,6 @@ def test_equal_cost_fewer_crash_days():
          Activity("B", 5, crash_duration=3, cost=0, crash_cost=20),
          Activity("C", 5, crash_duration=3, cost=0, crash_cost=40)],
         [Link("A", "C"), Link("B", "C")], name="parallel tie (hand-worked)")
-    plan = Study(project).plan(9)
+    plan = Planner(project).plan(9)
     assert close(plan.added_cost, 20) and close(linprog_least_cost(project, 9), 20)
     assert cuts(plan) == {"C": 1}

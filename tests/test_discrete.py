@@ -21,7 +21,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from conftest import PROPERTY, make_project, own_finish
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.formats.research import read_research
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
@@ -51,7 +51,7 @@ def _mpm_time(path: Path) -> int:
 def test_psplib_j10_curve_matches_enumeration(name: str):
     # dtctp_curves_enumerated.csv: computed by full enumeration (see tests/data/psplib_mm/README.md)
     expected = _enumerated()[name]
-    study = Study(read_research(DATA / name))
+    study = Planner(read_research(DATA / name))
     assert study.shortest_finish == min(expected)
     assert study.normal_finish == max(expected)
     points = study.curve()
@@ -64,7 +64,7 @@ def test_psplib_j10_curve_matches_enumeration(name: str):
 @pytest.mark.parametrize("name", J10 + ["j3010_1.mm"])
 def test_psplib_shortest_finish_is_mpm_time(name: str):
     # Kolisch & Sprecher (1997), PSPLIB .mm header: MPM-Time = CPM length, every job in its shortest mode
-    study = Study(read_research(DATA / name))
+    study = Planner(read_research(DATA / name))
     assert study.shortest_finish == _mpm_time(DATA / name)
 
 
@@ -132,7 +132,7 @@ def _brute_force(project) -> dict[int, float]:
 @given(option_projects())
 def test_options_against_brute_force(project):
     reference = _brute_force(project)
-    study = Study(project)
+    study = Planner(project)
     assert study.shortest_finish == min(reference)
     for target in range(min(reference), study.normal_finish + 1):
         plan = study.plan(target, next_day=False)
@@ -143,7 +143,7 @@ def test_options_against_brute_force(project):
 @PROPERTY
 @given(option_projects())
 def test_lp_relaxation_never_above_milp(project):
-    study = Study(project)
+    study = Planner(project)
     model = CrashModel(Network(project))
     for target in range(study.shortest_finish, study.normal_finish + 1):
         milp = study.plan(target, next_day=False).added_cost
@@ -169,7 +169,7 @@ def test_time_limit_never_claims_optimality(tmp_path):
         for p in rng.sample(range(max(0, i - 30), i), min(i, 2)):
             links.append(Link(f"T{p}", f"T{i}"))
     write_project(make_project(acts, links), tmp_path / "big")
-    normal = Study(make_project(acts, links)).normal_finish
+    normal = Planner(make_project(acts, links)).normal_finish
     out = CliRunner().invoke(app, ["plan", str(tmp_path / "big"), "--finish", str(normal - 30),
                                    "--time-limit", "0.05", "--json"])
     if out.exit_code == 2:
@@ -215,7 +215,7 @@ def ties_match_brute_force(project):
         changed = sum(1 for a, w in zip(project.activities, combo) if w[0] != a.duration or w[2] >= 0)
         days = sum(a.duration - w[0] for a, w in zip(project.activities, combo))
         combos.append((own_finish(project, durations), sum(w[1] for w in combo), changed, days))
-    study = Study(project)
+    study = Planner(project)
     for target in range(study.shortest_finish, study.normal_finish + 1):
         least = min(c for f, c, _, _ in combos if f <= target)
         expected = min((n, k) for f, c, n, k in combos if f <= target and c <= least + 1e-6)

@@ -32,7 +32,7 @@ from hypothesis import strategies as st
 
 from conftest import PROPERTY, START, TOL, make_project, own_cut_cost, own_forward
 from hasten.time_costs import time_costs
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.errors import HastenError
 from hasten.project import Activity, Contract, Costs, CrashStep, Link, LinkType
 from hasten.recovery import recovery
@@ -148,7 +148,7 @@ def test_plan_with_milestone_damages_matches_brute_force(project):
     # reference: brute force over every duration vector (brute_force above), early-start
     # schedule by conftest.own_forward, damages by the module docstring's date convention
     rows = brute_force(project)
-    study = Study(project)
+    study = Planner(project)
     normal = max(f for f, *_ in rows)
     shortest = min(f for f, *_ in rows)
     assert study.normal_finish == normal
@@ -156,11 +156,11 @@ def test_plan_with_milestone_damages_matches_brute_force(project):
     for target in range(normal, shortest - 1, -1):
         plan = study.plan(target)
         truth = _least(rows, target)
-        assert close(plan.added_cost + plan.penalty, truth), target
+        assert close(plan.added_cost + plan.milestone_damages, truth), target
         assert plan.finish <= target
         # the plan's own penalty is the damages of its early dates
         ef = {a.id: a.ef for a in plan.schedule.activities}
-        assert close(plan.penalty, own_damages(project, ef)), target
+        assert close(plan.milestone_damages, own_damages(project, ef)), target
 
 
 @PROPERTY
@@ -177,13 +177,13 @@ def test_best_matches_brute_force_total(project, indirect, contract_shift, damag
                             damages_per_day=float(damages * 10), bonus_per_day=float(bonus * 10))
     project = dataclasses.replace(project, costs=Costs(indirect_per_day=float(indirect)), contract=contract)
     rows = brute_force(project)
-    study = Study(project)
+    study = Planner(project)
     for f in {f for f, *_ in rows}:
         assert close(time_costs(project, study.clock, f).net, own_time_costs(project, f)), f
     truth = min(added + dmg + own_time_costs(project, f) for f, added, dmg, _ in rows)
-    best = study.best()
-    assert close(best.best.total_cost - project.normal_direct_cost, truth)
-    assert close(best.plan.added_cost + best.plan.penalty + own_time_costs(project, best.best.finish), truth)
+    best = study.best_finish()
+    assert close(best.point.total_cost - project.normal_direct_cost, truth)
+    assert close(best.plan.added_cost + best.plan.milestone_damages + own_time_costs(project, best.point.finish), truth)
 
 
 @PROPERTY
@@ -191,7 +191,7 @@ def test_best_matches_brute_force_total(project, indirect, contract_shift, damag
 def test_strict_plans_never_leave_a_milestone_late(project):
     # reference: brute force restricted to vectors with every milestone on time
     rows = brute_force(project)
-    study = Study(project)
+    study = Planner(project)
     normal = max(f for f, *_ in rows)
     shortest = min(f for f, *_ in rows)
     for target in range(normal, shortest - 1, -1):
@@ -202,7 +202,7 @@ def test_strict_plans_never_leave_a_milestone_late(project):
             continue
         plan = study.plan(target, strict=True)
         assert close(plan.added_cost, truth), target
-        assert plan.penalty == 0
+        assert plan.milestone_damages == 0
         rows_by_id = plan.schedule.by_id()
         for a in project.activities:
             if a.deadline is not None:
@@ -223,12 +223,12 @@ def test_best_reports_the_costs_of_its_own_plan():
         Activity("M1", 0, deadline=date(2024, 1, 1), damages_per_day=10.0),
         Activity("M2", 0, deadline=date(2024, 1, 2), damages_per_day=10.0),
     ], [Link("A", "M1"), Link("A", "M2")])
-    best = Study(project).best()
-    assert best.best.finish == 2 and close(best.best.total_cost, 10.0)
+    best = Planner(project).best_finish()
+    assert best.point.finish == 2 and close(best.point.total_cost, 10.0)
     ef = {a.id: a.ef for a in best.plan.schedule.activities}
-    assert close(best.best.added_cost, best.plan.added_cost)
-    assert close(best.best.milestone_damages, best.plan.penalty)
-    assert close(best.plan.penalty, own_damages(project, ef))
+    assert close(best.point.added_cost, best.plan.added_cost)
+    assert close(best.point.milestone_damages, best.plan.milestone_damages)
+    assert close(best.plan.milestone_damages, own_damages(project, ef))
 
 
 def late_milestone_project(**kwargs):
@@ -247,14 +247,14 @@ def test_strict_plan_raises_when_the_deadline_cannot_be_met():
     # Tue 2024-01-02 cannot be met by any plan (finish 5 is the shortest: 3 + 2), yet a
     # non-strict plan at that finish exists and pays 1 calendar day (01-03 - 01-02) x 100.
     project = late_milestone_project()
-    study = Study(project)
+    study = Planner(project)
     assert study.shortest_finish == 5
     with pytest.raises(HastenError):
         study.plan(5, strict=True)
     with pytest.raises(HastenError):
         study.plan(7, strict=True)
     plan = study.plan(5)
-    assert close(plan.added_cost, 20.0) and close(plan.penalty, 100.0)
+    assert close(plan.added_cost, 20.0) and close(plan.milestone_damages, 100.0)
 
 
 def test_a_failed_strict_plan_leaves_later_plans_alone():
@@ -266,13 +266,13 @@ def test_a_failed_strict_plan_leaves_later_plans_alone():
     #   A = 4: 10 + M Thu 01-04, 2 days x 100 = 210
     #   A = 3: 20 + M Wed 01-03, 1 day x 100 = 120   <- least, by finish 5 and by finish 7
     project = late_milestone_project()
-    study = Study(project)
+    study = Planner(project)
     with pytest.raises(HastenError):
         study.plan(5, strict=True)
     plan = study.plan(5)
-    assert close(plan.added_cost, 20.0) and close(plan.penalty, 100.0)
+    assert close(plan.added_cost, 20.0) and close(plan.milestone_damages, 100.0)
     plan = study.plan(7)
-    assert close(plan.added_cost, 20.0) and close(plan.penalty, 100.0)
+    assert close(plan.added_cost, 20.0) and close(plan.milestone_damages, 100.0)
 
 
 def test_recovery_when_full_recovery_is_impossible():
@@ -284,7 +284,7 @@ def test_recovery_when_full_recovery_is_impossible():
     #   A = 3: cost 20; finish 5 = Fri 01-05, on time;      M Wed 01-03, 1 x 100 = 100; 120
     # least total cost: A = 3, finish 5, total 120; do nothing 500; net effect 380.
     project = late_milestone_project(contract=Contract(finish=date(2024, 1, 5), damages_per_day=50.0))
-    rec = recovery(Study(project))
+    rec = recovery(Planner(project))
     courses = {c.label: c for c in rec.courses}
     assert not courses["recover fully"].possible
     assert close(courses["do nothing"].total_cost, 500.0)
@@ -303,12 +303,12 @@ def test_strict_plan_meets_a_deadline_without_damages():
         Activity("M", 0, deadline=date(2024, 1, 3)),
         Activity("B", 2),
     ], [Link("A", "M"), Link("M", "B")])
-    study = Study(project)
+    study = Planner(project)
     plan = study.plan(7, strict=True)
     assert milestone_date(plan.schedule.by_id()["M"].ef) <= date(2024, 1, 3)
     assert close(plan.added_cost, 20.0)
     # the same through recovery(): "recover fully" must meet M's deadline too
-    full = {c.label: c for c in recovery(Study(project)).courses}["recover fully"]
+    full = {c.label: c for c in recovery(Planner(project)).courses}["recover fully"]
     assert full.possible
     assert milestone_date(full.plan.schedule.by_id()["M"].ef) <= date(2024, 1, 3)
 
@@ -320,7 +320,7 @@ def test_strict_plan_meets_a_deadline_without_damages():
 def course_totals(project, course, plan_ef):
     """Our own total for a course: acceleration + contract damages + milestone damages +
     indirect - bonus (recovery.py docstring), from its finish and the plan's early dates."""
-    return course.acceleration_cost + own_time_costs(project, course.finish) + own_damages(project, plan_ef)
+    return course.added_cost + own_time_costs(project, course.finish) + own_damages(project, plan_ef)
 
 
 def check_recovery_relations(project, study, rec):
@@ -329,7 +329,7 @@ def check_recovery_relations(project, study, rec):
     normal_ef = {a.id: a.ef for a in study.normal.activities}
     base_dmg = own_damages(project, normal_ef)
     # do nothing: no acceleration, the forecast damages
-    assert nothing.acceleration_cost == 0
+    assert nothing.added_cost == 0
     assert nothing.finish == study.normal_finish
     assert close(nothing.milestone_damages, base_dmg)
     contract_dmg = 0.0
@@ -349,14 +349,14 @@ def check_recovery_relations(project, study, rec):
         for a in project.activities:
             if a.deadline is not None:
                 assert milestone_date(ef[a.id]) <= a.deadline, a.id
-        assert close(full.acceleration_cost, full.plan.added_cost)
+        assert close(full.added_cost, full.plan.added_cost)
         totals["recover fully"] = course_totals(project, full, ef)
         assert close(full.total_cost, totals["recover fully"])
     # every course's money describes the plan it comes with
     for course in (full, least):
         if course.possible:
             ef = {a.id: a.ef for a in course.plan.schedule.activities}
-            assert close(course.acceleration_cost, course.plan.added_cost), course.label
+            assert close(course.added_cost, course.plan.added_cost), course.label
             assert close(course.milestone_damages, own_damages(project, ef)), course.label
             assert course.plan.finish <= course.finish, course.label
     # least total cost: no more than the others
@@ -381,7 +381,7 @@ def check_recovery_relations(project, study, rec):
         assert close(course.damages_avoided, avoided)
         assert close(course.indirect_saved, indirect * (nothing.finish - course.finish))
         assert close(course.net_effect, course.damages_avoided + course.indirect_saved
-                     + course.bonus_gained - course.acceleration_cost)
+                     + course.bonus_gained - course.added_cost)
         assert close(course.net_effect, totals["do nothing"] - totals[course.label])
     return courses
 
@@ -426,7 +426,7 @@ def test_recovery_hand_worked():
     #   Finish 26 (last day Mon 02-05, 3 days late): acceleration 2,000 + 1,600 = 3,600;
     #   damages 3,000; indirect 26 x 300 = 7,800; total 14,400.
     project = hand_worked_late_project()
-    study = Study(project)
+    study = Planner(project)
     rec = recovery(study)
     assert study.normal_finish == 33
     assert rec.forecast_date == date(2024, 2, 14) and rec.days_late == 12
@@ -436,9 +436,9 @@ def test_recovery_hand_worked():
     nothing, full, least = courses["do nothing"], courses["recover fully"], courses["least total cost"]
     assert close(nothing.contract_damages, 12000.0) and close(nothing.milestone_damages, 3500.0)
     assert close(nothing.indirect, 9900.0) and close(nothing.total_cost, 25400.0)
-    assert full.possible and full.finish == 25 and close(full.acceleration_cost, 8600.0)
+    assert full.possible and full.finish == 25 and close(full.added_cost, 8600.0)
     assert close(full.total_cost, 16100.0)
-    assert least.finish == 26 and close(least.acceleration_cost, 3600.0)
+    assert least.finish == 26 and close(least.added_cost, 3600.0)
     assert close(least.contract_damages, 3000.0) and close(least.total_cost, 14400.0)
     # net effect, hand-worked: 25,400 - 14,400 = 11,000 for least total; 25,400 - 16,100 = 9,300
     assert close(least.net_effect, 11000.0) and close(full.net_effect, 9300.0)
@@ -456,7 +456,7 @@ def test_recovery_relations_on_random_projects(project, indirect, shift, damages
                         damages_per_day=float(damages * 10), bonus_per_day=float(bonus * 10),
                         bonus_cap_days=cap)
     project = dataclasses.replace(project, costs=Costs(indirect_per_day=float(indirect)), contract=contract)
-    study = Study(project)
+    study = Planner(project)
     rec = recovery(study)
     courses = check_recovery_relations(project, study, rec)
     rows = brute_force(project)
@@ -467,7 +467,7 @@ def test_recovery_relations_on_random_projects(project, indirect, shift, damages
     assert courses["recover fully"].possible == bool(meets)
     if meets:
         full = courses["recover fully"]
-        assert close(full.acceleration_cost, min(r[1] for r in meets))
+        assert close(full.added_cost, min(r[1] for r in meets))
 
 
 def test_a_deadline_before_the_first_working_day_is_missed_even_at_the_start():
@@ -480,9 +480,9 @@ def test_a_deadline_before_the_first_working_day_is_missed_even_at_the_start():
         Activity("A", 3, crash_duration=2, cost=0.0, crash_cost=10.0),
     ], [Link("M", "A")])
     project = dataclasses.replace(project, start=date(2024, 1, 2))
-    study = Study(project)
+    study = Planner(project)
     for target in (3, 2):
         plan = study.plan(target)
-        assert close(plan.penalty, 100.0), target
+        assert close(plan.milestone_damages, 100.0), target
     with pytest.raises(HastenError):
         study.plan(3, strict=True)

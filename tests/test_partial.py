@@ -25,7 +25,7 @@ from hypothesis import strategies as st
 import hasten.partial as focus
 from conftest import PROPERTY, TOL, brute_force_curve, linprog_least_cost, make_project, projects
 from hasten.checks import check_plan
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
 from hasten.crash_model import CrashModel
@@ -86,7 +86,7 @@ def test_focused_curve_matches_brute_force_with_free_days(project, data):
                  else a for k, a in enumerate(project.activities))
     project = dataclasses.replace(project, activities=acts)
     expected = brute_force_curve(project)  # reference: every whole-day duration vector
-    study = Study(project)
+    study = Planner(project)
     assert study.shortest_finish == min(expected)
     study._model = None  # ask the curve of the focused parts, not of the whole model
     with any_part():
@@ -114,7 +114,7 @@ def _layered(n: int, seed: int):
 @pytest.mark.parametrize("seed", [1, 2, 3])
 def test_a_plan_on_a_larger_network_is_solved_on_a_part_and_matches_linprog(seed):
     project = _layered(300, seed)
-    study = Study(project)
+    study = Planner(project)
     target = study.normal_finish - 8
     plan = study.plan(target)
     part_model, keep = study._partial._part  # solved on a part of the network

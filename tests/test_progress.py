@@ -23,7 +23,7 @@ from hypothesis import strategies as st
 
 from conftest import PROPERTY, START, TOL, make_project
 from hasten.calendar import CalendarClock
-from hasten.crashing import Study
+from hasten.planner import Planner
 from hasten.errors import InfeasibleTargetError, InputError
 from hasten.project import Activity, CrashStep, Link, LinkType
 from hasten.cpm import schedule
@@ -385,7 +385,7 @@ def test_started_activity_can_be_shortened_by_its_remaining_share(duration, cras
                  remaining=remaining),
         Activity("Q", 6, crash_duration=2, cost=3000.0, crash_cost=3000.0 + 500.0 * 4),
     ], [Link("P", "Q")], data_date=date(2024, 1, 4))
-    study = Study(project)
+    study = Planner(project)
     normal = 3 + remaining + 6
     assert study.normal_finish == normal
     assert study.shortest_finish == normal - allowance - 4
@@ -413,7 +413,7 @@ def test_started_activity_takes_its_crash_steps_in_order():
         Activity("P", 8, cost=800.0, steps=(CrashStep(2, 100.0), CrashStep(3, 300.0)),
                  actual_start=date(2024, 1, 1), remaining=6),
     ], [], data_date=date(2024, 1, 4))
-    study = Study(project)
+    study = Planner(project)
     assert study.normal_finish == 9
     assert study.shortest_finish == 6
     for target, cost in ((8, 100.0), (7, 200.0), (6, 500.0)):

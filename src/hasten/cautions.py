@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from typing import Iterable
 
-__all__ = ["plan_cautions", "GENERAL", "CURING", "HEAVY", "STACKING", "NO_REST_DAY"]
+__all__ = ["plan_cautions", "cautions_for_rows", "GENERAL", "CURING", "HEAVY", "STACKING", "NO_REST_DAY"]
 
 GENERAL = (
     "Acceleration usually means overtime, extra shifts or extra crews. Long hours raise "
@@ -44,8 +44,18 @@ _CONCRETE = re.compile(r"concrete|pour|slab|formwork|form work|curing|cure|footi
                        re.IGNORECASE)
 
 
-def plan_cautions(shortened: Iterable[tuple[str, str, int, int]], *,
-                  seven_day: Iterable[str] = ()) -> list[str]:
+def plan_cautions(project, timeline, changes) -> list[str]:
+    """Cautions for a plan of ``project`` (its :class:`~hasten.calendar.Timeline` gives each
+    activity's calendar) from its :class:`~hasten.results.ActivityChange` rows."""
+    changed = [a for a in changes if a.shortened_by or a.option]
+    pos = {a.id: k for k, a in enumerate(project.activities)}
+    seven = [a.name or a.id for a in changed if a.duration < a.normal
+             and len(timeline.clock_of(pos[a.id]).calendar.workdays) == 7]
+    return cautions_for_rows(((a.name, a.trade, a.normal, a.duration) for a in changed), seven_day=seven)
+
+
+def cautions_for_rows(shortened: Iterable[tuple[str, str, int, int]], *,
+                      seven_day: Iterable[str] = ()) -> list[str]:
     """Cautions for a plan, from ``(name, trade, normal, new duration)`` of each
     shortened activity; ``seven_day``: names of shortened activities whose calendar
     works every day of the week. Empty when nothing is shortened."""

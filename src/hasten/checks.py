@@ -85,7 +85,7 @@ class PlanChecker:
 
     def check(self, durations: Sequence[int], starts: Sequence[int], *, target: int | None = None,
               claimed_cost: float | None = None, choices: Sequence[int] | None = None,
-              claimed_penalty: float | None = None) -> tuple[int, float, float]:
+              claimed_damages: float | None = None) -> tuple[int, float, float]:
         """Check a plan given as durations and starts of the part still to schedule.
 
         Returns its finish, its added direct cost and the damages of activities past
@@ -142,11 +142,11 @@ class PlanChecker:
         if claimed_cost is not None and abs(cost - claimed_cost) > 1e-6 * max(1.0, abs(cost)):
             raise PlanCheckError(f"plan check: added cost recomputed as {cost:.2f}, "
                                  f"the optimiser claimed {claimed_cost:.2f}")
-        penalty = self.penalty(f)
-        if claimed_penalty is not None and penalty > claimed_penalty + 1e-6 * max(1.0, abs(penalty)):
-            raise PlanCheckError(f"plan check: damages recomputed as {penalty:.2f}, "
-                                 f"the optimiser claimed {claimed_penalty:.2f}")
-        return finish, cost, penalty
+        milestone_damages = self.milestone_damages(f)
+        if claimed_damages is not None and milestone_damages > claimed_damages + 1e-6 * max(1.0, abs(milestone_damages)):
+            raise PlanCheckError(f"plan check: damages recomputed as {milestone_damages:.2f}, "
+                                 f"the optimiser claimed {claimed_damages:.2f}")
+        return finish, cost, milestone_damages
 
     def _across(self, earlier: np.ndarray) -> np.ndarray:
         """Links between two calendars: the predecessor's event as a date (its finish on
@@ -189,7 +189,7 @@ class PlanChecker:
                 out[k] = _step_cost(self.net.steps[k], int(self.hi[k] - d))
         return out
 
-    def penalty(self, finishes) -> float:
+    def milestone_damages(self, finishes) -> float:
         """Damages of activities finishing after their own deadlines (per calendar day)."""
         total = 0.0
         for k in self.deadlines:

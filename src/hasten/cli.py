@@ -8,28 +8,26 @@ from __future__ import annotations
 
 import gc
 import json
+import math
 import os
+import re
 import shutil
 import sys
 from contextlib import contextmanager
 from datetime import date
 from importlib import resources
 from pathlib import Path
-from typing import TYPE_CHECKING, Annotated, Optional
+from typing import Annotated, Optional
 
 import typer
 
-from . import render
-from .errors import HastenError, InputError
+from . import render, render_json
+from .cpm import schedule as cpm
+from .errors import HastenError, InfeasibleTargetError, InputError, TimeLimitError
 from .formats import convert as convert_project
 from .formats import read_project, write_project
 from .formats.files import write_file
-from .dominated import drop_dominated
-from .network import Network
-from .cpm import schedule as cpm
-
-if TYPE_CHECKING:
-    from .crashing import Study
+from .questions import Earlier
 
 __all__ = ["app", "main"]
 
@@ -42,7 +40,7 @@ app = typer.Typer(
 
 ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook or .json file.")]
 JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
-LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds the solver may use.")]
+LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds each mixed-integer solve may use.")]
 
 
 def _echo(text: str) -> None:
@@ -57,12 +55,28 @@ def _json(obj) -> None:
 
 @contextmanager
 def _errors():
-    """Turn hasten's own errors into a message and exit code 2."""
+    """Turn hasten's own errors into a message and exit code 2; add what to type next."""
     try:
         yield
+    except InfeasibleTargetError as exc:
+        typer.echo(f"error: {exc}; ask for --finish {exc.shortest} or later", err=True)
+        raise typer.Exit(2) from None
+    except TimeLimitError as exc:
+        typer.echo(f"error: {exc}; allow more time with --time-limit SECONDS", err=True)
+        raise typer.Exit(2) from None
     except HastenError as exc:
         typer.echo(f"error: {exc}", err=True)
         raise typer.Exit(2) from None
+
+
+def _emit(as_json: bool, as_dict, as_text, notes=()) -> None:
+    """Print a result as one JSON object, or as text after its notes."""
+    if as_json:
+        _json(as_dict())
+        return
+    for note in notes:
+        _echo(f"Note: {note}")
+    _echo(as_text())
 
 
 def _date(text: str, option: str) -> date:
@@ -116,17 +130,10 @@ def schedule(
     """Forward and backward pass: dates, floats, critical paths."""
     with _errors():
         p = read_project(project)
-        net = Network(p)
-        clock = net.clock
-        limit = None if deadline is None else clock.offset_of(_date(deadline, "--deadline"), finish=True)
-        sched = cpm(net, deadline=limit)
-        warnings = net.progress.warnings
+        sched = cpm(p, deadline=None if deadline is None else _date(deadline, "--deadline"))
         if out is not None:
-            _write_table(out, render.schedule_rows(p, sched, clock))
-        if as_json:
-            _json(render.schedule_json(p, sched, clock, warnings))
-        else:
-            _echo(render.schedule_text(p, sched, clock, warnings))
+            _write_table(out, render_json.schedule_rows(p, sched))
+        _emit(as_json, lambda: render_json.schedule_json(p, sched), lambda: render.schedule_text(p, sched))
 
 
 def _write_table(out: Path, rows: list[dict]) -> None:
@@ -145,16 +152,30 @@ def _write_table(out: Path, rows: list[dict]) -> None:
                          fix="name the output FILE.csv or FILE.xlsx")
 
 
-def _target(study: Study, finish: int | None, by: str | None, earlier: str | None) -> tuple[int, str]:
+_EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
+
+
+def _earlier(text: str) -> Earlier:
+    """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks."""
+    m = _EARLIER.match(text)
+    if not m:
+        raise InputError("--earlier is not understood", value=text,
+                         fix="write working days as 10d or calendar weeks as 2w")
+    n = int(m.group(1))
+    return Earlier(days=n) if m.group(2).lower() == "d" else Earlier(weeks=n)
+
+
+def _target(finish: int | None, by: str | None, earlier: str | None):
+    """The finish target given by exactly one of --finish, --by and --earlier."""
     given = [x is not None for x in (finish, by, earlier)]
     if sum(given) != 1:
         raise HastenError("give exactly one target: --finish N (working days), --by YYYY-MM-DD, "
                           "or --earlier 10d / 2w")
     if finish is not None:
-        return finish, f"{finish} working days"
+        return finish
     if by is not None:
-        return study.target_by_date(_date(by, "--by")), f"by {by}"
-    return study.target_earlier(earlier), f"{earlier} earlier"
+        return _date(by, "--by")
+    return _earlier(earlier)
 
 
 @app.command()
@@ -168,21 +189,11 @@ def plan(
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
-        study, notes = _study(project, time_limit)
-        target, text = _target(study, finish, by, earlier)
-        try:
-            result = study.plan(target)
-        except HastenError as exc:
-            if getattr(exc, "shortest", None) is not None:
-                raise HastenError(f"target {text} ({target} working days) is below the shortest "
-                                  f"possible finish, {exc.shortest} working days "
-                                  f"({study.clock.project_finish_date(exc.shortest).isoformat()})") from None
-            raise
-        if as_json:
-            _json(render.plan_json(study, result) | {"notes": notes})
-        else:
-            _notes(notes)
-            _echo(render.plan_text(study, result))
+        from .questions import plan as least_cost_plan
+
+        target = _target(finish, by, earlier)
+        result = least_cost_plan(read_project(project), target, time_limit=time_limit)
+        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result), result.notes)
 
 
 @app.command()
@@ -197,35 +208,31 @@ def curve(
 ) -> None:
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
-        study, notes = _study(project, time_limit)
+        from .questions import curve as least_cost_curve
+
+        p = read_project(project)
         with _progress(not as_json) as tick:
-            points = study.curve(longest, shortest, progress=tick)
+            result = least_cost_curve(p, longest, shortest, time_limit=time_limit, progress=tick)
         if csv is not None:
             _write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv,
-                         render.curve_rows(study, points))
+                         render_json.curve_rows(result))
         if plot is not None:
             from .charts import curve_chart
 
-            write_file(plot.resolve(), lambda tmp: curve_chart(study, points, tmp))
-        if as_json:
-            _json(render.curve_json(study, points) | {"notes": notes})
-        else:
-            _notes(notes)
-            _echo(render.curve_text(study, points))
+            write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
+        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result), result.notes)
 
 
 @app.command()
 def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
-        study, notes = _study(project, time_limit)
+        from .questions import best_finish
+
+        p = read_project(project)
         with _progress(not as_json) as tick:
-            result = study.best(progress=tick)
-        if as_json:
-            _json(render.best_json(study, result) | {"notes": notes})
-        else:
-            _notes(notes)
-            _echo(render.best_text(study, result))
+            result = best_finish(p, time_limit=time_limit, progress=tick)
+        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result), result.notes)
 
 
 @app.command()
@@ -237,29 +244,29 @@ def budget(
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
-        study, notes = _study(project, time_limit)
-        result = study.budget(spend)
-        if as_json:
-            _json(render.plan_json(study, result) | {"notes": notes})
-        else:
-            _notes(notes)
-            _echo(render.plan_text(study, result, title=f"Earliest finish within {render.money(spend, study.project.currency)}"))
+        from .questions import earliest_within
+
+        p = read_project(project)
+        if not math.isfinite(spend) or spend < 0:
+            raise InputError("--spend must be a number 0 or more", value=spend,
+                             fix="give the most you would add to the direct cost, e.g. --spend 50000")
+        result = earliest_within(p, spend, time_limit=time_limit)
+        title = f"Earliest finish within {render.money(spend, p.currency)}"
+        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result, title=title),
+              result.notes)
 
 
 @app.command()
 def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
-        study, notes = _study(project, time_limit)
-        from .recovery import recovery
+        from .questions import recover as recovery
 
+        p = read_project(project)
         with _progress(not as_json) as tick:
-            result = recovery(study, progress=tick)
-        if as_json:
-            _json(render.recovery_json(study, result) | {"notes": notes})
-        else:
-            _notes(notes)
-            _echo(render.recovery_text(study, result))
+            result = recovery(p, time_limit=time_limit, progress=tick)
+        _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
+              result.notes)
 
 
 @app.command()
@@ -293,19 +300,6 @@ def import_(
               f"{options} options")
 
 
-def _study(path: Path, time_limit: float | None) -> tuple[Study, list[str]]:
-    """Read a project, drop options beaten on time and cost, and set up the study."""
-    from .crashing import Study  # the optimiser (and its solvers) only where needed
-
-    project, notes = drop_dominated(read_project(path))
-    return Study(project, time_limit=time_limit), notes
-
-
-def _notes(notes: list[str]) -> None:
-    for note in notes:
-        _echo(f"Note: {note}")
-
-
 @app.command()
 def demo(
     folder: Annotated[Optional[Path], typer.Argument(help="Where to write the demo project (default: a new folder here).")] = None,
@@ -326,23 +320,19 @@ def demo(
             if item.is_file() and not item.name.startswith((".", "_")):
                 with resources.as_file(item) as path:
                     shutil.copyfile(path, folder / item.name)
-        from .crashing import Study
+        from .planner import Planner
 
-        p = read_project(folder)
-        study = Study(p)
-        clock = study.clock
+        planner = Planner(read_project(folder))
         _echo(f"Demo project written to {folder}/ (an invented job).")
-        _echo(render.schedule_text(p, study.normal, clock).split("\n\n")[0])
-        contract = p.contract.finish
-        if contract is not None and study.target_by_date(contract) < study.normal_finish:
-            target = max(study.target_by_date(contract), study.shortest_finish)
+        _echo(render.schedule_text(planner.project, planner.normal).split("\n\n")[0])
+        target = planner.contract_target()
+        if target is not None:
             _echo("")
-            _echo(render.plan_text(study, study.plan(target), title="Least-cost plan to meet the contract finish"))
-        result = study.best()
-        b = result.best
+            _echo(render.plan_text(planner.plan(target), title="Least-cost plan to meet the contract finish"))
+        b = planner.best_finish().point
         _echo("")
         _echo(f"Least total cost (direct + overhead + damages - bonus): finish at {b.finish} working days "
-              f"({b.finish_date.isoformat()}), total {render.money(b.total_cost, p.currency)}.")
+              f"({b.finish_date.isoformat()}), total {render.money(b.total_cost, planner.project.currency)}.")
         _echo(f"Next: hasten best {folder}   |   hasten curve {folder}   |   hasten schedule {folder}")
 
 

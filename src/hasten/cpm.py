@@ -9,6 +9,7 @@ of critical activities joined by driving links (a link with no gap at the early 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from datetime import date
 from typing import NamedTuple, Sequence
 
 import numpy as np
@@ -55,6 +56,9 @@ class Schedule:
     # the project finish (float counts in each activity's own calendar, so a seven-day
     # activity can drive the finish with a weekend of float and not be critical)
     longest_paths: tuple[tuple[str, ...], ...] = ()
+    warnings: tuple[str, ...] = ()  # about the input, e.g. out-of-sequence progress
+    start_date: date | None = None  # the project's first working day
+    finish_date: date | None = None  # the last day worked
 
     def by_id(self) -> dict[str, ActivityDates]:
         return {a.id: a for a in self.activities}
@@ -65,15 +69,38 @@ class Schedule:
 
 
 def schedule(project_or_network: Project | Network, durations: Sequence[int] | None = None,
-             deadline: int | None = None) -> Schedule:
-    """Forward and backward pass.
+             deadline: int | date | None = None) -> Schedule:
+    """Forward and backward pass: early and late dates, floats, critical paths.
 
-    ``durations`` overrides the normal durations (in project activity order), e.g. for
-    an accelerated plan. ``deadline`` (working days) replaces the project finish as the
-    date the backward pass starts from, which can make float negative. Critical
-    activities are those with the least total float (zero when there is no deadline).
+    Parameters
+    ----------
+    project_or_network : Project or Network
+    durations : sequence of int, optional
+        Durations (in project activity order) instead of the normal ones, e.g. a plan's.
+    deadline : int or datetime.date, optional
+        Working days from the start, or the last day allowed: the backward pass starts
+        there instead of at the early finish, so float can go negative. Critical activities
+        are those with the least total float (zero when there is no deadline).
+
+    Examples
+    --------
+    >>> from datetime import date
+    >>> from hasten.project import Activity, Link, Project
+    >>> p = Project("two", date(2027, 1, 4), (Activity("A", 5), Activity("B", 3)), (Link("A", "B"),))
+    >>> s = schedule(p)
+    >>> s.finish, s.critical_paths, s.finish_date
+    (8, (('A', 'B'),), datetime.date(2027, 1, 13))
+    >>> [a.total_float for a in schedule(p, deadline=6).activities]
+    [-2, -2]
+    >>> schedule(Project("loop", date(2027, 1, 4), (Activity("A", 1), Activity("B", 1)),
+    ...                  (Link("A", "B"), Link("B", "A"))))
+    Traceback (most recent call last):
+    ...
+    hasten.errors.CycleError: the links form a loop: A -> B -> A. Fix: remove or reverse one of these links so that no activity depends on itself
     """
     net = project_or_network if isinstance(project_or_network, Network) else Network(project_or_network)
+    if isinstance(deadline, date):
+        deadline = net.clock.offset_of(deadline, finish=True)
     d = list(net.durations if durations is None else durations)
     n = len(d)
     es = net.forward(d)
@@ -110,7 +137,8 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
         rows.append(ActivityDates(net.ids[i], d[i], start, es[i] + d[i], late_start, ls[i] + d[i], tf[i],
                                   free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
                                   states[i].state))
-    return Schedule(finish, tuple(rows), paths, deadline, truncated, longest)
+    return Schedule(finish, tuple(rows), paths, deadline, truncated, longest, net.progress.warnings,
+                    net.clock.start_date(0), net.clock.project_finish_date(finish))
 
 
 def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: list[int], finish: int):

@@ -196,7 +196,7 @@ def holds(model, result, objective: str, target: int | None, strict: bool):
         if strict and f > limit:
             return False, None
         damages += act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
-    return damages <= sol.penalty + 1e-6 * max(1.0, abs(damages)), None
+    return damages <= sol.milestone_damages + 1e-6 * max(1.0, abs(damages)), None
 
 
 def event_bounds(model, net: Network):

@@ -41,7 +41,7 @@ import numpy as np
 
 from . import crash_calendars, crash_ties
 from .crash_calendars import INT_TOL as _INT_TOL
-from .errors import HastenError, SolverError
+from .errors import HastenError, SolverError, TimeLimitError
 from .network import Network
 from .solver_model import INF, LinearModel
 
@@ -64,7 +64,7 @@ class Solution:
     objective: float
     added_cost: float
     choices: tuple[int, ...] = ()  # per activity: index of the chosen option, -1 for none
-    penalty: float = 0.0  # damages of activities past their own deadlines, as solved
+    milestone_damages: float = 0.0  # damages of activities past their own deadlines, as solved
     proven: bool = True  # False when a time limit stopped the solver first
     bound: float | None = None  # proven lower bound on the objective when not proven
     gap: float | None = None  # relative gap when not proven
@@ -115,7 +115,7 @@ class CrashModel:
         cost_cols = np.concatenate([self.cuts, self.opt_x, self.opt_w])
         cost_coef = np.concatenate([self.cut_cost, self.opt_cost, self.w_cost])
         self.cost_cap = lm.add_row(cost_cols, cost_coef, -INF, INF)  # acceleration spend only
-        self._penalty_columns(network)
+        self._milestone_columns(network)
         lm.define_objective(Objective.COST.value, np.concatenate([cost_cols, self.late]),
                             np.concatenate([cost_coef, self.late_cost]))
         lm.define_objective(Objective.FINISH.value, [self.finish], [1.0])
@@ -148,7 +148,7 @@ class CrashModel:
         self.w_cost = np.asarray(w_cost, dtype=float)
         self.opt_w = lm.add_columns(np.zeros(len(w_of)), self.w_room)
 
-    def _penalty_columns(self, net: Network) -> None:
+    def _milestone_columns(self, net: Network) -> None:
         """Damages of activities with a deadline (interim milestones): per calendar day late.
 
         For a finish offset ``f`` the damages are ``g(f) = rate * max(0, calendar days from
@@ -316,8 +316,8 @@ class CrashModel:
         if result.status == "infeasible":
             return None
         if result.values is None:
-            raise SolverError("the time limit ran out before any plan was found; "
-                              "allow more time with --time-limit")
+            raise TimeLimitError(f"the solver's time limit ({lm.time_limit:g} s) ran out before any "
+                                 "plan was found")
         return result
 
     def solution_of(self, values: np.ndarray, result=None) -> Solution | None:
@@ -344,7 +344,7 @@ class CrashModel:
         added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
         late = values[self.late]
         late = np.where(np.abs(late - np.rint(late)) <= _INT_TOL, np.rint(late), late)
-        penalty = float(late @ self.late_cost) if len(self.late) else 0.0
+        milestone_damages = float(late @ self.late_cost) if len(self.late) else 0.0
         proven = result is None or result.status == "optimal"
         s = values[self.start]
         starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
@@ -352,7 +352,7 @@ class CrashModel:
             starts = tuple(self.net.forward(durations))
         objective = float(values[: self.lp.num_cols] @ self.lp._objective_vector())  # (copies add columns)
         return Solution(durations, objective, added,
-                        tuple(choices.tolist()) if self.discrete else (), penalty, proven,
+                        tuple(choices.tolist()) if self.discrete else (), milestone_damages, proven,
                         None if proven else result.bound, None if proven else result.gap, starts)
 
     def solve(self, objective: Objective, *, target: int | None = None, cap: float | None = None,
@@ -384,8 +384,8 @@ class CrashModel:
         if result is None:  # pragma: no cover - starts >= 0 always leave a solution
             raise SolverError("the acceleration model has no solution at all")
         if result.status != "optimal":
-            raise SolverError("the time limit ran out before the shortest possible finish was "
-                              "proven; allow more time with --time-limit")
+            raise TimeLimitError(f"the solver's time limit ({self.lp.time_limit:g} s) ran out before "
+                                 "the shortest possible finish was proven")
         return math.ceil(result.values[self.finish] - _INT_TOL)
 
     def least_cost(self, target: int, *, tie_break: bool = True, strict: bool = False) -> Solution | None:
@@ -406,8 +406,8 @@ class CrashModel:
         if best.added_cost == 0:
             return best
         fewer = crash_ties.fewest_crashed(self, self._last, target)
-        total = best.added_cost + best.penalty
-        if fewer is not None and fewer.added_cost + fewer.penalty <= total + 1e-6 * max(1.0, abs(total)):
+        total = best.added_cost + best.milestone_damages
+        if fewer is not None and fewer.added_cost + fewer.milestone_damages <= total + 1e-6 * max(1.0, abs(total)):
             return fewer
         return best
 

@@ -48,7 +48,7 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool) -> Solu
     n = len(model.net)
     lm = model.lp.copy()
     cols, coefs = model.lp.objectives["cost"]
-    total = best.added_cost + best.penalty
+    total = best.added_cost + best.milestone_damages
     lm.add_row(cols, coefs, -INF, total + 1e-6 * max(1.0, abs(total)))
     owners = np.unique(np.concatenate([model.cut_owner, model.opt_owner]))
     z = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)

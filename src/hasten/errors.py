@@ -11,6 +11,7 @@ __all__ = [
     "CycleError",
     "InfeasibleTargetError",
     "SolverError",
+    "TimeLimitError",
     "PlanCheckError",
 ]
 
@@ -76,19 +77,27 @@ class CycleError(InputError):
 
 
 class InfeasibleTargetError(HastenError):
-    """A finish target that no plan can meet."""
+    """A finish target that no plan can meet; carries the shortest possible finish."""
 
-    def __init__(self, target: int, shortest: int, *, target_text: str | None = None):
+    def __init__(self, target: int, shortest: int, target_date=None, shortest_date=None):
         self.target = target
         self.shortest = shortest
-        asked = target_text or f"{target} working days"
-        super().__init__(
-            f"target finish {asked} is below the shortest possible finish, "
-            f"{shortest} working days; ask for {shortest} or later")
+        self.target_date = target_date
+        self.shortest_date = shortest_date
+
+        def days(n, day):
+            return f"{n} working days" + (f" ({day.isoformat()})" if day is not None else "")
+
+        super().__init__(f"target finish {days(target, target_date)} is below the shortest possible "
+                         f"finish, {days(shortest, shortest_date)}")
 
 
 class SolverError(HastenError):
     """No solver could run, or the solver failed in an unexpected way."""
+
+
+class TimeLimitError(SolverError):
+    """The solver's time limit ran out before any answer could be given."""
 
 
 class PlanCheckError(HastenError):

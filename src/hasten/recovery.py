@@ -14,8 +14,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 
-from .crashing import Plan, Study, TotalCostPoint
+from .planner import Planner
+from .results import Plan, TotalCostPoint
 from .errors import HastenError
+from .project import Project
 
 __all__ = ["MilestoneForecast", "Course", "Recovery", "recovery"]
 
@@ -38,7 +40,7 @@ class Course:
     possible: bool
     finish: int | None
     finish_date: date | None
-    acceleration_cost: float
+    added_cost: float
     contract_damages: float
     milestone_damages: float
     indirect: float
@@ -52,15 +54,16 @@ class Course:
     @property
     def net_effect(self) -> float:
         """Money saved (positive) or lost against doing nothing."""
-        return self.damages_avoided + self.indirect_saved + self.bonus_gained - self.acceleration_cost
+        return self.damages_avoided + self.indirect_saved + self.bonus_gained - self.added_cost
 
     @property
     def total_cost(self) -> float:
-        return self.acceleration_cost + self.contract_damages + self.milestone_damages + self.indirect - self.bonus
+        return self.added_cost + self.contract_damages + self.milestone_damages + self.indirect - self.bonus
 
 
 @dataclass(frozen=True)
 class Recovery:
+    project: Project
     data_date: date | None
     forecast_finish: int
     forecast_date: date
@@ -69,9 +72,10 @@ class Recovery:
     milestones: tuple[MilestoneForecast, ...]
     courses: tuple[Course, ...]
     warnings: tuple[str, ...]
+    notes: tuple[str, ...] = ()
 
 
-def _course(study: Study, label: str, point: TotalCostPoint, plan: Plan | None, base: TotalCostPoint,
+def _course(planner: Planner, label: str, point: TotalCostPoint, plan: Plan | None, base: TotalCostPoint,
             note: str = "") -> Course:
     t = point.time
     damages = t.damages + point.milestone_damages
@@ -81,10 +85,10 @@ def _course(study: Study, label: str, point: TotalCostPoint, plan: Plan | None, 
                   base.time.indirect - t.indirect, t.bonus - base.time.bonus, plan, note)
 
 
-def recovery(study: Study, progress=None) -> Recovery:
+def recovery(planner: Planner, progress=None) -> Recovery:
     """Price the three courses for a project with its progress applied."""
-    project, clock, net = study.project, study.clock, study.network
-    normal = study.normal
+    project, clock, net = planner.project, planner.clock, planner.network
+    normal = planner.normal
     finishes = [a.ef for a in normal.activities]
     milestones = []
     for k, (a, f) in enumerate(zip(project.activities, finishes)):
@@ -93,28 +97,28 @@ def recovery(study: Study, progress=None) -> Recovery:
         forecast = net.timeline.clock_of(k).project_finish_date(f)  # in its own calendar
         late = max(0, (forecast - a.deadline).days)
         milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
-    base = study.total_cost_point(study.normal_finish, 0.0, study.checker.penalty(finishes))
+    base = planner.total_cost_point(planner.normal_finish, 0.0, planner.checker.milestone_damages(finishes))
     courses = [Course("do nothing", True, base.finish, base.finish_date, 0.0, base.time.damages,
                       base.milestone_damages, base.time.indirect, base.time.bonus, 0.0, 0.0, 0.0, None,
                       "pay the damages")]
     # recover fully: meet the contract finish and every milestone deadline
     contract = project.contract.finish
-    target = study.normal_finish if contract is None else min(study.target_by_date(contract),
-                                                              study.normal_finish)
+    target = planner.normal_finish if contract is None else min(planner.target_by_date(contract),
+                                                              planner.normal_finish)
     try:
-        full = study.plan(target, strict=True)
+        full = planner.plan(target, strict=True)
     except HastenError:
-        shortest = study.shortest_finish
+        shortest = planner.shortest_finish
         courses.append(Course("recover fully", False, None, None, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0,
                               None, f"not possible: the shortest possible finish is {shortest} working days "
                                     f"({clock.project_finish_date(shortest).isoformat()}), or a milestone "
                                     "deadline cannot be met"))
     else:
-        point = study.total_cost_point(full.finish, full.added_cost, full.penalty)
-        courses.append(_course(study, "recover fully", point, full, base, "meets every date"))
-    best = study.best(progress=progress)
-    courses.append(_course(study, "least total cost", best.best, best.plan, base,
+        point = planner.total_cost_point(full.finish, full.added_cost, full.milestone_damages)
+        courses.append(_course(planner, "recover fully", point, full, base, "meets every date"))
+    best = planner.best_finish(progress=progress)
+    courses.append(_course(planner, "least total cost", best.point, best.plan, base,
                            "may recover only part of the delay"))
     days_late = 0 if contract is None else max(0, (base.finish_date - contract).days)
-    return Recovery(project.data_date, study.normal_finish, base.finish_date, contract, days_late,
-                    tuple(milestones), tuple(courses), net.progress.warnings)
+    return Recovery(project, project.data_date, planner.normal_finish, base.finish_date, contract, days_late,
+                    tuple(milestones), tuple(courses), net.progress.warnings, planner.notes)

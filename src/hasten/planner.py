@@ -1,138 +1,68 @@
 """Least-cost acceleration questions: a target plan, the time-cost curve, the best
 total-cost finish and the earliest finish within a budget.
 
-:class:`Study` holds one project, its network, its calendar and one optimisation
-model, built once and re-solved for every question asked of it.
+:class:`Planner` holds one project, its network, its calendar and one optimisation model,
+built once and re-solved for every question asked of it. Every plan passes the independent
+check (:mod:`hasten.checks`) before it is returned.
 """
 
 from __future__ import annotations
 
-import re
-from dataclasses import dataclass
+import math
 from datetime import date
 from typing import Callable
 
+from .cautions import plan_cautions
 from .checks import PlanChecker
-from .time_costs import TimeCosts, time_costs
+from .cpm import Schedule, schedule
+from .crash_model import CrashModel, Solution
+from .dominated import drop_dominated
 from .errors import HastenError, InfeasibleTargetError
+from .network import Network
 from .partial import PartialSolver, solvable_on_part
 from .project import Project
-from .cpm import Schedule, schedule
-from .network import Network
-from .crash_model import CrashModel, Solution
+from .results import ActivityChange, BestFinish, Curve, CurvePoint, Plan, TotalCostPoint, TradeTotal
+from .time_costs import time_costs
 
-__all__ = [
-    "ActivityChange",
-    "TradeTotal",
-    "Plan",
-    "CurvePoint",
-    "TotalCostPoint",
-    "BestFinish",
-    "Study",
-    "parse_earlier",
-]
+__all__ = ["Planner", "Progress"]
 
+#: A progress callback: ``(done, total)`` after each solve of a long trace.
 Progress = Callable[[int, int], None]
 
 
-@dataclass(frozen=True)
-class ActivityChange:
-    id: str
-    name: str
-    trade: str
-    normal: int
-    duration: int
-    shortened_by: int
-    added_cost: float
-    option: str = ""  # the discrete option used, "" for the normal way
+class Planner:
+    """One project prepared for acceleration questions, its optimisation model built once
+    and re-solved warm for every question asked of it (a session for a notebook or a
+    server: the module functions :func:`plan`, :func:`curve` and the others build one per
+    call).
 
+    Discrete options beaten on time and cost by another way of the same activity are
+    dropped first (:mod:`hasten.dominated`); ``notes`` says which.
 
-@dataclass(frozen=True)
-class TradeTotal:
-    trade: str
-    shortened_days: int
-    added_cost: float
+    Parameters
+    ----------
+    project : Project
+        The project, with its progress at the data date if any.
+    time_limit : float, optional
+        Seconds each mixed-integer solve may take; a plan stopped by it is reported as not
+        proven optimal, with its bound and gap.
 
+    Examples
+    --------
+    >>> import hasten
+    >>> planner = hasten.Planner(hasten.read_project("cases/clinic-fitout"))
+    >>> a, b = planner.plan(planner.normal_finish - 1), planner.plan(planner.normal_finish - 2)
+    >>> a.added_cost <= b.added_cost
+    True
+    """
 
-@dataclass(frozen=True)
-class Plan:
-    """A least-cost plan, checked independently of the solver."""
-
-    target: int
-    finish: int
-    normal_finish: int
-    added_cost: float
-    normal_direct_cost: float
-    activities: tuple[ActivityChange, ...]  # every activity, in project order
-    trades: tuple[TradeTotal, ...]
-    schedule: Schedule  # early dates with the plan's durations
-    next_day_cost: float | None  # least cost of finishing one more day earlier, None at the limit
-    proven: bool = True  # False: a time limit stopped the solver; best plan found so far
-    bound: float | None = None  # proven lower bound on the added cost, when not proven
-    gap: float | None = None  # relative gap between the plan and the bound, when not proven
-    penalty: float = 0.0  # damages of interim milestones (own deadlines) in this plan
-
-    @property
-    def direct_cost(self) -> float:
-        return self.normal_direct_cost + self.added_cost
-
-    @property
-    def changed(self) -> tuple[ActivityChange, ...]:
-        """Activities shortened or performed by a discrete option."""
-        return tuple(a for a in self.activities if a.shortened_by or a.option)
-
-
-@dataclass(frozen=True)
-class CurvePoint:
-    finish: int
-    added_cost: float
-    day_cost: float  # cost of this last day: added cost here less at one day later
-    changes: tuple[tuple[str, int], ...]  # (activity id, change in days) from the point before
-    switches: tuple[tuple[str, str], ...] = ()  # (activity id, option now used; "" = normal)
-    proven: bool = True
-    gap: float | None = None
-    penalty: float = 0.0  # damages of interim milestones at this finish
-
-
-@dataclass(frozen=True)
-class TotalCostPoint:
-    finish: int
-    finish_date: date
-    direct_cost: float
-    added_cost: float
-    time: TimeCosts
-    milestone_damages: float = 0.0  # damages of interim milestones past their own deadlines
-
-    @property
-    def total_cost(self) -> float:
-        return self.direct_cost + self.time.net + self.milestone_damages
-
-
-@dataclass(frozen=True)
-class BestFinish:
-    best: TotalCostPoint
-    table: tuple[TotalCostPoint, ...]  # every finish from shortest to normal
-    plan: Plan
-
-
-_EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
-
-
-def parse_earlier(text: str) -> tuple[str, int]:
-    """``'10d'`` -> ``('working', 10)``; ``'2w'`` -> ``('calendar', 14)``."""
-    m = _EARLIER.match(text)
-    if not m:
-        raise HastenError(f"--earlier {text!r} is not understood; write working days as 10d "
-                          "or calendar weeks as 2w")
-    n = int(m.group(1))
-    return ("working", n) if m.group(2).lower() == "d" else ("calendar", 7 * n)
-
-
-class Study:
-    """One project and everything needed to answer its acceleration questions."""
-
-    def __init__(self, project: Project, *, time_limit: float | None = None):
+    def __init__(self, project: Project, *, time_limit: float | None = None, solver: str | None = None):
+        if time_limit is not None and not (time_limit > 0 and math.isfinite(time_limit)):
+            raise HastenError(f"the time limit {time_limit!r} must be a positive number of seconds")
+        project, notes = drop_dominated(project)
         self.project = project
+        self.notes: tuple[str, ...] = tuple(notes)
+        self.solver = solver
         self.network = Network(project)
         self.clock = self.network.clock
         self.normal_finish = self.network.forward_finish()
@@ -153,7 +83,7 @@ class Study:
     @property
     def model(self) -> CrashModel:
         if self._model is None:
-            self._model = CrashModel(self.network, time_limit=self.time_limit)
+            self._model = CrashModel(self.network, time_limit=self.time_limit, solver=self.solver)
         return self._model
 
     @property
@@ -176,11 +106,22 @@ class Study:
         """Finish target (working days) to be done by ``day``, the last day worked."""
         return self.clock.offset_of(day, finish=True)
 
-    def target_earlier(self, text: str) -> int:
-        unit, n = parse_earlier(text)
-        if unit == "working":
-            return self.normal_finish - n
-        return self.clock.shift_calendar_days(self.normal_finish, n)
+    def target_earlier(self, *, working_days: int = 0, calendar_days: int = 0) -> int:
+        """Finish target ``working_days`` working days before the current finish, or
+        ``calendar_days`` calendar days before its date (to the last working day on or
+        before it, in the project calendar)."""
+        if calendar_days:
+            return self.clock.shift_calendar_days(self.normal_finish, calendar_days)
+        return self.normal_finish - working_days
+
+    def contract_target(self) -> int | None:
+        """The target that meets the contract finish, or the shortest possible finish when
+        it cannot be met; ``None`` when there is no contract finish or the current schedule
+        already meets it."""
+        contract = self.project.contract.finish
+        if contract is None or self.target_by_date(contract) >= self.normal_finish:
+            return None
+        return max(self.target_by_date(contract), self.shortest_finish)
 
     # -- plans -------------------------------------------------------------------------
     def _solve(self, target: int, *, tie_break: bool = True, strict: bool = False) -> Solution:
@@ -197,8 +138,11 @@ class Study:
         sol = self.model.least_cost(target, tie_break=tie_break, strict=strict)
         if sol is None:
             if strict and target >= self.shortest_finish:
-                raise HastenError("no plan meets every interim milestone deadline by this finish")
-            raise InfeasibleTargetError(target, self.shortest_finish)
+                raise HastenError(f"no plan meets every interim milestone deadline by a finish of "
+                                  f"{target} working days")
+            shortest = self.shortest_finish
+            raise InfeasibleTargetError(target, shortest, self.clock.project_finish_date(target),
+                                        self.clock.project_finish_date(shortest))
         return sol
 
     def _checked(self, sol: Solution, target: int, starts=None) -> tuple[int, float, float]:
@@ -208,16 +152,23 @@ class Study:
         if starts is None:
             starts = sol.starts if sol.starts is not None else self.network.forward(sol.durations)
         return self.checker.check(sol.durations, starts, target=target, claimed_cost=sol.added_cost,
-                                  choices=sol.choices or None, claimed_penalty=sol.penalty)
+                                  choices=sol.choices or None, claimed_damages=sol.milestone_damages)
 
     def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
         """The least-cost plan to finish by ``target`` working days; with ``strict`` every
-        interim milestone must also meet its own deadline."""
+        interim milestone must also meet its own deadline. Among plans of equal cost, the
+        one that changes the fewest activities, then the fewest days.
+
+        Raises
+        ------
+        InfeasibleTargetError
+            When no plan finishes by ``target`` (it carries the shortest possible finish).
+        """
         self._reach = max(self._reach, self.normal_finish - target + 1)  # and the next day
         sol = self._solve(target, strict=strict)
         sched = schedule(self.network, sol.durations)
         early = self.network.forward(sol.durations)
-        finish, cost, penalty = self._checked(sol, target, early)  # the dates shown
+        finish, cost, damages = self._checked(sol, target, early)  # the dates shown
         next_cost = None
         step = min(target, self.normal_finish)
         if next_day and step > 0:
@@ -227,44 +178,53 @@ class Study:
                 pass  # this is the shortest possible finish
             else:
                 if nxt.proven:  # an unproven difference is no marginal cost
-                    _, next_added, next_penalty = self._checked(nxt, step - 1)
-                    next_cost = next_added + next_penalty - cost - penalty
-        return self._plan(target, finish, sol, cost, penalty, sched, next_cost)
+                    _, next_added, next_damages = self._checked(nxt, step - 1)
+                    next_cost = next_added + next_damages - cost - damages
+        return self._plan(target, finish, sol, cost, damages, sched, next_cost)
 
-    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, penalty: float,
+    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, damages: float,
               sched: Schedule, next_cost: float | None) -> Plan:
         changes = []
         trades: dict[str, list] = {}
         choices = sol.choices or (-1,) * len(sol.durations)
         costs = self.checker.added_costs(sol.durations, sol.choices or None)
+        names = {c.name for c in self.project.calendars}
+        default = self.project.calendar.name
         for act, normal, d, c, cost, options in zip(self.project.activities, self.network.durations,
                                                     sol.durations, choices, costs, self.network.options):
             cut = normal - d
-            way = options[c].name if c >= 0 else ""
-            changes.append(ActivityChange(act.id, act.name, act.trade, normal, d, cut, cost, way))
+            way = options[c] if c >= 0 else None
+            calendar = act.calendar if act.calendar in names else default
+            changes.append(ActivityChange(act.id, act.name, act.trade, calendar, normal, d, cut, cost,
+                                          way.name if way else "", way.note if way else ""))
             if cut or way:
                 t = trades.setdefault(act.trade or "(no trade)", [0, 0.0])
                 t[0] += cut
                 t[1] += cost
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
-        return Plan(target, finish, self.normal_finish, added_cost, self.project.normal_direct_cost,
-                    tuple(changes), trade_rows, sched, next_cost, sol.proven, sol.bound, sol.gap, penalty)
+        clock = self.clock
+        cautions = plan_cautions(self.project, self.network.timeline, changes)
+        return Plan(self.project, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
+                    sched, next_cost, clock.start_date(0), clock.project_finish_date(target),
+                    clock.project_finish_date(finish), clock.project_finish_date(self.normal_finish),
+                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
 
     # -- the curve ---------------------------------------------------------------------
     def curve(self, longest: int | None = None, shortest: int | None = None,
-              progress: Progress | None = None) -> list[CurvePoint]:
+              progress: Progress | None = None) -> Curve:
         """Least added cost at every whole working day from ``longest`` (default: the
         normal finish) down to ``shortest`` (default: the shortest possible finish).
 
         Linear costs: traced downwards, each day re-solved warm from the last basis.
-        With discrete options (not convex): each day solved exactly as a MILP from scratch
-        (see :mod:`hasten.solver_model` on why the previous plan is not passed as a start).
+        With discrete options or calendars of their own (not convex): each day solved
+        exactly as a MILP from scratch (see :mod:`hasten.solver_model`).
         """
         hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
         lo = self.shortest_finish if shortest is None else shortest
         if lo > hi:
-            raise HastenError(f"the curve range is empty: {lo} is after {hi}")
+            raise HastenError(f"the curve range is empty: the shortest finish asked ({lo} working "
+                              f"days) is after the longest ({hi})")
         top = hi + 1 if hi < self.normal_finish else hi  # one day more, for the first day's cost
         self._reach = max(self._reach, self.normal_finish - lo)
         targets = list(range(top, lo - 1, -1))
@@ -275,50 +235,59 @@ class Study:
             if progress:
                 progress(k + 1, len(targets))
         ids = self.network.ids
+        normal = self.network.durations
         points: list[CurvePoint] = []
         for target in range(hi, lo - 1, -1):
-            sol, cost, penalty = solved[target]
+            sol, cost, damages = solved[target]
+            choices = sol.choices or (-1,) * len(sol.durations)
+            plan = tuple((ids[i], n - d, self._way(i, c)) for i, (d, n, c) in
+                         enumerate(zip(sol.durations, normal, choices)) if d != n or c >= 0)
+            date_ = self.clock.project_finish_date(target)
             before = solved.get(target + 1)
             if before is None:
-                points.append(CurvePoint(target, cost, 0.0, (), (), sol.proven, sol.gap, penalty))
+                points.append(CurvePoint(target, date_, cost, 0.0, plan, (), (), sol.proven, sol.gap, damages))
                 continue
-            prev, prev_cost, prev_penalty = before
+            prev, prev_cost, prev_damages = before
             changes = tuple((ids[i], d - p) for i, (d, p) in enumerate(zip(sol.durations, prev.durations))
                             if d != p)
             switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
                              enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
-            points.append(CurvePoint(target, cost, cost + penalty - prev_cost - prev_penalty, changes,
-                                     switches, sol.proven, sol.gap, penalty))
-        return points
+            points.append(CurvePoint(target, date_, cost, cost + damages - prev_cost - prev_damages, plan,
+                                     changes, switches, sol.proven, sol.gap, damages))
+        known = self._shortest if self._shortest is not None else (lo if shortest is None else None)
+        return Curve(self.project, tuple(points), self.normal_finish, known, self.penalised, self.notes)
 
     def _way(self, i: int, choice: int) -> str:
-        return "" if choice < 0 else self.project.activities[i].options[choice].name
+        return "" if choice < 0 else self.network.options[i][choice].name
 
     # -- total cost --------------------------------------------------------------------
-    def total_cost_point(self, finish: int, added_cost: float, penalty: float = 0.0) -> TotalCostPoint:
+    def total_cost_point(self, finish: int, added_cost: float, milestone_damages: float = 0.0) -> TotalCostPoint:
+        """Direct, indirect, damages and bonus of finishing at ``finish`` with ``added_cost``."""
         return TotalCostPoint(finish, self.clock.project_finish_date(finish),
                               self.project.normal_direct_cost + added_cost, added_cost,
-                              time_costs(self.project, self.clock, finish), penalty)
+                              time_costs(self.project, self.clock, finish), milestone_damages)
 
-    def best(self, progress: Progress | None = None) -> BestFinish:
+    def best_finish(self, progress: Progress | None = None) -> BestFinish:
         """The finish with the least total cost (direct + indirect + damages - bonus).
 
         Ties go to the later finish: the same money for less acceleration.
         """
         points = self.curve(progress=progress)
-        table = tuple(self.total_cost_point(p.finish, p.added_cost, p.penalty) for p in reversed(points))
+        table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
+                      for p in reversed(points.points))
         best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
         plan = self.plan(best.finish)
         # Report the plan's own figures: among plans of the same least cost the tie-break may
         # pick another mix of acceleration and milestone damages, or finish a day sooner.
         # Its total can only be lower than the table's, and the table's is the least.
-        point = self.total_cost_point(plan.finish, plan.added_cost, plan.penalty)
-        return BestFinish(point, table, plan)
+        point = self.total_cost_point(plan.finish, plan.added_cost, plan.milestone_damages)
+        current = next(r for r in table if r.finish == self.normal_finish)
+        return BestFinish(point, current, table, plan, self.notes)
 
-    def budget(self, spend: float) -> Plan:
-        """The earliest finish whose least added cost is within ``spend``, and its plan."""
-        if spend < 0:
-            raise HastenError(f"--spend {spend:g} is negative; give the most you would add, e.g. 50000")
-        target = max(self.model.earliest_finish_within(spend), self.shortest_finish)
+    def earliest_within(self, budget: float) -> Plan:
+        """The earliest finish whose least added cost is within ``budget``, and its plan."""
+        if not math.isfinite(budget) or budget < 0:
+            raise HastenError(f"a budget of {budget:g} cannot be spent; give the most you would add, "
+                              "a number 0 or more")
+        target = max(self.model.earliest_finish_within(budget), self.shortest_finish)
         return self.plan(min(target, self.normal_finish))
-
