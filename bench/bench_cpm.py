@@ -38,12 +38,11 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 
 from generate import project_folder, random_project  # noqa: E402
-from hasten.calendar import CalendarClock  # noqa: E402
 from hasten.formats import read_project  # noqa: E402
 from hasten.project import Project  # noqa: E402
 from hasten.cpm import schedule
 from hasten.network import Network  # noqa: E402
-from hasten import render  # noqa: E402
+from hasten import render_json  # noqa: E402
 
 N = 50_000
 SEED = 1
@@ -114,7 +113,7 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
         e + d for e, d in zip(net.forward(net.durations), net.durations))))
 
     def to_json(p, s):
-        return json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)),
+        return json.dumps(render_json.schedule_json(p, s),
                           ensure_ascii=False)
 
     t_json, text = best_of(args.repeat, lambda: to_json(read, sched))
@@ -154,7 +153,7 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
         prof.enable()
         p = read_project(folder)
         s = schedule(p)
-        json.dumps(render.schedule_json(p, s, CalendarClock(p.calendar, p.start)), ensure_ascii=False)
+        json.dumps(render_json.schedule_json(p, s), ensure_ascii=False)
         prof.disable()
         out = io.StringIO()
         pstats.Stats(prof, stream=out).sort_stats("cumulative").print_stats(30)
