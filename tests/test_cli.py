@@ -279,23 +279,6 @@ def test_python_dash_m(tmp_path: Path):
     assert out.returncode == 0 and "schedule" in out.stdout
 
 
-def test_readme_examples_run(tmp_path: Path, monkeypatch):
-    """Every ``$ hasten ...`` line in README.md runs, in a copy of cases/ (so nothing is
-    written into the working tree)."""
-    import shlex
-    import shutil
-
-    lines = [ln.strip()[2:] for ln in (ROOT / "README.md").read_text(encoding="utf-8").splitlines()
-             if ln.strip().startswith("$ hasten ")]
-    assert len(lines) >= 10, "README.md shows too few '$ hasten' examples"
-    shutil.copytree(ROOT / "cases", tmp_path / "cases")
-    shutil.copytree(ROOT / "tests" / "data" / "psplib_mm", tmp_path / "tests" / "data" / "psplib_mm")
-    monkeypatch.chdir(tmp_path)
-    for line in lines:
-        out = runner.invoke(app, shlex.split(line)[1:])
-        assert out.exit_code == 0, f"{line}\n{out.output}"
-
-
 def _hand_calendar_project(folder: Path) -> Path:
     """The hand-worked three-calendar example of tests/test_calendars_per_activity.py
     (our own arithmetic there), written as a project folder."""

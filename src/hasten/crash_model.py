@@ -82,11 +82,25 @@ def _convex(network: Network) -> None:
 
 
 class CrashModel:
-    """Least-cost acceleration model for one network.
+    """Least-cost acceleration model for one network (the LP, or a MILP with discrete
+    options, milestone damages or calendars of their own).
 
-    >>> model = CrashModel(network)            # doctest: +SKIP
-    >>> model.shortest_finish()                # the LP's minimum finish
-    >>> model.least_cost(120)                  # least added cost to finish by day 120
+    Examples
+    --------
+    Two activities in a chain, each 5 days that can be cut to 3 at 100 a day (A) and 40 a
+    day (B): the shortest finish is 6 days, and finishing by day 8 cuts B by 2 days.
+
+    >>> from datetime import date
+    >>> from hasten.network import Network
+    >>> from hasten.project import Activity, Link, Project
+    >>> acts = (Activity("A", 5, crash_duration=3, cost=0, crash_cost=200),
+    ...         Activity("B", 5, crash_duration=3, cost=0, crash_cost=80))
+    >>> model = CrashModel(Network(Project("chain", date(2027, 1, 4), acts, (Link("A", "B"),))))
+    >>> model.shortest_finish()
+    6
+    >>> sol = model.least_cost(8)
+    >>> sol.durations, sol.added_cost
+    ((5, 3), 80.0)
     """
 
     def __init__(self, network: Network, *, solver: str | None = None,

@@ -181,10 +181,10 @@ def recovery_text(rec: Recovery) -> str:
     for w in rec.warnings:
         lines.append(f"Warning: {w}")
     lines += ["", tabulate([_course_row(c, cur) for c in rec.courses],
-                           headers=["course", "finish (days, date)", "acceleration", "damages",
+                           headers=["course", "finish (days, date)", "added cost", "damages",
                                     "damages avoided", "indirect saved", "bonus gained", "net effect"],
                            tablefmt="simple", disable_numparse=True),
-              "Net effect = damages avoided + indirect saved + bonus gained - acceleration cost, "
+              "Net effect = damages avoided + indirect saved + bonus gained - added cost, "
               "against doing nothing; positive saves money."]
     for c in rec.courses:
         if not c.possible:

@@ -62,8 +62,33 @@ def _collector_paused() -> Iterator[None]:
 def read_project(path: str | os.PathLike[str]) -> Project:
     """Read and validate a project folder, ``.xlsx`` workbook or ``.json`` file.
 
-    Raises InputError (or its subclass CycleError) for anything wrong with the input;
-    the input is never modified.
+    Parameters
+    ----------
+    path : str or path-like
+        A folder (``project.toml``, ``activities.csv`` and the optional tables), a workbook
+        or a JSON file; the form is told by the path.
+
+    Returns
+    -------
+    Project
+        The input is never modified.
+
+    Raises
+    ------
+    InputError
+        For anything wrong with the input (its subclass CycleError for a loop of links),
+        naming the file, row, column, value and the fix.
+
+    Examples
+    --------
+    >>> import hasten
+    >>> p = hasten.read_project("cases/clinic-fitout")
+    >>> p.activities[0].id, p.currency
+    ('A010', 'EUR')
+    >>> hasten.read_project("no/such/project")
+    Traceback (most recent call last):
+    ...
+    hasten.errors.InputError: no/such/project: not found...
     """
     path = Path(path)
     if not path.exists():
