@@ -40,10 +40,12 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tupl
     """First and last day worked for each (start, finish) pair, in two vectorised calls.
 
     A milestone (start == finish) is dated on the last working day before it, like the
-    project finish: the day its predecessors end."""
-    first = clock.iso_dates([f - 1 if f == s and s > 0 else s for s, f in zip(starts, finishes)])
-    last = clock.iso_dates([max(f - 1, 0) if f > s else max(s - 1, 0) for s, f in zip(starts, finishes)])
-    return first, last
+    project finish: the day its predecessors end (on the first day when it is at day 0).
+    Offsets before day 0 (late dates against a deadline earlier than the early finish) are
+    real dates before the project start, counted in working days of the calendar."""
+    day = [(s - 1 if s > 0 else s, s - 1 if s > 0 else s) if f == s else (s, f - 1)
+           for s, f in zip(starts, finishes)]
+    return clock.iso_dates([a for a, _ in day]), clock.iso_dates([b for _, b in day])
 
 
 def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str):
