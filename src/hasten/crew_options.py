@@ -14,7 +14,8 @@ For each measure (extended hours ``6x10``, a second shift ``2-shifts``, extra cr
 * paid hours = weeks x the paid hours of a full week of each crew (:mod:`hasten.premium`),
   so a short last week is priced like a full one;
 * cost = paid hours x wage + plant per day x days worked; the option's added cost is its
-  cost minus the cost of normal working (the normal week at its pay, one crew, no loss).
+  cost minus the cost of normal working (the normal week at its pay, one crew, no loss),
+  rounded to the cent.
 
 A measure that would not finish sooner than normal working is not offered; it is listed in
 ``skipped`` with the reason, as is a measure needing more crews than the area takes.
@@ -177,7 +178,10 @@ def _price(way: _Way, crew: CrewData, rules: LabourRules, wage: float, calendar_
     paid = weeks * size * sum(p.paid for p in pays)
     labour_cost = paid * exact(wage)
     plant = crew_days * exact(crew.equipment_per_day)
-    pay_text = "; ".join(dict.fromkeys(p.text() for p in pays))
+    if way.measure.kind == "shifts":
+        pay_text = f"day shift {pays[0].text()}, second shift {pays[1].text()}"
+    else:
+        pay_text = pays[0].text() + (" each crew" if len(pays) > 1 else "")
     return Working(
         measure=way.measure.text, kind=way.measure.kind, crews=len(way.crews), days_per_week=days,
         hours_per_day=float(max(h for _, h, _ in way.crews)),
@@ -190,7 +194,10 @@ def _price(way: _Way, crew: CrewData, rules: LabourRules, wage: float, calendar_
 
 
 def _note(w: Working, normal: Working, crew: CrewData) -> str:
-    crews = f"{w.crews} crews of {crew.crew_size}" if w.crews > 1 else f"1 crew of {crew.crew_size}"
+    if w.kind == "shifts":
+        crews = f"a day crew and a second-shift crew of {crew.crew_size}, at most"
+    else:
+        crews = f"{w.crews} crews of {crew.crew_size}" if w.crews > 1 else f"1 crew of {crew.crew_size}"
     held = ", held at the physical minimum" if w.held_at_minimum else ""
     return (f"{w.measure}: {crews}, {_hours(w.hours_per_worker_week)} h a week each; "
             f"loss {w.loss:.1%} on all hours ({w.loss_source}); "
@@ -257,7 +264,7 @@ def build_options(activity_id: str, crew: CrewData, rules: LabourRules,
             skipped.append(Skipped(measure.text, f"{why} {work.duration} working days, no sooner "
                                                  f"than normal working ({normal.duration})"))
             continue
-        work = replace(work, added_cost=work.cost - normal.cost)
+        work = replace(work, added_cost=round(work.cost - normal.cost, 2))  # to the cent
         workings.append(work)
         options.append(Option(name=measure.text, duration=work.duration,
                               added_cost=work.added_cost, note=_note(work, normal, crew)))
