@@ -16,7 +16,7 @@ import pytest
 from hasten.crew_options import (build_options, labour_cautions, normal_working, option_sources,
                                  project_days, with_options)
 from hasten.errors import InputError
-from hasten.labour import CrewData, LabourRules, PremiumRules
+from hasten.labour import CrewData, LabourRules
 from hasten.productivity import CLARK_LORENZONI, PLANT_ESTIMATING_2019, ProductivityTable
 from hasten.project import Activity, Option
 
@@ -191,6 +191,8 @@ def test_errors_name_the_column():
     with pytest.raises(InputError) as err:
         build_options("A", SMALL, LabourRules(), "6x9", CLARK_LORENZONI, 5, column="--crews")
     assert (err.value.column, err.value.value) == ("--crews", "6x9")
+    with pytest.raises(InputError):  # refused even where there is nothing left to do
+        build_options("A", CrewData(0, 2, wage=40), LabourRules(), "6x9", CLARK_LORENZONI, 5)
     # a second shift longer than the day shift would do more than half the hours (Hanna 2008)
     rules = LabourRules(normal_hours=7)
     with pytest.raises(InputError) as err:

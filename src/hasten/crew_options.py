@@ -244,21 +244,23 @@ def build_options(activity_id: str, crew: CrewData, rules: LabourRules,
     floor = max(crew.min_duration, min_duration)
     wage = wage_of(crew, rules)
     normal = _price(_way(NORMAL, rules, table, wage, column), crew, rules, wage, calendar_days, floor)
+    # every measure is looked up first, so that a schedule the table lacks is refused
+    # whatever the activity's own data
+    ways = {m.text: _way(m, rules, table, wage, column) for m in measures
+            if not (m.kind == "overtime" and m.days == rules.normal_days and m.hours == rules.normal_hours)}
     options, workings, skipped = [], [], []
     for measure in measures:
+        if measure.text not in ways:
+            skipped.append(Skipped(measure.text, "this is the normal week"))
+            continue
         if crew.labour_hours == 0:
             skipped.append(Skipped(measure.text, "no labour hours left"))
-            continue
-        if measure.kind == "overtime" and measure.days == rules.normal_days \
-                and measure.hours == rules.normal_hours:
-            skipped.append(Skipped(measure.text, "this is the normal week"))
             continue
         if measure.kind == "crews" and measure.crews > crew.max_crews:
             skipped.append(Skipped(measure.text, f"needs {measure.crews} crews at once; the area "
                                                  f"takes {crew.max_crews} (max_crews)"))
             continue
-        way = _way(measure, rules, table, wage, column)
-        work = _price(way, crew, rules, wage, calendar_days, floor)
+        work = _price(ways[measure.text], crew, rules, wage, calendar_days, floor)
         if work.duration >= normal.duration:
             why = "held at the physical minimum of" if work.held_at_minimum else "finishes in"
             skipped.append(Skipped(measure.text, f"{why} {work.duration} working days, no sooner "
