@@ -9,6 +9,7 @@ check (:mod:`hasten.checks`) before it is returned.
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from datetime import date
 from typing import Callable
 
@@ -60,6 +61,11 @@ class Planner:
         if time_limit is not None and not (time_limit > 0 and math.isfinite(time_limit)):
             raise HastenError(f"the time limit {time_limit!r} must be a positive number of seconds")
         project, notes = drop_dominated(project)
+        self.given = project  # as given: results list activities in this order
+        # The model is built on the activities sorted by id (and the links sorted), so that
+        # among plans of equal cost the one chosen never depends on the order of the rows.
+        project = replace(project, activities=tuple(sorted(project.activities, key=lambda a: a.id)),
+                          links=tuple(sorted(project.links, key=lambda k: (k.pred, k.succ, k.type.value, k.lag))))
         self.project = project
         self.notes: tuple[str, ...] = tuple(notes)
         self.solver = solver
@@ -205,10 +211,19 @@ class Planner:
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
         clock = self.clock
         cautions = plan_cautions(self.project, self.network.timeline, changes)
-        return Plan(self.project, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
+        changes, sched = self._as_given(changes), self._as_given_schedule(sched)
+        return Plan(self.given, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
                     sched, next_cost, clock.start_date(0), clock.project_finish_date(target),
                     clock.project_finish_date(finish), clock.project_finish_date(self.normal_finish),
                     tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
+
+    def _as_given(self, rows: list) -> list:
+        """Rows (one per activity, in the model's order) in the order the project gave them."""
+        by_id = {r.id: r for r in rows}
+        return [by_id[a.id] for a in self.given.activities]
+
+    def _as_given_schedule(self, sched: Schedule) -> Schedule:
+        return replace(sched, activities=tuple(self._as_given(list(sched.activities))))
 
     # -- the curve ---------------------------------------------------------------------
     def curve(self, longest: int | None = None, shortest: int | None = None,
@@ -255,7 +270,7 @@ class Planner:
             points.append(CurvePoint(target, date_, cost, cost + damages - prev_cost - prev_damages, plan,
                                      changes, switches, sol.proven, sol.gap, damages))
         known = self._shortest if self._shortest is not None else (lo if shortest is None else None)
-        return Curve(self.project, tuple(points), self.normal_finish, known, self.penalised, self.notes)
+        return Curve(self.given, tuple(points), self.normal_finish, known, self.penalised, self.notes)
 
     def _way(self, i: int, choice: int) -> str:
         return "" if choice < 0 else self.network.options[i][choice].name

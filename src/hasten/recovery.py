@@ -120,5 +120,5 @@ def recovery(planner: Planner, progress=None) -> Recovery:
     courses.append(_course(planner, "least total cost", best.point, best.plan, base,
                            "may recover only part of the delay"))
     days_late = 0 if contract is None else max(0, (base.finish_date - contract).days)
-    return Recovery(project, project.data_date, planner.normal_finish, base.finish_date, contract, days_late,
+    return Recovery(planner.given, project.data_date, planner.normal_finish, base.finish_date, contract, days_late,
                     tuple(milestones), tuple(courses), net.progress.warnings, planner.notes)
