@@ -330,11 +330,13 @@ LINK_TYPES = list(LinkType)
 @st.composite
 def projects(draw, min_n: int = 3, max_n: int = 9, max_duration: int = 12,
              max_cut: int | None = None, lag_range: tuple[int, int] = (-3, 5),
-             max_links: int = 14, crashable: bool = True, stepped: bool = False) -> Project:
+             max_links: int = 14, crashable: bool = True, stepped: bool = False,
+             free_days: bool = False) -> Project:
     """A random small project: durations 0..max_duration, all four link types, lags in
     ``lag_range``, links only from a lower to a higher index (so never a loop; parallel
     links between a pair are allowed), crash durations and whole-number linear costs
-    (``stepped``: some activities get 1..3 cost steps, cost per day never falling)."""
+    (``stepped``: some activities get 1..3 cost steps, cost per day never falling;
+    ``free_days``: a crash day may cost nothing)."""
     n = draw(st.integers(min_n, max_n))
     acts = []
     for i in range(n):
@@ -354,7 +356,7 @@ def projects(draw, min_n: int = 3, max_n: int = 9, max_duration: int = 12,
             acts.append(Activity(id=f"a{i}", duration=d, cost=float(cost),
                                  steps=tuple(CrashStep(k, float(r)) for k, r in zip(days, rates))))
             continue
-        per_day = draw(st.integers(1, 20))
+        per_day = draw(st.integers(0 if free_days else 1, 20))
         acts.append(Activity(id=f"a{i}", duration=d, crash_duration=d - cut, cost=float(cost),
                              crash_cost=float(cost + per_day * cut)))
     pairs = st.tuples(st.integers(0, n - 1), st.integers(0, n - 1)).filter(lambda p: p[0] != p[1])

@@ -142,7 +142,7 @@ def test_reliable_crash_to_40_weeks_from_memory(reliable):
     assert plan.added_cost < RELIABLE["bonus"]["amount"]  # from memory
 
 
-def test_reliable_curve_independent_check(reliable):
+def test_reliable_curve_on_a_crash_table_from_memory(reliable):
     # Reliable Construction Co. table (from memory); least cost at every week 44..28 as computed
     # by the data authors with scipy linprog (hillier_lieberman_reliable.json, "independent_check")
     expected = {int(p["T"]): p["crash_cost"] for p in RELIABLE["independent_check"]["least_cost_curve_integer_points"]}

@@ -176,7 +176,7 @@ class Planner:
         early = self.network.forward(sol.durations)
         finish, cost, damages = self._checked(sol, target, early)  # the dates shown
         next_cost = None
-        step = min(target, self.normal_finish)
+        step = finish  # one day before the plan's own finish (it may be earlier than the target)
         if next_day and step > 0:
             try:
                 nxt = self._solve(step - 1, tie_break=False, strict=strict)

@@ -1,0 +1,143 @@
+"""Tests for bugs a mutation audit planted and the suite did not catch (issue: "Tests that
+catch the next bug"). Each expected value comes from a definition, a hand calculation
+written here, or a published example."""
+
+from __future__ import annotations
+
+from datetime import date
+
+import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
+from conftest import PROPERTY, TOL, linprog_least_cost, load_json, make_project, project_from_example
+from hasten.cpm import schedule
+from hasten.planner import Planner
+from hasten.project import Activity, Contract, Link, Project
+
+START = date(2027, 1, 4)  # a Monday
+
+
+@pytest.fixture(scope="module")
+def monkeypatch_part():
+    """Solve on a part however large it is (small random projects would else be solved
+    whole: a part over 60% of the activities is)."""
+    mp = pytest.MonkeyPatch()
+    mp.setattr("hasten.partial.WHOLE_SHARE", 1.0)
+    yield
+    mp.undo()
+
+
+def test_free_float_with_a_deadline_is_measured_to_the_early_dates():
+    # Definition (README, Method): free float is how far an activity can slip without
+    # delaying any successor's early date or the project (early) finish; a deadline moves
+    # the backward pass only. A(5) -> B(3): early finish 8. Deadline 11: B's total float
+    # 11 - 8 = +3; deadline 6: 6 - 8 = -2; B's free float 0 both times (hand-worked).
+    p = make_project([Activity("A", 5), Activity("B", 3)], [Link("A", "B")])
+    for deadline, total in ((11, 3), (6, -2)):
+        b = schedule(p, deadline=deadline).by_id()["B"]
+        assert (b.total_float, b.free_float) == (total, 0), deadline
+        a = schedule(p, deadline=deadline).by_id()["A"]
+        assert (a.total_float, a.free_float) == (total, 0), deadline
+
+
+def test_next_day_cost_is_measured_from_the_plans_own_finish():
+    # University of Mumbai exam solution (ques10.com; tests/data/examples/ques10_indirect80.json):
+    # normal 23 days; the first day (23 -> 22) costs 40. A target past the normal finish is
+    # met at 23 days, and one more day from there costs 40, not 0.
+    planner = Planner(project_from_example(load_json("examples/ques10_indirect80.json"), indirect=80))
+    assert planner.normal_finish == 23
+    for target in (23, 24, 30):
+        plan = planner.plan(target)
+        assert plan.finish == 23 and plan.next_day_cost == pytest.approx(40.0), target
+
+
+def test_a_milestone_forecast_early_is_zero_days_late():
+    # Hand-worked: M (a milestone after A, 5 days from Mon 4 Jan 2027) is dated Fri 8 Jan;
+    # its deadline Fri 15 Jan is a week later, so it is 0 days late and owes 0, never -7 and
+    # -700 at 100 a day.
+    from hasten.recovery import recovery
+
+    acts = [Activity("A", 5), Activity("M", 0, deadline=date(2027, 1, 15), damages_per_day=100)]
+    p = Project("early", START, tuple(acts), (Link("A", "M"),), data_date=START,
+                contract=Contract(finish=date(2027, 1, 29), damages_per_day=10))
+    rec = recovery(Planner(p))
+    (m,) = rec.milestones
+    assert m.forecast == date(2027, 1, 8) and (m.days_late, m.damages) == (0, 0)
+    assert rec.days_late == 0 and all(c.milestone_damages == 0 for c in rec.courses if c.possible)
+
+
+def test_trade_totals_come_largest_spend_first():
+    # The stated rule (README, plan output: "the totals per trade"; results.Plan.trades):
+    # largest added cost first, ties by trade name. Three parallel chains ending together,
+    # each must lose 1 day: concrete at 300, roofing at 100, electrical at 200 (hand-worked).
+    acts = [Activity("C", 5, trade="concrete", crash_duration=4, cost=0, crash_cost=300),
+            Activity("R", 5, trade="roofing", crash_duration=4, cost=0, crash_cost=100),
+            Activity("E", 5, trade="electrical", crash_duration=4, cost=0, crash_cost=200),
+            Activity("X", 5, trade="drywall", crash_duration=4, cost=0, crash_cost=100)]
+    p = make_project(acts, [Link("E", "X")])  # E -> X is 10 days; C and R 5
+    # to finish in 9: only the E -> X chain is long; it loses 1 day at the cheaper X (100)
+    plan = Planner(p).plan(9)
+    assert [t.trade for t in plan.trades] == ["drywall"]
+    # without the link every activity must lose 1 day to finish in 4
+    p2 = make_project(acts, [])
+    plan = Planner(p2).plan(4)
+    assert [(t.trade, t.added_cost) for t in plan.trades] == [
+        ("concrete", 300), ("electrical", 200), ("drywall", 100), ("roofing", 100)]
+
+
+@PROPERTY
+@given(st.data())
+def test_plans_solved_on_a_part_hold_on_the_whole_network_with_free_days(monkeypatch_part, data):
+    # Against scipy's linprog on the whole network (conftest.linprog_least_cost): projects of
+    # at least 10 activities with mixed links and crash days that cost nothing, where the
+    # part's plan can fail on the whole network and must be widened.
+    from conftest import projects
+
+    project = data.draw(projects(min_n=10, max_n=14, free_days=True, lag_range=(0, 4)), label="project")
+    planner = Planner(project)
+    # the curve takes no tie-break, so free crash days may be used anywhere in the part
+    for point in planner.curve():
+        expected = linprog_least_cost(project, point.finish)
+        assert abs(point.added_cost - expected) <= TOL * max(1.0, expected), point.finish
+    plan = planner.plan(planner.shortest_finish)
+    expected = linprog_least_cost(project, planner.shortest_finish)
+    assert abs(plan.added_cost - expected) <= TOL * max(1.0, expected)
+
+
+# A network found by random search (seeded) where the plan of the part within the reach, with
+# every other activity at normal duration, finishes after the target on the whole network:
+# a5 and a4 have crash days that cost nothing, and shortening them pushes work outside the
+# part later (SS/SF/FF links). The whole-network check must catch it and widen the part.
+COUNTEREXAMPLE = {
+    "acts": [["a0", 4, 2, 2.0], ["a1", 4, 1, 3.0], ["a2", 12, 10, 10.0], ["a3", 8, 2, 30.0],
+             ["a4", 10, 1, 0.0], ["a5", 7, 1, 0.0], ["a6", 12, 2, 10.0], ["a7", 12, 8, 40.0]],
+    "links": [["a1", "a6", "SF", 2], ["a2", "a4", "FF", 3], ["a4", "a7", "FS", 0], ["a0", "a7", "FF", 3],
+              ["a4", "a6", "SS", 4], ["a1", "a7", "FF", 2], ["a6", "a7", "SS", 0], ["a2", "a5", "SS", 2],
+              ["a0", "a5", "SF", 0], ["a2", "a7", "FF", 1], ["a0", "a6", "FF", 3], ["a3", "a5", "FS", 1]],
+    "target": 26,
+}
+
+
+def test_a_part_whose_plan_fails_on_the_whole_network_is_widened(monkeypatch_part):
+    from hasten.network import Network
+    from hasten.partial import PartialSolver
+    from hasten.project import LinkType
+
+    acts = [Activity(i, d, crash_duration=c, cost=0.0, crash_cost=k) for i, d, c, k in COUNTEREXAMPLE["acts"]]
+    links = [Link(p, s, LinkType(t), lag) for p, s, t, lag in COUNTEREXAMPLE["links"]]
+    project = make_project(acts, links)
+    target = COUNTEREXAMPLE["target"]
+    # the part alone really does fail here (what the check is for) ...
+    part = PartialSolver(Network(project))
+    model, keep = part._part_for(part.normal_finish - target)
+    sol = model.least_cost(target, tie_break=False)
+    durations = part.normal.copy()
+    durations[keep] = sol.durations
+    net = Network(project)
+    assert net.finish_of(net.forward(durations), durations.tolist()) > target
+    # ... and the planner's answers still equal scipy linprog on the whole network
+    planner = Planner(project)
+    for point in planner.curve(planner.normal_finish, target):
+        expected = linprog_least_cost(project, point.finish)
+        assert abs(point.added_cost - expected) <= TOL * max(1.0, expected), point.finish
