@@ -30,7 +30,7 @@ from hypothesis import strategies as st
 from hasten.errors import CycleError, InputError
 from hasten.formats import (convert, parse_predecessors, parse_tables, read_project,
                             write_project)
-from hasten.formats.cells import WHOLE_LIMIT, Where, number_value, whole_value
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, number_value, whole_value
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.project import (Activity, Calendar, Contract, Costs, CrashStep, Link, LinkType,
                           Option, Project)
@@ -1364,7 +1364,7 @@ def test_digits_read_as_the_decimal_module_reads_them(text):
     """Digits with at most one decimal point (ASCII or other decimal digits such as the
     Arabic-Indic three, any length) read as Python's standard decimal module reads them;
     anything else made of these characters is refused."""
-    where = Where("activities.csv", 2, "cost")
+    where = CellRef("activities.csv", 2, "cost")
     if not re.fullmatch(r"\d+(?:\.\d*)?|\.\d+", text):
         with pytest.raises(InputError, match="not a plain number"):
             number_value(text, where)

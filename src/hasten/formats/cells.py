@@ -16,7 +16,7 @@ from decimal import Decimal, InvalidOperation
 from hasten.errors import InputError
 
 __all__ = [
-    "Where",
+    "CellRef",
     "cell_text",
     "number_text",
     "plain_number",
@@ -37,14 +37,16 @@ _NUMBER_FIX = "write a plain number: digits with an optional decimal point, no c
 
 
 @dataclass(frozen=True)
-class Where:
-    """Where a value came from, to build an :class:`InputError` that points at it."""
+class CellRef:
+    """A reference to a cell: the file (or sheet, or JSON key), row and column a value came
+    from, to build an :class:`InputError` that points at it. Settings use the key as the
+    column."""
 
     file: str | None
     row: int | None = None
     column: str | None = None
 
-    def at(self, column: str) -> Where:
+    def at(self, column: str) -> CellRef:
         """The same place, another column (or settings key)."""
         return replace(self, column=column)
 
@@ -92,7 +94,7 @@ def clean_text(text: str) -> str:
     return text.replace("\r\n", "\n").replace("\r", "\n").strip()
 
 
-def text_value(value: object, where: Where) -> str:
+def text_value(value: object, where: CellRef) -> str:
     """A text setting or cell; numbers and dates in a text field are refused."""
     if not isinstance(value, str):
         raise where.error("expected text", value, 'put the text in quotes, e.g. "Site office"')
@@ -116,7 +118,7 @@ def _unsigned_text(value: object) -> bool:
             and value.replace(".", "", 1).isdigit())
 
 
-def _plain_decimal(value: object, where: Where) -> Decimal:
+def _plain_decimal(value: object, where: CellRef) -> Decimal:
     """Parse a plain number (int, float or text) exactly; refuse grouped or decorated numbers."""
     if isinstance(value, bool) or not isinstance(value, (int, float, str)):
         raise where.error("expected a number", value, _NUMBER_FIX)
@@ -139,7 +141,7 @@ def _plain_decimal(value: object, where: Where) -> Decimal:
         raise where.error("not a plain number", value, _NUMBER_FIX) from None
 
 
-def number_value(value: object, where: Where, *, minimum: float | None = 0.0) -> float:
+def number_value(value: object, where: CellRef, *, minimum: float | None = 0.0) -> float:
     """A plain number (money per unit etc.), at least ``minimum`` unless that is None."""
     number = float(value) if _unsigned_text(value) else float(_plain_decimal(value, where))
     if not math.isfinite(number):
@@ -150,7 +152,7 @@ def number_value(value: object, where: Where, *, minimum: float | None = 0.0) ->
     return number
 
 
-def whole_value(value: object, where: Where, *, minimum: int | None = 0,
+def whole_value(value: object, where: CellRef, *, minimum: int | None = 0,
                 unit: str = "working days") -> int:
     """A whole number (``5`` or ``5.0``), at least ``minimum`` unless that is None."""
     if _unsigned_text(value) and value.isdigit():
@@ -177,7 +179,7 @@ def whole_value(value: object, where: Where, *, minimum: int | None = 0,
 WHOLE_LIMIT = 1_000_000
 
 
-def date_value(value: object, where: Where) -> date:
+def date_value(value: object, where: CellRef) -> date:
     """A calendar date: a date object or ISO text ``YYYY-MM-DD``."""
     if isinstance(value, date) and not isinstance(value, datetime):
         return value

@@ -31,7 +31,7 @@ from collections.abc import Iterator, Sequence
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where, cell_text
+from hasten.formats.cells import CellRef, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
 from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
@@ -101,7 +101,7 @@ def read_toml(path: Path) -> Settings:
                          row=int(place.group(1)) if place else None,
                          fix='text needs quotes (name = "Depot"), dates do not '
                              "(start = 2025-03-03), lists use brackets") from None
-    return Settings(str(path), flatten(nested, Where(str(path))))
+    return Settings(str(path), flatten(nested, CellRef(str(path))))
 
 
 def _need(folder: Path, key: str) -> Path:

@@ -35,7 +35,7 @@ from datetime import date
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where
+from hasten.formats.cells import CellRef
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
 from hasten.formats.settings import flatten, nest
@@ -73,11 +73,11 @@ def _check_keys(data: dict, path: Path) -> None:
     allowed = tuple(KEYS.values())
     for key in data:
         if key not in allowed:
-            raise Where(str(path), None, key).error(
+            raise CellRef(str(path), None, key).error(
                 "unknown key", key, f"allowed keys: {', '.join(allowed)}")
     for key in _REQUIRED:
         if key not in data:
-            raise Where(str(path), None, key).error(
+            raise CellRef(str(path), None, key).error(
                 f"the key '{key}' is missing", None, f'add "{key}" to the top-level object')
 
 
@@ -88,12 +88,12 @@ def read(path: Path) -> Tables:
     names = labels(path)
     project = data["project"]
     if not isinstance(project, dict):
-        raise Where(names["settings"]).error("expected an object", type(project).__name__,
+        raise CellRef(names["settings"]).error("expected an object", type(project).__name__,
                                              'write "project": {"name": ..., "start": ...}')
     optional = {key: table_from_records(names[key], data[KEYS[key]]) if KEYS[key] in data else None
                 for key in ("links", "crash_steps", "options")}
     return Tables(
-        settings=Settings(names["settings"], flatten(project, Where(names["settings"]))),
+        settings=Settings(names["settings"], flatten(project, CellRef(names["settings"]))),
         activities=table_from_records(names["activities"], data["activities"]),
         **optional,
     )

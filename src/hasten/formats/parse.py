@@ -42,7 +42,7 @@ from graphlib import CycleError as GraphCycle
 from graphlib import TopologicalSorter
 
 from hasten.errors import CycleError, InputError
-from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
+from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
 from hasten.formats.settings import CALENDARS, parse_settings
 from hasten.formats.tables import Row, Table, Tables
@@ -80,7 +80,7 @@ class _ActivityRow:
     """An activity as read from one row, before crash steps are attached."""
 
     activity: Activity
-    where: Where
+    where: CellRef
 
 
 class _LinkSpec(NamedTuple):
@@ -88,10 +88,10 @@ class _LinkSpec(NamedTuple):
     a named tuple, as one is made per link."""
 
     link: Link
-    where: Where
+    where: CellRef
     text: str
     pred_text: str
-    succ_where: Where | None = None
+    succ_where: CellRef | None = None
 
 
 @dataclass(frozen=True)
@@ -100,7 +100,7 @@ class _OptionRow:
 
     id: str
     option: Option
-    where: Where
+    where: CellRef
 
 
 @dataclass(frozen=True)
@@ -109,10 +109,10 @@ class _StepRow:
 
     id: str
     step: CrashStep
-    where: Where
+    where: CellRef
 
 
-def _place(where: Where) -> str:
+def _place(where: CellRef) -> str:
     """``file row N`` for naming another place in a message."""
     return f"{where.file} row {where.row}"
 
@@ -121,7 +121,7 @@ def _place(where: Where) -> str:
 
 def _check_columns(table: Table, allowed: Sequence[str], required: Sequence[str]) -> None:
     """Refuse unknown columns (typos matter) and missing required ones."""
-    where = Where(table.source, table.header_line)
+    where = CellRef(table.source, table.header_line)
     for column in table.columns:
         if column not in allowed:
             close = difflib.get_close_matches(column, allowed, n=1)
@@ -136,25 +136,25 @@ def _check_columns(table: Table, allowed: Sequence[str], required: Sequence[str]
                 f"add a column named '{column}' (required columns: {', '.join(required)})")
 
 
-def _cell(row: Row, table: Table, column: str) -> tuple[str, Where]:
+def _cell(row: Row, table: Table, column: str) -> tuple[str, CellRef]:
     """The text of one cell ("" if the column is absent) and where it is."""
-    return row.cells.get(column, ""), Where(table.source, row.line, column)
+    return row.cells.get(column, ""), CellRef(table.source, row.line, column)
 
 
-_UNPLACED = Where(None)
+_UNPLACED = CellRef(None)
 
 
-def _required(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
+def _required(row: Row, table: Table, column: str, parse: Callable[[str, CellRef], object],
               what: str) -> object:
     """A cell that must not be empty, parsed; ``what`` says what to write there."""
     text = row.cells.get(column, "")
     if not text:
-        raise Where(table.source, row.line, column).error(f"the {column} is empty", text,
+        raise CellRef(table.source, row.line, column).error(f"the {column} is empty", text,
                                                           f"write {what}")
     return _optional(row, table, column, parse)
 
 
-def _optional(row: Row, table: Table, column: str, parse: Callable[[str, Where], object],
+def _optional(row: Row, table: Table, column: str, parse: Callable[[str, CellRef], object],
               default: object = None) -> object:
     """A cell parsed, or ``default`` when it is empty.
 
@@ -170,20 +170,20 @@ def _optional(row: Row, table: Table, column: str, parse: Callable[[str, Where],
         return parse(text, _UNPLACED)
     except InputError:
         pass
-    return parse(text, Where(table.source, row.line, column))
+    return parse(text, CellRef(table.source, row.line, column))
 
 
-def _lag(text: str, where: Where) -> int:
+def _lag(text: str, where: CellRef) -> int:
     """A lag in whole working days; negative is a lead."""
     return whole_value(text, where, minimum=None)
 
 
-def _step_days(text: str, where: Where) -> int:
+def _step_days(text: str, where: CellRef) -> int:
     """The days of one crash step: a whole number, at least 1."""
     return whole_value(text, where, minimum=1)
 
 
-def _activity_id(text: str, where: Where) -> str:
+def _activity_id(text: str, where: CellRef) -> str:
     """An id: any text without spaces or the separators ``; : ,``."""
     ident = text_value(text, where)
     if _ID_FORBIDDEN.search(ident):
@@ -192,7 +192,7 @@ def _activity_id(text: str, where: Where) -> str:
     return ident
 
 
-def _unknown_id(ident: str, ids: Sequence[str], where: Where, value: str, role: str):
+def _unknown_id(ident: str, ids: Sequence[str], where: CellRef, value: str, role: str):
     """The error for an id that names no activity, with close ids and likely slips."""
     close = [i for i in ids if i.lower() == ident.lower() and i != ident]
     close += [i for i in difflib.get_close_matches(ident, ids, n=3) if i not in close]
@@ -277,7 +277,7 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
     )
 
 
-def _percent(text: str, where: Where) -> float:
+def _percent(text: str, where: CellRef) -> float:
     """A percentage of work done, 0 to 100."""
     number = number_value(text, where, minimum=None)
     if not 0 <= number <= 100:
@@ -373,12 +373,12 @@ def _check_progress(rows: Sequence[_ActivityRow], table: Table, start: date,
 def _activity_rows(table: Table) -> list[_ActivityRow]:
     """All activities in order; at least one, ids unique."""
     if not table.rows:
-        raise Where(table.source, table.header_line).error(
+        raise CellRef(table.source, table.header_line).error(
             "there are no activities" if table.columns else "the table is empty", None,
             f"add a header row ({', '.join(PLAN_COLUMNS)}) and one row per activity")
     _check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
     with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
-    rows = [_ActivityRow(_activity(r, table, with_progress), Where(table.source, r.line))
+    rows = [_ActivityRow(_activity(r, table, with_progress), CellRef(table.source, r.line))
             for r in table.rows]
     first: dict[str, _ActivityRow] = {}
     for row in rows:
@@ -426,7 +426,7 @@ def _column_links(table: Table) -> list[_LinkSpec]:
         text = row.cells.get(PREDECESSORS)
         if not text:  # no predecessors: nothing to read
             continue
-        where = Where(table.source, row.line, PREDECESSORS)
+        where = CellRef(table.source, row.line, PREDECESSORS)
         succ = row.cells["id"]
         for item, (pred, kind, lag) in parse_predecessor_items(text, where):
             specs.append(_LinkSpec(Link(pred, succ, kind, lag), where, item, item))
@@ -521,7 +521,7 @@ def _step_rows(table: Table | None, ids: Sequence[str]) -> dict[str, list[_StepR
         days = _required(row, table, "days", _step_days,
                          "the number of working days this step can save")
         cost = _required(row, table, "cost_per_day", number_value, "the added cost per day saved")
-        groups.setdefault(ident, []).append(_StepRow(ident, CrashStep(days, cost), Where(table.source, row.line)))
+        groups.setdefault(ident, []).append(_StepRow(ident, CrashStep(days, cost), CellRef(table.source, row.line)))
     return groups
 
 
@@ -576,7 +576,7 @@ def _with_steps(row: _ActivityRow, steps: list[_StepRow]) -> Activity:
 
 # ---------------------------------------------------------------- discrete options
 
-def _added_cost(text: str, where: Where) -> float:
+def _added_cost(text: str, where: CellRef) -> float:
     """The added direct cost of an option; negative for a slower, cheaper method."""
     return number_value(text, where, minimum=None)
 
@@ -639,7 +639,7 @@ def _option_rows(table: Table | None, activities: Sequence[_ActivityRow]) -> dic
                     f"the option '{option.name}' of '{ident}' is given twice: rows "
                     f"{other.where.row} and {row.line}", option.name,
                     "give each option of an activity its own name")
-        group.append(_OptionRow(ident, option, Where(table.source, row.line)))
+        group.append(_OptionRow(ident, option, CellRef(table.source, row.line)))
     return groups
 
 

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-from hasten.formats.cells import Where
+from hasten.formats.cells import CellRef
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
@@ -21,7 +21,7 @@ COLUMN = "predecessors"
 _LINK_TYPES = {kind.value: kind for kind in LinkType}  # a dict look-up is quicker than LinkType()
 
 
-def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
+def link_type(text: str, where: CellRef, shown: str | None = None) -> LinkType:
     """A link type from its two letters in any case; ``shown`` is the value to name on error."""
     kind = _LINK_TYPES.get(text.strip().upper())
     if kind is None:
@@ -29,7 +29,7 @@ def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
     return kind
 
 
-def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
+def _type_and_lag(text: str, item: str, where: CellRef) -> tuple[LinkType, int]:
     """Parse ``SS+2`` (the part after the colon)."""
     match = _TYPE_AND_LAG.fullmatch(text)
     if not match:
@@ -51,7 +51,7 @@ def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
 _known: dict[str, tuple[LinkType, int]] = {}
 
 
-def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[str, LinkType, int]]]:
+def parse_predecessor_items(text: str, where: CellRef) -> list[tuple[str, tuple[str, LinkType, int]]]:
     """Each non-empty item as (item text, (predecessor id, type, lag))."""
     found = []
     for raw in text.split(";"):
@@ -79,4 +79,4 @@ def parse_predecessors(text: str, *, file: str | None = None,
 
     Pure: it does not check that the ids exist. ``file`` and ``row`` only locate errors.
     """
-    return [triple for _, triple in parse_predecessor_items(text, Where(file, row, COLUMN))]
+    return [triple for _, triple in parse_predecessor_items(text, CellRef(file, row, COLUMN))]

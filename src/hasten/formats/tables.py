@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 
-from hasten.formats.cells import Where, cell_text, clean_text
+from hasten.formats.cells import CellRef, cell_text, clean_text
 
 __all__ = ["Row", "Table", "Settings", "Tables", "table_from_grid", "table_from_records"]
 
@@ -51,9 +51,9 @@ class Settings:
     values: Mapping[str, object] = field(default_factory=dict)
     lines: Mapping[str, int] = field(default_factory=dict)
 
-    def where(self, key: str) -> Where:
+    def where(self, key: str) -> CellRef:
         """The location of ``key`` for error messages."""
-        return Where(self.source, self.lines.get(key), key)
+        return CellRef(self.source, self.lines.get(key), key)
 
 
 @dataclass(frozen=True)
@@ -82,7 +82,7 @@ def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
     names = tuple(cell_text(c).strip().lower() for c in cells)
     for i, name in enumerate(names):
         if name and name in names[:i]:
-            raise Where(source, line, name).error(
+            raise CellRef(source, line, name).error(
                 "the column name appears twice", name, f"keep one column named '{name}'")
     return names
 
@@ -107,7 +107,7 @@ def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object]
             values[names[i]] = text
         elif text:
             column = f"#{i + 1}"
-            raise Where(source, line, column).error(
+            raise CellRef(source, line, column).error(
                 "a value stands in a column without a name", text,
                 "give the column a name in the header row, or remove the value "
                 "(text containing commas must be quoted)")
@@ -136,19 +136,19 @@ def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) 
 def table_from_records(source: str, records: object) -> Table:
     """Build a table from a JSON list of objects; row numbers are 1-based list positions."""
     if not isinstance(records, list):
-        raise Where(source).error("expected a list of objects", type(records).__name__,
+        raise CellRef(source).error("expected a list of objects", type(records).__name__,
                                   'write a list: [{"id": "A", ...}, ...]')
     columns: dict[str, None] = {}
     keyed = []
     for number, record in enumerate(records, start=1):
         if not isinstance(record, dict):
-            raise Where(source, number).error("expected an object", record,
+            raise CellRef(source, number).error("expected an object", record,
                                               'write each item as {"column": value, ...}')
         item = {}
         for key, value in record.items():
             name = key.strip().lower()
             if isinstance(value, (list, dict)):
-                raise Where(source, number, name).error(
+                raise CellRef(source, number, name).error(
                     "expected a single value", value, "write text, a number or null")
             item[name] = clean_text(cell_text(value))
             columns.setdefault(name)

@@ -31,7 +31,7 @@ from datetime import date
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where, cell_text
+from hasten.formats.cells import CellRef, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
 from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
@@ -58,7 +58,7 @@ def _grid(sheet):
 def _settings(sheet, source: str) -> Settings:
     """The project sheet: one key and value per row."""
     table = table_from_grid(source, _grid(sheet))
-    header = Where(source, table.header_line)
+    header = CellRef(source, table.header_line)
     if table.columns != _SETTINGS_COLUMNS:
         raise header.error("the project sheet needs exactly the columns key and value",
                            ", ".join(table.columns) or "no columns",
@@ -68,10 +68,10 @@ def _settings(sheet, source: str) -> Settings:
     for row in table.rows:
         key = row.cells["key"]
         if not key:
-            raise Where(source, row.line, "key").error(
+            raise CellRef(source, row.line, "key").error(
                 "a value has no key", row.cells["value"], "write the setting's name in column A")
         if key in values:
-            raise Where(source, row.line, "key").error(
+            raise CellRef(source, row.line, "key").error(
                 f"the key is given twice: rows {lines[key]} and {row.line}", key,
                 "keep one row (several holidays go into one cell, separated by commas)")
         values[key], lines[key] = row.cells["value"], row.line
