@@ -1427,9 +1427,9 @@ def test_an_absurdly_large_whole_number_is_a_clear_error(tmp_path):
     "crash_cost": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,6}(\.[0-9]{1,4})?", fullmatch=True)),
     "name": st.text(max_size=12), "trade": st.text(max_size=6)}))
 def test_the_quick_path_for_plain_rows_reads_as_the_full_path(cells):
-    """Plain rows are read by a short path (hasten.formats.parse._plain_activity); it must give
+    """Plain rows are read by a short path (hasten.formats.activities._plain_activity); it must give
     exactly what the full path with all its checks gives, and decline everything else."""
-    from hasten.formats.parse import _activity, _plain_activity
+    from hasten.formats.activities import _activity, _plain_activity
     from hasten.formats.tables import Row, Table
 
     table = Table("activities.csv", tuple(cells), (), 1)
@@ -1444,7 +1444,7 @@ def test_the_quick_path_for_plain_rows_reads_as_the_full_path(cells):
 
 
 def test_the_quick_path_takes_plain_rows():
-    from hasten.formats.parse import _plain_activity
+    from hasten.formats.activities import _plain_activity
 
     assert _plain_activity({"id": "A1", "duration": "5", "crash_duration": "3", "cost": "100",
                             "crash_cost": "160.5", "name": "Pour slab", "trade": "concrete"}) == \

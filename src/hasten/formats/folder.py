@@ -34,7 +34,7 @@ from hasten.errors import InputError
 from hasten.formats.cells import CellRef, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
-from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.columns import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import flatten, nest
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.formats.tomlwrite import toml_text
