@@ -55,6 +55,7 @@ from pathlib import Path
 
 from hasten.errors import CycleError, InputError
 from hasten.formats.settings import NAMED_CALENDARS
+from hasten.graph import find_cycle
 from hasten.project import Activity, Calendar, Link, Option, Project
 
 __all__ = ["read_research", "RESEARCH_SUFFIXES", "RESEARCH_START"]
@@ -374,16 +375,13 @@ def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]
 # ---------------------------------------------------------------- the project
 
 def _links(successors: dict[int, tuple[int, ...]], path: Path) -> tuple[Link, ...]:
-    """Finish-to-start links ordered by successor, then predecessor; loops are refused."""
-    import networkx as nx  # imported on use: importing it takes longer than reading a file
-
+    """Finish-to-start links ordered by successor, then predecessor; loops are refused,
+    naming the jobs around the loop in order (:func:`hasten.graph.find_cycle`)."""
     pairs = sorted(((p, s) for p, succ in successors.items() for s in succ), key=lambda e: (e[1], e[0]))
-    graph = nx.DiGraph(pairs)
-    try:
-        cycle = nx.find_cycle(graph)
-    except nx.NetworkXNoCycle:
-        return tuple(Link(f"J{p}", f"J{s}") for p, s in pairs)
-    raise CycleError([f"J{u}" for u, _ in cycle], file=str(path))
+    loop = find_cycle(len(successors) + 1, [p for p, _ in pairs], [s for _, s in pairs])
+    if loop is not None:
+        raise CycleError([f"J{pairs[e][0]}" for e in loop], file=str(path))
+    return tuple(Link(f"J{p}", f"J{s}") for p, s in pairs)
 
 
 def read_research(path: str | os.PathLike[str]) -> Project:
