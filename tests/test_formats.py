@@ -320,12 +320,6 @@ BAD_FOLDER_CASES = {
 }
 
 
-@pytest.mark.parametrize("case", list(BAD_FOLDER_CASES), ids=list(BAD_FOLDER_CASES))
-def test_bad_folder_input(hall, case):
-    file, old, new, row, column, value, says = BAD_FOLDER_CASES[case]
-    edit(hall / file, old, new)
-    check_error(read_error(hall), file=file, row=row, column=column, value=value, says=says)
-
 
 def test_cycle_names_the_ids_in_order(hall):
     (hall / "links.csv").write_text(
@@ -846,12 +840,6 @@ BAD_CALENDAR_CASES = {
 }
 
 
-@pytest.mark.parametrize("case", list(BAD_CALENDAR_CASES), ids=list(BAD_CALENDAR_CASES))
-def test_bad_calendar_input(depot, case):
-    file, old, new, row, column, value, says = BAD_CALENDAR_CASES[case]
-    edit(depot / file, old, new)
-    check_error(read_error(depot), file=file, row=row, column=column, value=value, says=says)
-
 
 def test_unknown_calendar_names_the_fix_and_the_defined_calendars(depot):
     edit(depot / "activities.csv", "B,six-day", "B,Six-Day")
@@ -909,19 +897,6 @@ def test_calendar_errors_in_workbook_and_json(tmp_path):
     (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
     check_error(read_error(tmp_path / "p.json"), file="p.json (project)", row=None,
                 column="calendars", value=None, says="must be a section of named calendars")
-
-
-@pytest.mark.parametrize("change, says", [
-    (dict(calendars=()), "unknown calendar 'crane'"),
-    (dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
-                     Calendar((0, 1, 2, 3, 4, 5), (), "six day"))), "calendar name"),
-    (dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
-                     Calendar((5, 0), (), "six-day"))), r"project.calendars\[1\].workdays"),
-])
-def test_refuses_calendars_that_would_not_read_back(tmp_path, change, says):
-    with pytest.raises(InputError, match=says):
-        write_project(replace(DEPOT_PROJECT, **change), tmp_path / "p.json")
-    assert list(tmp_path.iterdir()) == []
 
 
 # (file, old text, new text, row, column, value, words the message must contain)
@@ -994,12 +969,24 @@ BAD_PROGRESS_CASES = {
 }
 
 
-@pytest.mark.parametrize("case", list(BAD_PROGRESS_CASES), ids=list(BAD_PROGRESS_CASES))
-def test_bad_progress_input(yard, case):
-    file, old, new, row, column, value, says = BAD_PROGRESS_CASES[case]
-    edit(yard / file, old, new)
-    error = read_error(yard)
-    check_error(error, file=file, row=row, column=column, value=value, says=says)
+
+# ---------------------------------------------------------------- bad input, one table
+# Every case of the three tables above as one parametrised table: the sample folder it
+# edits (a fixture), then (file, old text, new text, row, column, value, words).
+
+BAD_INPUT_CASES = {
+    **{f"hall: {k}": ("hall",) + v for k, v in BAD_FOLDER_CASES.items()},
+    **{f"depot: {k}": ("depot",) + v for k, v in BAD_CALENDAR_CASES.items()},
+    **{f"yard: {k}": ("yard",) + v for k, v in BAD_PROGRESS_CASES.items()},
+}
+
+
+@pytest.mark.parametrize("case", list(BAD_INPUT_CASES), ids=list(BAD_INPUT_CASES))
+def test_bad_input(request, case):
+    fixture, file, old, new, row, column, value, says = BAD_INPUT_CASES[case]
+    folder = request.getfixturevalue(fixture)
+    edit(folder / file, old, new)
+    check_error(read_error(folder), file=file, row=row, column=column, value=value, says=says)
 
 
 def test_actual_dates_without_a_data_date(yard):
@@ -1043,18 +1030,6 @@ def test_progress_errors_in_workbook_and_json(tmp_path):
     (tmp_path / "p.json").write_text(json.dumps(data), encoding="utf-8")
     check_error(read_error(tmp_path / "p.json"), file="p.json (activities)", row=6,
                 column="remaining", value="1", says="progress needs an actual start")
-
-
-@pytest.mark.parametrize("change, says", [
-    (dict(data_date=None), "actual dates need a data date"),
-    (dict(data_date=date(2025, 3, 21)), "on or after the data date"),
-    (dict(activities=(Activity("A", 3, damages_per_day=10.0),), links=()), "deadline is empty"),
-    (dict(activities=(Activity("A", 3, remaining=2),), links=()), "needs an actual start"),
-])
-def test_refuses_progress_that_would_not_read_back(tmp_path, change, says):
-    with pytest.raises(InputError, match=says):
-        write_project(replace(YARD_PROJECT, **change), tmp_path / "p.json")
-    assert list(tmp_path.iterdir()) == []
 
 
 # ---------------------------------------------------------------- writing
@@ -1168,23 +1143,41 @@ def test_failed_folder_write_leaves_old_files_alone(hall, monkeypatch):
     assert sorted(p.name for p in hall.parent.iterdir()) == ["hall"]
 
 
-@pytest.mark.parametrize("change, says", [
-    (dict(name=" padded "), "project.name"),
-    (dict(calendar=Calendar((0, 1, 2, 3, 4, 5), (), "mon-fri")), "project.calendar.name"),
-    (dict(links=(Link("010", "020"), Link("020", "010"))), "loop"),
-    (dict(links=(Link("010", "999"),)), "unknown"),
-    (dict(links=(), activities=(Activity("010", 3, options=(Option(" padded ", 2, 10.0),)),)),
-     r"project.activities\[0\].options\[0\].name"),
-    (dict(links=(), activities=(Activity("010", 3, options=(Option("x", 2, 10.0, cost_per_day=5.0),)),)),
-     "no crash duration"),
-    (dict(links=(), activities=(Activity("010", 0, options=(Option("x", 2, 10.0),)),)), "milestone"),
-    (dict(links=(), activities=(Activity("010", 3, options=(Option("x", 2, 1.0), Option("x", 1, 2.0))),)),
-     "given twice"),
+# ---------------------------------------------------------------- refused before writing
+# (sample project, changed fields, words of the message): writing refuses a project that is
+# invalid or would not read back equal, and leaves nothing behind.
+
+@pytest.mark.parametrize("base, change, says", [
+    (HALL_PROJECT, dict(name=" padded "), "project.name"),
+    (HALL_PROJECT, dict(calendar=Calendar((0, 1, 2, 3, 4, 5), (), "mon-fri")),
+     "project.calendar.name"),
+    (HALL_PROJECT, dict(links=(Link("010", "020"), Link("020", "010"))), "loop"),
+    (HALL_PROJECT, dict(links=(Link("010", "999"),)), "unknown"),
+    (HALL_PROJECT, dict(links=(), activities=(Activity("010", 3, options=(
+        Option(" padded ", 2, 10.0),)),)), r"project.activities\[0\].options\[0\].name"),
+    (HALL_PROJECT, dict(links=(), activities=(Activity("010", 3, options=(
+        Option("x", 2, 10.0, cost_per_day=5.0),)),)), "no crash duration"),
+    (HALL_PROJECT, dict(links=(), activities=(Activity("010", 0, options=(
+        Option("x", 2, 10.0),)),)), "milestone"),
+    (HALL_PROJECT, dict(links=(), activities=(Activity("010", 3, options=(
+        Option("x", 2, 1.0), Option("x", 1, 2.0))),)), "given twice"),
+    (DEPOT_PROJECT, dict(calendars=()), "unknown calendar 'crane'"),
+    (DEPOT_PROJECT, dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
+                                    Calendar((0, 1, 2, 3, 4, 5), (), "six day"))),
+     "calendar name"),
+    (DEPOT_PROJECT, dict(calendars=(Calendar((0, 1, 2, 3, 4, 5, 6), (), "crane"),
+                                    Calendar((5, 0), (), "six-day"))),
+     r"project.calendars\[1\].workdays"),
+    (YARD_PROJECT, dict(data_date=None), "actual dates need a data date"),
+    (YARD_PROJECT, dict(data_date=date(2025, 3, 21)), "on or after the data date"),
+    (YARD_PROJECT, dict(activities=(Activity("A", 3, damages_per_day=10.0),), links=()),
+     "deadline is empty"),
+    (YARD_PROJECT, dict(activities=(Activity("A", 3, remaining=2),), links=()),
+     "needs an actual start"),
 ])
-def test_refuses_projects_that_would_not_read_back(tmp_path, change, says):
-    fields = {**HALL_PROJECT.__dict__, **change}
+def test_refuses_projects_that_would_not_read_back(tmp_path, base, change, says):
     with pytest.raises(InputError, match=says):
-        write_project(Project(**fields), tmp_path / "p.json")
+        write_project(replace(base, **change), tmp_path / "p.json")
     assert list(tmp_path.iterdir()) == []
 
 
