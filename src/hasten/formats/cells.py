@@ -25,6 +25,8 @@ __all__ = [
     "number_value",
     "whole_value",
     "date_value",
+    "shortened",
+    "WHOLE_LIMIT",
 ]
 
 _PLAIN_NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
@@ -167,10 +169,18 @@ def whole_value(value: object, where: CellRef, *, minimum: int | None = 0,
         raise where.error("must not be negative" if minimum == 0 else f"must be at least {minimum}",
                           value, f"write {minimum} or more")
     if abs(number) > WHOLE_LIMIT:
-        shown = value if len(str(value)) <= 40 else f"{str(value)[:20]}... ({len(str(value))} characters)"
-        raise where.error(f"more than {WHOLE_LIMIT:,} {unit}", shown,
+        raise where.error(f"more than {WHOLE_LIMIT:,} {unit}", shortened(value),
                           f"write a number of {unit} up to {WHOLE_LIMIT:,}")
     return number
+
+
+def shortened(value: object, limit: int = 40) -> object:
+    """``value`` as it is, or its text cut to its first characters when it is longer than
+    ``limit`` (a value of thousands of characters would drown the message)."""
+    text = str(value)
+    if len(text) <= limit:
+        return value
+    return f"{text[:limit // 2]}... ({len(text):,} characters)"
 
 
 #: The largest whole number of days accepted (a thousand years of working days is plenty;

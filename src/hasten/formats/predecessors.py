@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-from hasten.formats.cells import CellRef
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, shortened
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
@@ -33,17 +33,22 @@ def _type_and_lag(text: str, item: str, where: CellRef) -> tuple[LinkType, int]:
     """Parse ``SS+2`` (the part after the colon)."""
     match = _TYPE_AND_LAG.fullmatch(text)
     if not match:
-        raise where.error("cannot read the link type and lag", item,
+        raise where.error("cannot read the link type and lag", shortened(item),
                           f"write ID:TYPE+LAG, e.g. 'A:SS+2'; {LINK_TYPE_FIX}")
     kind = link_type(match.group(1), where, item)
     sign, lag = match.group(2), match.group(3)
     if sign is None:
         return kind, 0
     if not _WHOLE.fullmatch(lag):
-        raise where.error("the lag is not a whole number of working days", item,
+        raise where.error("the lag is not a whole number of working days", shortened(item),
                           f"write the lag as whole days after + or -, e.g. "
                           f"'{item.split(':')[0].strip()}:{kind.value}+2'")
-    return kind, int(lag) if sign == "+" else -int(lag)
+    # the length first: Python refuses to turn text of thousands of digits into a number
+    days = int(lag) if len(lag) <= 9 else WHOLE_LIMIT + 1
+    if days > WHOLE_LIMIT:
+        raise where.error(f"the lag is more than {WHOLE_LIMIT:,} working days", shortened(item),
+                          f"write a lag of up to {WHOLE_LIMIT:,} working days")
+    return kind, days if sign == "+" else -days
 
 
 #: type-and-lag texts already read (``"SS+2"``), a few distinct ones in any project;

@@ -1,0 +1,129 @@
+"""Bad input found by an adversarial review of the file formats: each case is a clear
+:class:`~hasten.errors.InputError` (exit code 2 in the CLI) naming the file, the place and
+the fix, never a traceback or a silent misreading.
+
+All projects here are invented for these format checks; the expected messages are written
+out by hand. The date limit is Python's: ``datetime.date.max`` is 9999-12-31 (Python
+documentation, datetime module).
+"""
+
+from __future__ import annotations
+
+import json
+import shutil
+from datetime import date
+from pathlib import Path
+
+import pytest
+
+from hasten.errors import InputError
+from hasten.formats import read_project, read_research
+from hasten.network import Network
+from hasten.network import schedule as cpm
+
+DATA = Path(__file__).parent / "data"
+HALL = DATA / "formats" / "hall"
+J102 = DATA / "psplib_mm" / "j102_2.mm"
+
+
+def shed(folder: Path, activities: str, settings: str = "") -> Path:
+    """A small folder project with the given activities.csv text."""
+    folder.mkdir(parents=True, exist_ok=True)
+    (folder / "project.toml").write_text('name = "Shed"\nstart = 2025-01-06\n' + settings,
+                                         encoding="utf-8")
+    (folder / "activities.csv").write_text(activities, encoding="utf-8", newline="")
+    return folder
+
+
+def refused(path: Path) -> InputError:
+    with pytest.raises(InputError) as caught:
+        read_project(path)
+    error = caught.value
+    assert "Fix: " in str(error) and error.fix, str(error)
+    assert "\n" not in str(error)
+    return error
+
+
+# ---------------------------------------------------------------- B1 huge lags
+
+def test_a_huge_lag_in_the_predecessors_shorthand_is_refused(tmp_path):
+    # links.csv already refuses a lag over 1,000,000 working days; the shorthand must too
+    error = refused(shed(tmp_path, "id,duration,predecessors\nA,1,\nB,1,A:FS+" + "1" + "0" * 30 + "\n"))
+    assert error.file.endswith("activities.csv") and error.row == 3
+    assert error.column == "predecessors"
+    assert "more than 1,000,000 working days" in error.problem
+
+
+def test_a_lag_of_5000_digits_is_a_clear_error(tmp_path):
+    # Python refuses to convert text of more than 4,300 digits to int (sys.int_info)
+    error = refused(shed(tmp_path, "id,duration,predecessors\nA,1,\nB,1,A:SS-" + "9" * 5000 + "\n"))
+    assert error.row == 3 and "more than 1,000,000 working days" in error.problem
+    assert len(str(error)) < 600  # the value is shortened, not printed whole
+
+
+# ---------------------------------------------------------------- B2 dates past 9999
+
+def test_a_chain_running_past_the_year_9999_is_refused_when_read(tmp_path):
+    # four activities of 999,999 working days one after another: about 4 million working
+    # days on a mon-fri calendar, about 15,000 years after 2025
+    rows = "".join(f"{x},999999,{p}\n" for x, p in zip("ABCD", ["", "A", "B", "C"]))
+    error = refused(shed(tmp_path, "id,duration,predecessors\n" + rows))
+    assert error.file.endswith("activities.csv") and error.column == "duration"
+    assert "past 9999-12-31" in error.problem
+    assert "A (999999 working days)" in error.problem and "D (999999" in error.problem
+
+
+def test_the_same_durations_side_by_side_are_fine(tmp_path):
+    # the chain, not the sum, decides: four parallel activities of 999,999 days end in
+    # about year 5900 (999,999 working days x 7/5 calendar days, from 2025)
+    rows = "".join(f"{x},999999,\n" for x in "ABCD")
+    project = read_project(shed(tmp_path, "id,duration,predecessors\n" + rows))
+    net = Network(project)
+    finish = cpm(net).finish
+    assert net.clock.project_finish_date(finish).year < 9999
+
+
+def test_a_data_date_in_9999_with_work_left_is_refused(tmp_path):
+    folder = shed(tmp_path, "id,duration,actual_start,remaining\nA,30,2025-01-06,20\n",
+                  "[status]\ndata_date = 9999-12-20\n")
+    error = refused(folder)
+    assert error.column == "status.data_date" and "past 9999-12-31" in error.problem
+
+
+def test_a_not_before_date_late_in_9999_is_refused(tmp_path):
+    error = refused(shed(tmp_path, "id,duration,not_before\nA,30,9999-12-20\n"))
+    assert error.row == 2 and error.column == "not_before"
+    assert "past 9999-12-31" in error.problem
+
+
+# ---------------------------------------------------------------- B3 deep JSON
+
+def test_json_nested_100000_levels_deep_is_a_clear_error(tmp_path):
+    path = tmp_path / "deep.json"
+    path.write_text('{"project": ' + "[" * 100_000 + "]" * 100_000 + "}", encoding="utf-8")
+    error = refused(path)
+    assert error.file == str(path) and "nested" in error.problem
+
+
+def test_toml_nested_deeply_is_a_clear_error(tmp_path):
+    folder = shed(tmp_path, "id,duration\nA,1\n")
+    (folder / "project.toml").write_text('name = "x"\nstart = 2025-01-06\nholidays = '
+                                         + "[" * 100_000 + "]" * 100_000 + "\n")
+    error = refused(folder)
+    assert error.file.endswith("project.toml") and "nested" in error.problem
+
+
+# ---------------------------------------------------------------- B4 non-ASCII digits
+
+def test_psplib_count_in_arabic_indic_digits_is_refused(tmp_path):
+    # Python's int() reads '١٢' (ARABIC-INDIC DIGIT ONE, TWO) as 12; PSPLIB files are ASCII
+    text = J102.read_text(encoding="ascii")
+    assert "jobs (incl. supersource/sink ):  12" in text
+    path = tmp_path / J102.name
+    path.write_text(text.replace("jobs (incl. supersource/sink ):  12",
+                                 "jobs (incl. supersource/sink ):  \u0661\u0662"), encoding="utf-8")
+    with pytest.raises(InputError) as caught:
+        read_research(path)
+    error = caught.value
+    assert error.file == str(path) and error.row == text[:text.index("jobs (incl.")].count("\n") + 1
+    assert "not plain ASCII" in error.problem and "\\u0661" in str(error)
