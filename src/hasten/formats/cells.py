@@ -180,7 +180,7 @@ def shortened(value: object, limit: int = 40) -> object:
     text = str(value)
     if len(text) <= limit:
         return value
-    return f"{text[:limit // 2]}... ({len(text):,} characters)"
+    return f"{text[:limit // 2]}... ({len(text)} characters)"
 
 
 #: The largest whole number of days accepted (a thousand years of working days is plenty;
