@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from hasten.formats.activities import activity_rows, check_calendars, check_progress
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
+from hasten.formats.reach import check_reach
 from hasten.formats.settings import parse_settings
 from hasten.formats.shortening import option_rows, step_rows, with_options, with_steps
 from hasten.formats.tables import Tables
@@ -39,7 +40,7 @@ def parse_tables(tables: Tables) -> Project:
         with_options(with_steps(r, steps.get(r.activity.id, [])), options.get(r.activity.id))
         for r in rows)
     check_acyclic(links, ids)
-    return Project(
+    project = Project(
         name=settings.name,
         start=settings.start,
         activities=activities,
@@ -51,3 +52,7 @@ def parse_tables(tables: Tables) -> Project:
         data_date=settings.data_date,
         calendars=settings.calendars,
     )
+    check_reach(project, {r.activity.id: r.where for r in rows},
+                [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],
+                tables.settings.where)
+    return project
