@@ -126,4 +126,4 @@ def test_psplib_count_in_arabic_indic_digits_is_refused(tmp_path):
         read_research(path)
     error = caught.value
     assert error.file == str(path) and error.row == text[:text.index("jobs (incl.")].count("\n") + 1
-    assert "not plain ASCII" in error.problem and "\\u0661" in str(error)
+    assert "not plain ASCII: U+0661 ARABIC-INDIC DIGIT ONE" in error.problem

@@ -101,6 +101,10 @@ def read_toml(path: Path) -> Settings:
                          row=int(place.group(1)) if place else None,
                          fix='text needs quotes (name = "Depot"), dates do not '
                              "(start = 2025-03-03), lists use brackets") from None
+    except RecursionError:
+        raise InputError("the TOML is nested too deeply to read", file=str(path),
+                         fix="project settings nest only a few levels deep: check the "
+                             "brackets") from None
     return Settings(str(path), flatten(nested, CellRef(str(path))))
 
 

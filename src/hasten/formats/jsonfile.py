@@ -63,6 +63,10 @@ def _load(path: Path) -> dict:
     except UnicodeDecodeError:
         raise InputError("the file is not UTF-8 text", file=str(path),
                          fix="save it as UTF-8") from None
+    except RecursionError:
+        raise InputError("the JSON is nested too deeply to read", file=str(path),
+                         fix="a project nests objects and lists only a few levels deep: "
+                             "check the brackets") from None
     if not isinstance(data, dict):
         raise InputError("the file must hold one JSON object", file=str(path),
                          value=type(data).__name__, fix='write {"project": {...}, "activities": [...]}')

@@ -49,6 +49,7 @@ from __future__ import annotations
 
 import os
 import re
+import unicodedata
 from dataclasses import dataclass
 from datetime import date
 from pathlib import Path
@@ -126,8 +127,10 @@ class _Lines:
 
 
 def _decode(path: Path) -> str:
+    """The file's text; these files are plain ASCII, so anything else is refused (Python's
+    ``int`` would read digits of other scripts, such as Arabic-Indic ones, as numbers)."""
     try:
-        return path.read_bytes().decode("utf-8-sig")
+        text = path.read_bytes().decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         raise InputError("the file is not plain text (UTF-8 or ASCII)", file=str(path),
                          value=f"byte {exc.start}", fix="use the instance file as published "
@@ -135,6 +138,16 @@ def _decode(path: Path) -> str:
     except OSError as exc:
         raise InputError(f"cannot read the file: {exc.strerror or exc}", file=str(path),
                          fix="check the path and the file permissions") from None
+    if not text.isascii():
+        at = next(i for i, char in enumerate(text) if not char.isascii())
+        line = text.count("\n", 0, at) + 1
+        name = unicodedata.name(text[at], "without a name")
+        raise InputError(f"the line holds a character that is not plain ASCII: "
+                         f"U+{ord(text[at]):04X} {name}", file=str(path), row=line,
+                         value=text.splitlines()[line - 1].strip()[:60],
+                         fix="research instance files are plain ASCII: use the file as "
+                             "published, with ASCII digits 0-9")
+    return text
 
 
 # ---------------------------------------------------------------- PSPLIB (.mm, .sm)
