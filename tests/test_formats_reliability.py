@@ -127,3 +127,63 @@ def test_psplib_count_in_arabic_indic_digits_is_refused(tmp_path):
     error = caught.value
     assert error.file == str(path) and error.row == text[:text.index("jobs (incl.")].count("\n") + 1
     assert "not plain ASCII: U+0661 ARABIC-INDIC DIGIT ONE" in error.problem
+
+
+# ---------------------------------------------------------------- B5 errors name the source
+
+SM = sorted((DATA / "psplib_sm").glob("*.sm"))[0]
+
+
+def test_import_of_a_too_long_duration_names_the_source_line(tmp_path):
+    from hasten.formats import import_research
+
+    lines = SM.read_text(encoding="ascii").splitlines(keepends=True)
+    at = next(i for i, line in enumerate(lines) if line.startswith("REQUESTS/DURATIONS")) + 4
+    fields = lines[at].split()  # job 2, mode 1, its duration, the resource amounts
+    lines[at] = "  ".join(fields[:2] + ["2000000"] + fields[3:]) + "\n"
+    source = tmp_path / SM.name
+    source.write_text("".join(lines), encoding="ascii")
+    target = tmp_path / "out"
+    with pytest.raises(InputError) as caught:
+        import_research(source, target)
+    error = caught.value
+    assert error.file == str(source) and error.row == at + 1 and error.column == "duration"
+    assert "out" not in str(error).replace(str(tmp_path), "") and not target.exists()
+
+
+def test_import_of_a_chain_past_9999_names_the_source(tmp_path):
+    from hasten.formats import import_research
+
+    lines = SM.read_text(encoding="ascii").splitlines(keepends=True)
+    first = next(i for i, line in enumerate(lines) if line.startswith("REQUESTS/DURATIONS")) + 3
+    for i in range(first + 1, first + 40):  # every job lasts 999,999 periods
+        fields = lines[i].split()
+        if len(fields) < 3 or not fields[0].isdigit():
+            break
+        lines[i] = "  ".join(fields[:2] + ["999999"] + fields[3:]) + "\n"
+    source = tmp_path / SM.name
+    source.write_text("".join(lines), encoding="ascii")
+    with pytest.raises(InputError) as caught:
+        import_research(source, tmp_path / "out.xlsx")
+    assert caught.value.file == str(source) and "past 9999-12-31" in str(caught.value)
+    assert not (tmp_path / "out.xlsx").exists()
+
+
+def test_writing_an_invalid_project_never_names_the_target(tmp_path):
+    from hasten.formats import write_project
+    from hasten.project import Activity, Project
+
+    bad = Project("Shed", date(2025, 1, 6), (Activity("A", 3, crash_duration=2),))
+    target = tmp_path / "out"
+    with pytest.raises(InputError) as caught:
+        write_project(bad, target, source="in.json")
+    error = caught.value
+    assert error.file == "in.json"
+    assert error.problem.startswith("the project read from here cannot be written (activity A, "
+                                    "column 'crash_cost'): 'A' can be shortened to 2 days but "
+                                    "its crash cost is empty")
+    assert str(target) not in str(error) and not target.exists()
+    with pytest.raises(InputError) as caught:
+        write_project(bad, target)
+    assert caught.value.file is None and str(target) not in str(caught.value)
+    assert str(caught.value).startswith("the project cannot be written")

@@ -9,7 +9,7 @@ column, value and the fix.
 Patterson ``.rcp``) as projects; it is one-way (write them with :func:`write_project`).
 """
 
-from hasten.formats.api import convert, read_project, write_project
+from hasten.formats.api import convert, import_research, read_project, write_project
 from hasten.formats.parse import parse_tables
 from hasten.formats.predecessors import parse_predecessors
 from hasten.formats.research import read_research
@@ -20,6 +20,7 @@ __all__ = [
     "write_project",
     "convert",
     "read_research",
+    "import_research",
     "parse_predecessors",
     "parse_tables",
     "Tables",

@@ -55,6 +55,8 @@ from datetime import date
 from pathlib import Path
 
 from hasten.errors import CycleError, InputError
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, shortened
+from hasten.formats.reach import check_reach
 from hasten.formats.settings import NAMED_CALENDARS
 from hasten.graph import find_cycle
 from hasten.project import Activity, Calendar, Link, Option, Project
@@ -83,6 +85,7 @@ class _Mode:
     duration: int
     cost: int  # sum of the nonrenewable amounts
     amounts: tuple[int, ...]  # the nonrenewable amounts, for the note
+    line: int = 0  # where the mode is given
 
 
 @dataclass
@@ -117,7 +120,11 @@ class _Lines:
         for k, token in enumerate(self.text(line).split()):
             name = names[min(k, len(names) - 1)]
             if not _INTEGER.fullmatch(token):
-                raise self.error(f"expected a whole number ({name})", line, name, token)
+                raise self.error(f"expected a whole number ({name})", line, name,
+                                 shortened(token))
+            if len(token) > 15:  # Python refuses to read numbers of thousands of digits
+                raise self.error(f"the number is too large ({name})", line, name,
+                                 shortened(token))
             number = int(token)
             if minimum is not None and number < minimum:
                 raise self.error(f"expected a whole number of at least {minimum} ({name})",
@@ -291,6 +298,7 @@ def _requests(lines: _Lines, jobs: dict[int, _Job]) -> None:
             raise lines.error(f"expected {expected}, found {len(tokens)}", n, None,
                               lines.text(n).strip())
         mode, duration, amounts = values[0], values[1], values[2:]
+        _check_duration(lines, n, duration)
         if mode != len(current.modes) + 1:
             raise lines.error(f"expected mode {len(current.modes) + 1} of job {current.number}",
                               n, "mode", mode)
@@ -298,12 +306,20 @@ def _requests(lines: _Lines, jobs: dict[int, _Job]) -> None:
             raise lines.error(f"job {current.number} has {current.modes_declared} modes "
                               f"(line {current.line}) but more are listed", n, "mode", mode)
         costs = tuple(amounts[k] for k in nonrenewable)
-        current.modes.append(_Mode(mode, duration, sum(costs), costs))
+        current.modes.append(_Mode(mode, duration, sum(costs), costs, n))
     for job in jobs.values():
         if len(job.modes) != job.modes_declared:
             raise lines.error(f"job {job.number} has {job.modes_declared} modes (line {job.line}) "
                               f"but REQUESTS/DURATIONS lists {len(job.modes)}", title, None,
                               None, _PSPLIB_FIX)
+
+
+def _check_duration(lines: _Lines, line: int, duration: int) -> None:
+    """A duration is at most the largest number of working days a project may hold."""
+    if duration > WHOLE_LIMIT:
+        raise lines.error(f"the duration is more than {WHOLE_LIMIT:,} periods", line, "duration",
+                          duration, f"hasten takes durations of up to {WHOLE_LIMIT:,} working "
+                          "days; use the file as published")
 
 
 def _note(job: _Job, mode: _Mode) -> str:
@@ -325,18 +341,22 @@ def _psplib_activity(job: _Job, multi: bool) -> Activity:
                     cost=float(normal.cost) if multi else 0.0, options=options)
 
 
-def _psplib(lines: _Lines, multi: bool) -> tuple[list[Activity], dict[int, tuple[int, ...]]]:
+def _psplib(lines: _Lines, multi: bool) -> tuple[list[Activity], dict[int, tuple[int, ...]],
+                                                 dict[str, int]]:
     count = _job_count(lines)
     jobs = _precedence(lines, count, single=not multi)
     _requests(lines, jobs)
     ordered = [jobs[j] for j in range(1, count + 1)]
-    return ([_psplib_activity(j, multi) for j in ordered],
-            {j.number: j.successors for j in ordered})
+    activities = [_psplib_activity(j, multi) for j in ordered]
+    return (activities, {j.number: j.successors for j in ordered},
+            {a.id: next(m.line for m in j.modes if m.duration == a.longest)
+             for a, j in zip(activities, ordered)})
 
 
 # ---------------------------------------------------------------- Patterson (.rcp)
 
-def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]]]:
+def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]],
+                                        dict[str, int]]:
     numbered = [n for n in range(1, len(lines.lines) + 1) if lines.text(n).strip()]
     if not numbered:
         raise lines.error("the file is empty")
@@ -368,6 +388,7 @@ def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]
             raise lines.error(f"expected the duration, {width} resource amounts and the number "
                               "of successors", n, None, lines.text(n).strip())
         duration, announced, succ = values[0], values[width + 1], tuple(values[width + 2:])
+        _check_duration(lines, n, duration)
         if len(succ) != announced:
             raise lines.error(f"activity {job} announces {announced} successors but lists "
                               f"{len(succ)}", n, "successors", lines.text(n).strip())
@@ -382,7 +403,7 @@ def _patterson(lines: _Lines) -> tuple[list[Activity], dict[int, tuple[int, ...]
                               lines.text(n).strip())
         activities.append(Activity(id=f"J{job}", duration=duration, name=f"job {job}"))
         successors[job] = succ
-    return activities, successors
+    return activities, successors, {a.id: line for a, line in zip(activities, rows)}
 
 
 # ---------------------------------------------------------------- the project
@@ -412,10 +433,11 @@ def read_research(path: str | os.PathLike[str]) -> Project:
         raise InputError("not found", file=str(path), fix="check the path")
     text = _decode(path)
     if suffix == ".rcp":
-        activities, successors = _patterson(_Lines(path, text, _RCP_FIX))
+        activities, successors, lines = _patterson(_Lines(path, text, _RCP_FIX))
     else:
-        activities, successors = _psplib(_Lines(path, text, _PSPLIB_FIX), multi=suffix == ".mm")
-    return Project(
+        activities, successors, lines = _psplib(_Lines(path, text, _PSPLIB_FIX),
+                                                multi=suffix == ".mm")
+    project = Project(
         name=f"{path.stem} ({_KINDS[suffix]})",
         start=RESEARCH_START,
         activities=tuple(activities),
@@ -423,3 +445,6 @@ def read_research(path: str | os.PathLike[str]) -> Project:
         calendar=Calendar(NAMED_CALENDARS["all-days"], (), "all-days"),
         currency="",
     )
+    check_reach(project, {ident: CellRef(str(path), line) for ident, line in lines.items()},
+                [CellRef(str(path))] * len(project.links), lambda key: CellRef(str(path)))
+    return project
