@@ -187,3 +187,27 @@ def test_writing_an_invalid_project_never_names_the_target(tmp_path):
         write_project(bad, target)
     assert caught.value.file is None and str(target) not in str(caught.value)
     assert str(caught.value).startswith("the project cannot be written")
+
+
+# ---------------------------------------------------------------- B6, B11 CSV quotes and cells
+
+def test_an_unclosed_quote_is_named_not_an_empty_duration(tmp_path):
+    folder = shed(tmp_path, 'id,name,duration\nA,Site office,3\nB,"Formwork,4\nC,Pour,5\n')
+    error = refused(folder)
+    assert error.file.endswith("activities.csv") and error.row == 3 and error.column == "name"
+    assert "a quote opened here is never closed" in error.problem
+    assert "duration is empty" not in str(error)
+
+
+def test_an_unclosed_quote_in_a_long_file_is_named_not_a_too_long_cell(tmp_path):
+    rows = "".join(f"X{i},Pour,5\n" for i in range(30_000))  # more than the field limit
+    error = refused(shed(tmp_path, 'id,name,duration\nA,"Site office,3\n' + rows))
+    assert error.row == 2 and "never closed" in error.problem
+
+
+def test_a_cell_over_the_csv_field_limit_is_named_as_too_long(tmp_path):
+    # Python's csv module refuses fields over csv.field_size_limit(), 131,072 by default
+    folder = shed(tmp_path, 'id,name,duration\nA,Site office,3\nB,"' + "x" * 200_000 + '",4\n')
+    error = refused(folder)
+    assert error.row == 3 and "longer than 131,072 characters" in error.problem
+    assert "quote" not in error.problem and len(str(error)) < 600

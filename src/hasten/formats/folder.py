@@ -70,24 +70,62 @@ def _decode(path: Path) -> str:
                          fix="check the path and the file permissions") from None
 
 
-def _numbered(rows: csv.reader) -> Iterator[tuple[int, Sequence[str]]]:
-    """(line number of the record's first line, cells) for each CSV record."""
-    line = 1
-    for cells in rows:
-        yield line, cells
-        line = rows.line_num + 1
+class _Records:
+    """(line number of the record's first line, cells) for each CSV record, remembering
+    where the record being read starts (for the messages about broken quotes)."""
+
+    def __init__(self, text: str):
+        self.text = text
+        self.rows = csv.reader(io.StringIO(text, newline=""))
+        self.start = 1  # the first line of the record being read
+
+    def __iter__(self) -> Iterator[tuple[int, Sequence[str]]]:
+        for cells in self.rows:
+            yield self.start, cells
+            self.start = self.rows.line_num + 1
+
+    def unclosed_quote(self, start: int) -> bool:
+        """True when the record starting on line ``start`` opens a quote it never closes
+        (the csv module then reads the rest of the file into one cell)."""
+        lines = io.StringIO(self.text, newline="").readlines()
+        tail = "".join(lines[start - 1:])
+        try:
+            for _ in csv.reader(io.StringIO(tail, newline=""), strict=True):
+                pass
+        except csv.Error as exc:
+            return "end of data" in str(exc) or tail.count('"') % 2 == 1
+        return False
+
+
+_QUOTE_FIX = ('close the quote, or write a quote inside a text as two quotes, "like ""this"""')
 
 
 def read_csv(path: Path) -> Table:
     """A CSV file as a table of text cells."""
-    text = _decode(path)
-    rows = csv.reader(io.StringIO(text, newline=""))
+    records = _Records(_decode(path))
     try:
-        return table_from_grid(str(path), _numbered(rows))
+        table = table_from_grid(str(path), records)
     except csv.Error as exc:
-        raise InputError(f"cannot read the CSV: {exc}", file=str(path), row=rows.line_num,
+        start = records.start
+        if records.unclosed_quote(start):
+            raise InputError("a quote opened here is never closed: the rest of the file is read "
+                             "as one cell", file=str(path),
+                             row=start, fix=_QUOTE_FIX) from None
+        if "field larger than field limit" in str(exc):
+            limit = csv.field_size_limit()
+            raise InputError(f"a cell is longer than {limit:,} characters", file=str(path),
+                             row=start, fix=f"shorten the text to at most {limit:,} characters"
+                             ) from None
+        raise InputError(f"cannot read the CSV: {exc}", file=str(path), row=records.rows.line_num,
                          fix="check the quotes on that line (a text with a quote inside "
                              "is written \"like \"\"this\"\"\")") from None
+    if table.rows and '"' in records.text and records.unclosed_quote(table.rows[-1].line):
+        row = table.rows[-1]
+        column = next((c for c in reversed(table.columns) if row.cells.get(c)), None)
+        raise InputError("a quote opened here is never closed: the rest of the file was read "
+                         "into this cell", file=str(path), row=row.line, column=column,
+                         fix=_QUOTE_FIX)
+    return table
 
 
 def read_toml(path: Path) -> Settings:
