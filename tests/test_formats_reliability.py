@@ -211,3 +211,34 @@ def test_a_cell_over_the_csv_field_limit_is_named_as_too_long(tmp_path):
     error = refused(folder)
     assert error.row == 3 and "longer than 131,072 characters" in error.problem
     assert "quote" not in error.problem and len(str(error)) < 600
+
+
+# ---------------------------------------------------------------- B7 JSON keys
+
+def json_project(tmp_path: Path, activities_text: str, project_text: str = "") -> Path:
+    path = tmp_path / "p.json"
+    path.write_text('{"project": {"name": "Shed", "start": "2025-01-06"' + project_text + '}, '
+                    '"activities": [' + activities_text + ']}', encoding="utf-8")
+    return path
+
+
+def test_json_record_with_a_duplicate_key_is_refused(tmp_path):
+    # json.loads keeps the last of two equal keys without a word
+    path = json_project(tmp_path, '{"id": "A", "duration": 3}, {"id": "B", "duration": 4, "duration": 5}')
+    error = refused(path)
+    assert error.file.endswith("p.json (activities)") and error.row == 2
+    assert error.column == "duration" and "the key appears twice" in error.problem
+
+
+def test_json_keys_differing_only_in_case_are_refused(tmp_path):
+    path = json_project(tmp_path, '{"id": "A", "ID": "B", "duration": 3}')
+    error = refused(path)
+    assert error.row == 1 and error.column == "id"
+    assert "'id' and 'ID'" in error.problem
+
+
+def test_json_settings_with_a_duplicate_key_are_refused(tmp_path):
+    path = json_project(tmp_path, '{"id": "A", "duration": 3}', ', "name": "Barn"')
+    error = refused(path)
+    assert error.file.endswith("p.json (project)") and error.column == "name"
+    assert "the key appears twice" in error.problem

@@ -13,7 +13,8 @@ from dataclasses import dataclass, field
 
 from hasten.formats.cells import CellRef, cell_text, clean_text
 
-__all__ = ["Row", "Table", "Settings", "Tables", "table_from_grid", "table_from_records"]
+__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "table_from_grid",
+           "table_from_records"]
 
 
 @dataclass(frozen=True)
@@ -65,6 +66,15 @@ class Tables:
     links: Table | None = None
     crash_steps: Table | None = None
     options: Table | None = None
+
+
+class RepeatedKeys(dict):
+    """A record (JSON object) in which some keys were given more than once; ``repeated``
+    lists them (the dict keeps the last value of each, as ``json`` does)."""
+
+    def __init__(self, values: dict, repeated: list[str]):
+        super().__init__(values)
+        self.repeated = tuple(repeated)
 
 
 def _has_text(cell: object) -> bool:
@@ -144,9 +154,18 @@ def table_from_records(source: str, records: object) -> Table:
         if not isinstance(record, dict):
             raise CellRef(source, number).error("expected an object", record,
                                               'write each item as {"column": value, ...}')
+        for key in getattr(record, "repeated", ()):
+            raise CellRef(source, number, key.strip().lower()).error(
+                "the key appears twice in one object", key, "keep one of them")
         item = {}
+        spelt: dict[str, str] = {}
         for key, value in record.items():
             name = key.strip().lower()
+            if name in spelt:
+                raise CellRef(source, number, name).error(
+                    f"the keys '{spelt[name]}' and '{key}' name the same column (case and "
+                    "spaces around a name do not count)", key, f"keep one key named '{name}'")
+            spelt[name] = key
             if isinstance(value, (list, dict)):
                 raise CellRef(source, number, name).error(
                     "expected a single value", value, "write text, a number or null")
