@@ -242,3 +242,22 @@ def test_json_settings_with_a_duplicate_key_are_refused(tmp_path):
     error = refused(path)
     assert error.file.endswith("p.json (project)") and error.column == "name"
     assert "the key appears twice" in error.problem
+
+
+# ---------------------------------------------------------------- B8 formulas never calculated
+
+def test_a_formula_without_a_saved_value_is_named(tmp_path):
+    import openpyxl
+
+    from hasten.formats import write_project
+
+    write_project(read_project(HALL), tmp_path / "p.xlsx")
+    book = openpyxl.load_workbook(tmp_path / "p.xlsx")
+    assert book["activities"]["D3"].value == 5  # 020's duration
+    book["activities"]["D3"] = "=2+3"  # openpyxl stores the formula without a value
+    book.save(tmp_path / "p.xlsx")
+    error = refused(tmp_path / "p.xlsx")
+    assert error.file.endswith("p.xlsx (sheet activities)") and error.row == 3
+    assert error.column == "duration" and error.value == "=2+3"
+    assert "a formula that was never calculated" in error.problem
+    assert "open the workbook in a spreadsheet program and save it" in error.fix

@@ -25,6 +25,7 @@ row numbers (header = row 1). Other sheets are ignored.
 
 from __future__ import annotations
 
+import re
 import zipfile
 from collections.abc import Mapping
 from datetime import date
@@ -89,6 +90,56 @@ def _load(path: Path):
                          fix="save it from the spreadsheet program as an .xlsx workbook") from None
 
 
+_FORMULA = re.compile(rb"<(?:\w+:)?f[ >/]")
+
+
+def _has_formulas(path: Path) -> bool:
+    """True when some sheet of the workbook holds a formula (a quick look at its XML)."""
+    try:
+        with zipfile.ZipFile(path) as archive:
+            return any(_FORMULA.search(archive.read(name)) for name in archive.namelist()
+                       if name.startswith("xl/worksheets/") and name.endswith(".xml"))
+    except (zipfile.BadZipFile, OSError, KeyError):
+        return False
+
+
+def _check_calculated(path: Path, sheets: dict, tables: dict[str, Table | None],
+                      names: dict[str, str]) -> None:
+    """Refuse a formula cell whose value was never calculated and saved.
+
+    Files written by programs that do not calculate (scripts, some converters) hold the
+    formula without its value; read with its values only, the cell looks empty.
+    """
+    if not _has_formulas(path):
+        return
+    import openpyxl
+
+    formulas = openpyxl.load_workbook(path, data_only=False)
+    try:
+        for key, name in SHEETS.items():
+            table = tables.get(key)
+            if table is None or name not in sheets:
+                continue
+            values, cells = sheets[name], formulas[sheets[name].title]
+            header = [cell_text(c.value).strip().lower() for c in values[table.header_line or 1]]
+            for row in cells.iter_rows():
+                for cell in row:
+                    text = cell.value  # a formula is text starting '=' (or an array formula)
+                    text = text if isinstance(text, str) else getattr(text, "text", None)
+                    if (isinstance(text, str) and text.startswith("=")
+                            and values.cell(cell.row, cell.column).value is None):
+                        named = cell.column <= len(header) and header[cell.column - 1]
+                        label = header[cell.column - 1] if named else f"#{cell.column}"
+                        raise CellRef(names[key], cell.row, label).error(
+                            "the cell holds a formula that was never calculated, so it has no "
+                            "value to read", text,
+                            "open the workbook in a spreadsheet program and save it (that "
+                            "stores the calculated values), or type the value instead of the "
+                            "formula")
+    finally:
+        formulas.close()
+
+
 def read(path: Path) -> Tables:
     """Read a workbook into tables."""
     names = labels(path)
@@ -106,6 +157,8 @@ def read(path: Path) -> Tables:
                 raise InputError(f"the sheet '{name}' is missing (sheets found: {found})",
                                  file=str(path), fix=f"add a sheet named '{name}'")
         settings = _settings(sheets[SHEETS["settings"]], names["settings"])
+        _check_calculated(path, sheets, tables | {"settings": table_from_grid(
+            names["settings"], _grid(sheets[SHEETS["settings"]]))}, names)
     finally:
         book.close()
     return Tables(settings, tables["activities"], tables["links"], tables["crash_steps"],
