@@ -261,3 +261,35 @@ def test_a_formula_without_a_saved_value_is_named(tmp_path):
     assert error.column == "duration" and error.value == "=2+3"
     assert "a formula that was never calculated" in error.problem
     assert "open the workbook in a spreadsheet program and save it" in error.fix
+
+
+# ---------------------------------------------------------------- B9 folders and files
+
+def test_a_folder_named_like_a_json_file_is_named_as_a_folder(tmp_path):
+    (tmp_path / "p.json").mkdir()
+    error = refused(tmp_path / "p.json")
+    assert error.file == str(tmp_path / "p.json") and "is a folder" in error.problem
+    assert "not found" not in str(error)
+
+
+@pytest.mark.parametrize("name", ["project.toml", "activities.csv", "links.csv"])
+def test_a_folder_where_a_project_file_belongs_is_named(tmp_path, name):
+    folder = Path(shutil.copytree(HALL, tmp_path / "hall"))
+    target = folder / name
+    target.unlink()
+    target.mkdir()
+    error = refused(folder)
+    assert error.file == str(target) and "is a folder, not a file" in error.problem
+
+
+def test_a_research_path_that_is_a_folder_is_named(tmp_path):
+    (tmp_path / "j30.sm").mkdir()
+    with pytest.raises(InputError) as caught:
+        read_research(tmp_path / "j30.sm")
+    assert "is a folder, not a file" in caught.value.problem
+
+
+def test_a_file_where_a_project_folder_belongs_is_named(tmp_path):
+    (tmp_path / "hall").write_text("not a folder", encoding="utf-8")
+    error = refused(tmp_path / "hall")
+    assert "found a file" in error.problem and "not found" not in str(error)  # already so

@@ -30,9 +30,13 @@ _FORMS_FIX = "use a folder (project.toml + CSV files), a .xlsx workbook or a .js
 
 def _form(path: Path) -> ModuleType:
     """The module that reads and writes the form ``path`` stands for."""
-    if path.is_dir():
-        return folder
     suffix = path.suffix.lower()
+    if path.is_dir():
+        if suffix in _FORMS and suffix and not (path / folder.FILES["settings"]).exists():
+            raise InputError(f"this is a folder, not a {suffix} file", file=str(path),
+                             fix=f"give the path of the {suffix} file, or of a project folder "
+                                 "(with project.toml)")
+        return folder
     if suffix not in _FORMS:
         raise InputError("unknown project form", file=str(path), value=path.suffix, fix=_FORMS_FIX)
     if suffix == "" and path.exists():

@@ -151,6 +151,10 @@ def _need(folder: Path, key: str) -> Path:
     path = folder / FILES[key]
     if path.is_file():
         return path
+    if path.is_dir():
+        raise InputError("this is a folder, not a file", file=str(path),
+                         fix=f"{FILES[key]} must be a file: move the folder away and put the "
+                             "file in its place")
     others = [p.name for p in folder.iterdir()
               if p.is_file() and p.suffix == path.suffix and p.name not in FILES.values()]
     close = difflib.get_close_matches(FILES[key], others, n=1, cutoff=0.8)

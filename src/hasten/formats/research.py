@@ -429,6 +429,9 @@ def read_research(path: str | os.PathLike[str]) -> Project:
     if suffix not in RESEARCH_SUFFIXES:
         raise InputError("unknown research instance format", file=str(path), value=path.suffix,
                          fix="import a PSPLIB .mm or .sm file or a Patterson-format .rcp file")
+    if path.is_dir():
+        raise InputError("this is a folder, not a file", file=str(path),
+                         fix="give the path of the instance file itself")
     if not path.is_file():
         raise InputError("not found", file=str(path), fix="check the path")
     text = _decode(path)
