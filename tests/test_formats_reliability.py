@@ -293,3 +293,15 @@ def test_a_file_where_a_project_folder_belongs_is_named(tmp_path):
     (tmp_path / "hall").write_text("not a folder", encoding="utf-8")
     error = refused(tmp_path / "hall")
     assert "found a file" in error.problem and "not found" not in str(error)  # already so
+
+
+# ---------------------------------------------------------------- B10 a weekday twice
+
+@pytest.mark.parametrize("settings, key", [
+    ('calendar = ["mon", "mon"]\n', "calendar"),
+    ('[calendars.crane]\nworkdays = ["mon", "tue", "Mon"]\n', "calendars.crane.workdays"),
+])
+def test_a_weekday_listed_twice_is_named(tmp_path, settings, key):
+    error = refused(shed(tmp_path, "id,duration\nA,1\n", settings))
+    assert error.column == key and "the weekday 'mon' is listed twice" in error.problem
+    assert "unknown calendar" not in error.problem

@@ -203,8 +203,12 @@ def parse_calendar(value: object, holidays: tuple[date, ...], where: CellRef) ->
         name = value.strip().lower()
         return Calendar(NAMED_CALENDARS[name], holidays, name)
     names = _weekday_names(value, where)
-    if not names or any(n not in WEEKDAY_NAMES for n in names) or len(set(names)) != len(names):
+    if not names or any(n not in WEEKDAY_NAMES for n in names):
         raise where.error("unknown calendar" if names else "no working weekdays", value, _CALENDAR_FIX)
+    twice = next((n for i, n in enumerate(names) if n in names[:i]), None)
+    if twice:
+        raise where.error(f"the weekday '{twice}' is listed twice", value,
+                          "list each working weekday once, e.g. [\"mon\", \"tue\", \"wed\"]")
     workdays = tuple(sorted(WEEKDAY_NAMES.index(n) for n in names))
     for name, days in NAMED_CALENDARS.items():
         if days == workdays:
