@@ -305,3 +305,36 @@ def test_a_weekday_listed_twice_is_named(tmp_path, settings, key):
     error = refused(shed(tmp_path, "id,duration\nA,1\n", settings))
     assert error.column == key and "the weekday 'mon' is listed twice" in error.problem
     assert "unknown calendar" not in error.problem
+
+
+# ---------------------------------------------------------------- B12 ids that look alike
+
+def test_an_id_with_a_zero_width_space_is_refused(tmp_path):
+    # 'A' and 'A' + ZERO WIDTH SPACE (U+200B, Unicode category Cf) look the same on screen
+    error = refused(shed(tmp_path, "id,duration,predecessors\nA,1,\nA\u200b,2,A\n"))
+    assert error.row == 3 and error.column == "id"
+    assert "invisible character U+200B ZERO WIDTH SPACE" in error.problem
+
+
+def test_a_predecessor_with_an_invisible_character_is_named(tmp_path):
+    error = refused(shed(tmp_path, "id,duration,predecessors\nA,1,\nB,2,\u2060A\n"))
+    assert error.row == 3 and error.column == "predecessors"
+    assert "invisible character U+2060 WORD JOINER" in error.problem
+
+
+def test_ids_compare_after_unicode_normalisation(tmp_path):
+    # 'é' as one code point (U+00E9) and as 'e' + COMBINING ACUTE ACCENT (U+0301) are the
+    # same text in Unicode normal form C (Unicode Standard Annex #15)
+    project = read_project(shed(tmp_path / "one", "id,duration,predecessors\n\u00e9,1,\nB,2,e\u0301:SS\n"))
+    assert [a.id for a in project.activities] == ["\u00e9", "B"]
+    assert project.links[0].pred == "\u00e9"
+    error = refused(shed(tmp_path / "two", "id,duration\n\u00e9,1\ne\u0301,2\n"))
+    assert error.row == 3 and "the id is used twice: rows 2 and 3" in error.problem
+
+
+def test_crash_steps_and_links_tables_refer_to_ids_after_normalisation(tmp_path):
+    folder = shed(tmp_path, "id,duration,crash_duration,cost,crash_cost\n\u00e9,4,,100,\nB,2,,,\n")
+    (folder / "crash_steps.csv").write_text("id,days,cost_per_day\ne\u0301,1,50\n", encoding="utf-8")
+    (folder / "links.csv").write_text("predecessor,successor\ne\u0301,B\n", encoding="utf-8")
+    project = read_project(folder)
+    assert project.activities[0].steps[0].days == 1 and project.links[0].pred == "\u00e9"

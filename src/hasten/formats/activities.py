@@ -31,7 +31,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from datetime import date
 
-from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
+from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
+                                  whole_value)
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
                                     PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref, check_columns,
                                     optional, required)
@@ -54,7 +55,7 @@ class ActivityRow:
 
 def _activity_id(text: str, where: CellRef) -> str:
     """An id: any text without spaces or the separators ``; : ,``."""
-    ident = text_value(text, where)
+    ident = id_value(text, where)
     if _ID_FORBIDDEN.search(ident):
         raise where.error("an id cannot contain spaces, ';', ':' or ','", text,
                           "use letters, digits, '-', '_' or '.', e.g. 'A10' or 'F-2.1'")

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 import re
+import unicodedata
 from dataclasses import dataclass, replace
 from datetime import date, datetime, time
 from decimal import Decimal, InvalidOperation
@@ -22,6 +23,8 @@ __all__ = [
     "plain_number",
     "clean_text",
     "text_value",
+    "id_key",
+    "id_value",
     "number_value",
     "whole_value",
     "date_value",
@@ -107,6 +110,29 @@ def text_value(value: object, where: CellRef) -> str:
         raise where.error("the text contains a control character", value,
                           "remove the invisible control character (only tab and line break are allowed)")
     return text
+
+
+def id_key(text: str) -> str:
+    """An id as ids are compared and kept: in Unicode normal form C (so that 'é' typed as
+    one character and as 'e' plus an accent are one id); ASCII text is returned at once."""
+    return text if text.isascii() else unicodedata.normalize("NFC", text)
+
+
+def id_value(value: object, where: CellRef) -> str:
+    """An id, or a reference to one: text without invisible characters (Unicode format
+    characters such as the zero-width space, and other non-printing ones), normalised by
+    :func:`id_key`."""
+    text = text_value(value, where)
+    if text.isascii() and text.isprintable():
+        return text
+    hidden = next((char for char in text if not char.isprintable() and not char.isspace()),
+                  None)
+    if hidden is not None:
+        name = unicodedata.name(hidden, "without a name")
+        raise where.error(f"the id holds the invisible character U+{ord(hidden):04X} {name}",
+                          value, "retype the id without it (ids that look the same must be "
+                          "the same)")
+    return id_key(text)
 
 
 def _unsigned_text(value: object) -> bool:

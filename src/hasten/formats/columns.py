@@ -13,7 +13,7 @@ import re
 from collections.abc import Callable, Mapping, Sequence
 
 from hasten.errors import InputError
-from hasten.formats.cells import CellRef, text_value
+from hasten.formats.cells import CellRef, id_value
 from hasten.formats.predecessors import COLUMN as PREDECESSORS
 from hasten.formats.tables import Row, Table
 
@@ -132,7 +132,7 @@ def known_activity(row: Row, table: Table, ids: Mapping[str, object], column: st
     The one look-up of an activity id by the tables that refer to activities (crash steps,
     options); an unknown id is refused with the close ids.
     """
-    ident = required(row, table, column, text_value, f"the id of the {role}")
+    ident = required(row, table, column, id_value, f"the id of the {role}")
     if ident not in ids:
         raise unknown_id(ident, list(ids), cell_ref(row, table, column), ident, role)
     return ident

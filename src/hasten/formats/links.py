@@ -13,7 +13,7 @@ from collections.abc import Sequence
 from typing import NamedTuple
 
 from hasten.errors import CycleError
-from hasten.formats.cells import CellRef, text_value, whole_value
+from hasten.formats.cells import CellRef, id_key, id_value, whole_value
 from hasten.formats.columns import (LINK_COLUMNS, LINK_REQUIRED, cell_ref, check_columns,
                                     optional, place, required, unknown_id)
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, link_type, parse_predecessor_items
@@ -47,7 +47,7 @@ def column_links(table: Table) -> list[LinkSpec]:
         if not text:  # no predecessors: nothing to read
             continue
         where = CellRef(table.source, row.line, PREDECESSORS)
-        succ = row.cells["id"]
+        succ = id_key(row.cells["id"])
         for item, (pred, kind, lag) in parse_predecessor_items(text, where):
             specs.append(LinkSpec(Link(pred, succ, kind, lag), where, item, item))
     return specs
@@ -60,8 +60,8 @@ def table_links(table: Table | None) -> list[LinkSpec]:
     check_columns(table, LINK_COLUMNS, LINK_REQUIRED)
     specs = []
     for row in table.rows:
-        pred = required(row, table, "predecessor", text_value, "the predecessor's id")
-        succ = required(row, table, "successor", text_value, "the successor's id")
+        pred = required(row, table, "predecessor", id_value, "the predecessor's id")
+        succ = required(row, table, "successor", id_value, "the successor's id")
         kind = optional(row, table, "type", link_type, LinkType.FS)
         lag = optional(row, table, "lag", _lag, 0)
         link = Link(pred, succ, kind, lag)

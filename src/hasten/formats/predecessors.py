@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-from hasten.formats.cells import WHOLE_LIMIT, CellRef, shortened
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, shortened
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
@@ -68,6 +68,8 @@ def parse_predecessor_items(text: str, where: CellRef) -> list[tuple[str, tuple[
         if not ident:
             raise where.error("a predecessor has no id", item,
                               "write the predecessor's id before the colon, e.g. 'A:SS+2'")
+        if not (ident.isascii() and ident.isprintable()):
+            ident = id_value(ident, where)
         if not colon:
             kind, lag = LinkType.FS, 0
         else:
