@@ -338,3 +338,31 @@ def test_crash_steps_and_links_tables_refer_to_ids_after_normalisation(tmp_path)
     (folder / "links.csv").write_text("predecessor,successor\ne\u0301,B\n", encoding="utf-8")
     project = read_project(folder)
     assert project.activities[0].steps[0].days == 1 and project.links[0].pred == "\u00e9"
+
+
+# ---------------------------------------------------------------- B13 one line per message
+
+def test_a_line_break_in_a_predecessor_stays_escaped_in_the_message(tmp_path):
+    error = refused(shed(tmp_path, 'id,duration,predecessors\nA,1,\nB,2,"A\nC"\n'))
+    assert "unknown predecessor id 'A\\nC'" in str(error)
+
+
+def test_a_line_break_in_an_option_name_stays_escaped(tmp_path):
+    folder = shed(tmp_path, "id,duration\nA,5\n")
+    (folder / "options.csv").write_text('id,option,duration,added_cost\nA,"two\ncrews",3,10\n'
+                                        'A,"two\ncrews",4,5\n', encoding="utf-8")
+    error = refused(folder)
+    assert "the option 'two\\ncrews' of 'A' is given twice" in str(error)
+
+
+def test_control_characters_in_a_path_stay_escaped(tmp_path):
+    folder = tmp_path / "site\nB\x1b[31m"
+    shed(folder, "id,duration\nA,1\n")
+    (folder / "activities.csv").unlink()
+    error = refused(folder)
+    assert "site\\nB\\x1b[31m" in str(error)
+
+
+def test_a_line_break_in_a_header_stays_escaped(tmp_path):
+    error = refused(shed(tmp_path, 'id,duration,"na\nme"\nA,1,x\n'))
+    assert "na\\nme" in str(error)

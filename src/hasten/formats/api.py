@@ -17,6 +17,7 @@ from types import ModuleType
 
 from hasten.errors import CycleError, InputError
 from hasten.formats import folder, jsonfile, workbook
+from hasten.formats.cells import one_line_errors
 from hasten.formats.document import document_tables, first_difference, to_document
 from hasten.formats.parse import parse_tables
 from hasten.formats.research import read_research
@@ -64,6 +65,7 @@ def _collector_paused() -> Iterator[None]:
             gc.enable()
 
 
+@one_line_errors
 def read_project(path: str | os.PathLike[str]) -> Project:
     """Read and validate a project folder, ``.xlsx`` workbook or ``.json`` file.
 
@@ -148,6 +150,7 @@ def _unwritten(error: InputError, document, source: str | None) -> InputError:
                       fix=error.fix)
 
 
+@one_line_errors
 def write_project(project: Project, path: str | os.PathLike[str], *,
                   overwrite: bool = False, source: str | os.PathLike[str] | None = None) -> None:
     """Write ``project`` whole (or not at all) in the form chosen by the path.
@@ -168,6 +171,7 @@ def write_project(project: Project, path: str | os.PathLike[str], *,
                          fix="check the permissions and the free space") from None
 
 
+@one_line_errors
 def convert(src: str | os.PathLike[str], dst: str | os.PathLike[str], *,
             overwrite: bool = False) -> Project:
     """Read ``src`` and write it to ``dst`` (any forms); returns the project."""
@@ -176,6 +180,7 @@ def convert(src: str | os.PathLike[str], dst: str | os.PathLike[str], *,
     return project
 
 
+@one_line_errors
 def import_research(src: str | os.PathLike[str], dst: str | os.PathLike[str], *,
                     overwrite: bool = False) -> Project:
     """Read a research instance (:func:`~hasten.formats.research.read_research`) and write

@@ -7,17 +7,22 @@ writes numbers so that reading them back gives the very same value.
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 import unicodedata
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 from datetime import date, datetime, time
 from decimal import Decimal, InvalidOperation
+from typing import ParamSpec, TypeVar
 
-from hasten.errors import InputError
+from hasten.errors import CycleError, InputError
 
 __all__ = [
     "CellRef",
+    "one_line",
+    "one_line_errors",
     "cell_text",
     "number_text",
     "plain_number",
@@ -38,6 +43,8 @@ _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
 _ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
 # control characters other than tab and newline cannot be stored in every form
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
+P = ParamSpec("P")
+R = TypeVar("R")
 _NUMBER_FIX = "write a plain number: digits with an optional decimal point, no currency sign, e.g. 1250.50"
 
 
@@ -56,9 +63,37 @@ class CellRef:
         return replace(self, column=column)
 
     def error(self, problem: str, value: object = None, fix: str | None = None) -> InputError:
-        """An error located here."""
-        return InputError(problem, file=self.file, row=self.row, column=self.column,
-                          value=value, fix=fix)
+        """An error located here; its texts are kept on one line (see :func:`one_line`)."""
+        return InputError(one_line(problem), file=one_line(self.file), row=self.row,
+                          column=one_line(self.column), value=value, fix=one_line(fix))
+
+
+def one_line(text: str | None) -> str | None:
+    """``text`` with line breaks, control and other invisible characters written as escapes
+    (``\\n``, ``\\x1b``, ``\\u200b``, as ``repr`` writes them), so that a message quoting a
+    cell or a path stays one line and shows what is really there."""
+    if text is None or text.isprintable():
+        return text
+    return "".join(char if char.isprintable() else repr(char)[1:-1] for char in text)
+
+
+def one_line_errors(function: Callable[P, R]) -> Callable[P, R]:
+    """Decorate a public reader or writer: every :class:`InputError` it raises has its texts
+    on one line (errors built by :meth:`CellRef.error` already have)."""
+    @functools.wraps(function)
+    def wrapper(*args: P.args, **kwargs: P.kwargs) -> R:
+        try:
+            return function(*args, **kwargs)
+        except InputError as error:
+            texts = (error.problem, error.file, error.column, error.fix)
+            if all(one_line(t) == t for t in texts):
+                raise
+            if isinstance(error, CycleError):
+                raise CycleError(error.cycle, file=one_line(error.file)) from None
+            raise InputError(one_line(error.problem), file=one_line(error.file), row=error.row,
+                             column=one_line(error.column), value=error.value,
+                             fix=one_line(error.fix)) from None
+    return wrapper
 
 
 def plain_number(value: object) -> object:

@@ -55,7 +55,7 @@ from datetime import date
 from pathlib import Path
 
 from hasten.errors import CycleError, InputError
-from hasten.formats.cells import WHOLE_LIMIT, CellRef, shortened
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, one_line_errors, shortened
 from hasten.formats.reach import check_reach
 from hasten.formats.settings import NAMED_CALENDARS
 from hasten.graph import find_cycle
@@ -418,6 +418,7 @@ def _links(successors: dict[int, tuple[int, ...]], path: Path) -> tuple[Link, ..
     return tuple(Link(f"J{p}", f"J{s}") for p, s in pairs)
 
 
+@one_line_errors
 def read_research(path: str | os.PathLike[str]) -> Project:
     """Read a PSPLIB ``.mm`` / ``.sm`` or Patterson ``.rcp`` instance as a Project.
 
