@@ -366,3 +366,55 @@ def test_control_characters_in_a_path_stay_escaped(tmp_path):
 def test_a_line_break_in_a_header_stays_escaped(tmp_path):
     error = refused(shed(tmp_path, 'id,duration,"na\nme"\nA,1,x\n'))
     assert "na\\nme" in str(error)
+
+
+# ---------------------------------------------------------------- B14 formula injection
+# OWASP, "CSV Injection": cells starting with = + - @ (tab, carriage return) are run as
+# formulas by spreadsheet programs; a leading single quote makes them text.
+
+from hypothesis import given  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from hasten.formats.csvtext import neutral_text, restored_text  # noqa: E402
+
+ODD_NAMES = ["=HYPERLINK(\"http://x\";\"y\")", "+1 crane", "-ground floor", "@home", "'Tis",
+             "'=quoted on purpose", "''", "'", "'-", "plain", "a=b"]
+
+
+@given(st.text(max_size=8) | st.sampled_from(ODD_NAMES))
+def test_reading_undoes_exactly_what_writing_did(text):
+    assert restored_text(neutral_text(text)) == text
+    assert not neutral_text(text)[:1] in ("=", "+", "-", "@", "\t", "\r")
+
+
+def test_csv_text_cells_are_neutralised_and_read_back(tmp_path):
+    from hasten.formats import convert, write_project
+    from hasten.project import Activity, Link, LinkType, Option, Project
+
+    project = Project("=cmd|' /C calc'!A0", date(2025, 1, 6), tuple(
+        Activity(f"=A{i}" if i == 0 else f"-A{i}", 3, name, "+trade", options=(
+            Option("@second crew", 2, -150.0, "'=note"),)) for i, name in enumerate(ODD_NAMES)),
+        links=(Link("=A0", "-A1", LinkType.SS, -2),))
+    write_project(project, tmp_path / "p")
+    text = (tmp_path / "p" / "activities.csv").read_text(encoding="utf-8")
+    assert "'=HYPERLINK" in text and ",'+trade," in text and "\n'=A0," in text
+    assert "\n'-A1," in text and ",'=A0:SS-2" in text  # ids and the predecessors text
+    assert ",''=quoted on purpose," in text and ",'Tis," in text
+    options = (tmp_path / "p" / "options.csv").read_text(encoding="utf-8")
+    assert ",'@second crew,2,-150,''=note," in options  # the number -150 unchanged
+    assert read_project(tmp_path / "p") == project
+    convert(tmp_path / "p", tmp_path / "p.xlsx")
+    convert(tmp_path / "p.xlsx", tmp_path / "q")
+    assert read_project(tmp_path / "q") == project
+
+
+def test_workbook_text_starting_with_an_equals_sign_is_a_text_cell(tmp_path):
+    # already so before this review: openpyxl cells of data type "s" are never formulas
+    import openpyxl
+
+    from hasten.formats import write_project
+    from hasten.project import Activity, Project
+
+    write_project(Project("P", date(2025, 1, 6), (Activity("A", 1, "=1+1"),)), tmp_path / "p.xlsx")
+    cell = openpyxl.load_workbook(tmp_path / "p.xlsx")["activities"]["B2"]
+    assert cell.value == "=1+1" and cell.data_type == "s"

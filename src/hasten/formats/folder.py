@@ -17,7 +17,9 @@ activities name in an optional ``calendar`` column.
 CSV files are read as UTF-8 (a byte-order mark is allowed) with any line endings; every cell
 is text. Row numbers in messages are CSV line numbers as a spreadsheet shows them: the
 header is row 1, the first data row is row 2, blank lines are skipped but counted. Files are
-written as UTF-8 without byte-order mark, with ``\\n`` line endings.
+written as UTF-8 without byte-order mark, with ``\\n`` line endings. A text cell that a
+spreadsheet would run as a formula (starting ``=``, ``+``, ``-``, ``@``) is written with a
+single quote in front, which reading removes again (see :mod:`hasten.formats.csvtext`).
 """
 
 from __future__ import annotations
@@ -31,7 +33,8 @@ from collections.abc import Iterator, Sequence
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import CellRef, cell_text
+from hasten.formats.cells import CellRef
+from hasten.formats.csvtext import csv_value, restored_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
 from hasten.formats.columns import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
@@ -78,9 +81,12 @@ class _Records:
         self.text = text
         self.rows = csv.reader(io.StringIO(text, newline=""))
         self.start = 1  # the first line of the record being read
+        self.quoted = "'" in text  # some cell may carry the quote that keeps a formula text
 
     def __iter__(self) -> Iterator[tuple[int, Sequence[str]]]:
         for cells in self.rows:
+            if self.quoted:
+                cells = [restored_text(cell) for cell in cells]
             yield self.start, cells
             self.start = self.rows.line_num + 1
 
@@ -182,7 +188,7 @@ def _csv_writer(columns: tuple[str, ...], records: list[dict[str, object]]):
         with path.open("w", encoding="utf-8", newline="") as handle:
             out = csv.writer(handle, lineterminator="\n")
             out.writerow(columns)
-            out.writerows([cell_text(r.get(c)) for c in columns] for r in records)
+            out.writerows([csv_value(r.get(c)) for c in columns] for r in records)
     return write
 
 
