@@ -9,20 +9,23 @@ column, value and the fix.
 Patterson ``.rcp``) as projects; it is one-way (write them with :func:`write_project`).
 """
 
-from hasten.formats.api import convert, import_research, read_project, write_project
-from hasten.formats.parse import parse_tables
+from hasten.formats.api import (convert, import_research, read_project, read_project_with_notes,
+                                write_project)
+from hasten.formats.parse import parse_tables, parse_tables_with_notes
 from hasten.formats.predecessors import parse_predecessors
 from hasten.formats.research import read_research
 from hasten.formats.tables import Row, Settings, Table, Tables
 
 __all__ = [
     "read_project",
+    "read_project_with_notes",
     "write_project",
     "convert",
     "read_research",
     "import_research",
     "parse_predecessors",
     "parse_tables",
+    "parse_tables_with_notes",
     "Tables",
     "Table",
     "Row",

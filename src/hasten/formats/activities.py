@@ -40,7 +40,7 @@ from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
 from hasten.project import Activity
 
-__all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars"]
+__all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars", "percent_notes"]
 
 _ID_FORBIDDEN = re.compile(r"[\s;:,]")  # \s is exactly what str.isspace() calls a space
 
@@ -132,12 +132,33 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
 
 
 def _percent(text: str, where: CellRef) -> float:
-    """A percentage of work done, 0 to 100."""
-    number = number_value(text, where, minimum=None)
+    """A percentage of work done, 0 to 100; a % sign after the number is allowed (``60%``
+    is 60, as is a workbook cell formatted as a percentage holding 0.6)."""
+    plain = text[:-1].rstrip() if text.endswith("%") else text
+    number = number_value(plain, where, minimum=None) if plain else number_value(text, where)
     if not 0 <= number <= 100:
         raise where.error("the percent complete is outside 0 to 100", text,
-                          "write a number from 0 to 100 (without the % sign)")
+                          "write a number from 0 to 100 (60 or 60% for 60 percent)")
     return number
+
+
+def percent_notes(table: Table) -> list[str]:
+    """A reading note when every ``percent_complete`` lies between 0 and 1, not all are 0
+    and none has a % sign: they are probably fractions (0.6 for 60 %), which are read as
+    percent (0.6 %). Only called for a table that was read without error."""
+    given = [(row.line, row.cells.get("percent_complete", "")) for row in table.rows]
+    given = [(line, text) for line, text in given if text]
+    if not given or any(text.endswith("%") for _, text in given):
+        return []  # a % sign says these are percent
+    values = [(line, text, float(text)) for line, text in given]
+    if not all(0 <= v <= 1 for _, _, v in values) or not any(v for _, _, v in values):
+        return []
+    line, text, value = next(item for item in values if item[2] > 0)
+    meant = f"{value * 100:g}"
+    return [f"{table.source}, column 'percent_complete': every value is between 0 and 1 "
+            f"(e.g. {text} on row {line}); they are read as percent, so {text} means "
+            f"{text} % complete. If they are fractions of the whole, write {meant} (or "
+            f"{meant}%) for {meant} percent"]
 
 
 def _progress(row: Row, table: Table, duration: int) -> dict[str, object]:

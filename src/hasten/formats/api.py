@@ -19,11 +19,12 @@ from hasten.errors import CycleError, InputError
 from hasten.formats import folder, jsonfile, workbook
 from hasten.formats.cells import one_line_errors
 from hasten.formats.document import document_tables, first_difference, to_document
-from hasten.formats.parse import parse_tables
+from hasten.formats.parse import parse_tables, parse_tables_with_notes
 from hasten.formats.research import read_research
 from hasten.project import Project
 
-__all__ = ["read_project", "write_project", "convert", "import_research"]
+__all__ = ["read_project", "read_project_with_notes", "write_project", "convert",
+           "import_research"]
 
 _FORMS: dict[str, ModuleType] = {"": folder, ".xlsx": workbook, ".json": jsonfile}
 _FORMS_FIX = "use a folder (project.toml + CSV files), a .xlsx workbook or a .json file"
@@ -72,12 +73,20 @@ def read_project(path: str | os.PathLike[str]) -> Project:
     Raises InputError (or its subclass CycleError) for anything wrong with the input;
     the input is never modified.
     """
+    return read_project_with_notes(path)[0]
+
+
+@one_line_errors
+def read_project_with_notes(path: str | os.PathLike[str]) -> tuple[Project, tuple[str, ...]]:
+    """As :func:`read_project`, and the reading notes: one text per value read as written
+    that is probably a slip (e.g. every percent complete between 0 and 1), naming the file,
+    the column and what was assumed. A project without such values has none."""
     path = Path(path)
     if not path.exists():
         raise InputError("not found", file=str(path),
                          fix=f"check the path; {_FORMS_FIX}")
     with _collector_paused():
-        return parse_tables(_form(path).read(path))
+        return parse_tables_with_notes(_form(path).read(path))
 
 
 def _is_empty(path: Path) -> bool:

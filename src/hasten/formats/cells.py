@@ -18,6 +18,7 @@ from decimal import Decimal, InvalidOperation
 from typing import ParamSpec, TypeVar
 
 from hasten.errors import CycleError, InputError
+from hasten.formats.advice import date_advice, days_advice, number_advice
 
 __all__ = [
     "CellRef",
@@ -41,6 +42,7 @@ _PLAIN_NUMBER = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
 _THOUSANDS = re.compile(r"[+-]?\d{1,3}(?:,\d{3})+(?:\.\d*)?")
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
 _ISO_DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
+_MIDNIGHT = re.compile(r"(\d{4}-\d{2}-\d{2})[ T]00:00(?::00(?:\.0+)?)?")
 # control characters other than tab and newline cannot be stored in every form
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
 P = ParamSpec("P")
@@ -181,8 +183,10 @@ def _unsigned_text(value: object) -> bool:
             and value.replace(".", "", 1).isdigit())
 
 
-def _plain_decimal(value: object, where: CellRef) -> Decimal:
-    """Parse a plain number (int, float or text) exactly; refuse grouped or decorated numbers."""
+def _plain_decimal(value: object, where: CellRef, unit: str | None = None) -> Decimal:
+    """Parse a plain number (int, float or text) exactly; refuse grouped or decorated numbers
+    (saying what they probably meant, see :mod:`hasten.formats.advice`); ``unit`` names what
+    a whole number counts, for numbers written with a unit (``5d``)."""
     if isinstance(value, bool) or not isinstance(value, (int, float, str)):
         raise where.error("expected a number", value, _NUMBER_FIX)
     if isinstance(value, (int, float)):
@@ -197,7 +201,9 @@ def _plain_decimal(value: object, where: CellRef) -> Decimal:
         raise where.error("a decimal comma is not allowed", value,
                           f"use a decimal point: {text.replace(',', '.')}")
     if not _PLAIN_NUMBER.fullmatch(text):
-        raise where.error("not a plain number", value, _NUMBER_FIX)
+        advice = (unit and days_advice(text, unit)) or number_advice(text)
+        problem, fix = advice or ("not a plain number", _NUMBER_FIX)
+        raise where.error(problem, value, fix)
     try:
         return Decimal(text)
     except InvalidOperation:  # pragma: no cover - the pattern admits only valid decimals
@@ -221,7 +227,7 @@ def whole_value(value: object, where: CellRef, *, minimum: int | None = 0,
     if _unsigned_text(value) and value.isdigit():
         number = int(value)
     else:
-        exact = _plain_decimal(value, where)
+        exact = _plain_decimal(value, where, unit)
         if exact != exact.to_integral_value():
             raise where.error(f"not a whole number of {unit}", value,
                               f"round to whole {unit}, e.g. {int(exact.to_integral_value())}")
@@ -251,13 +257,23 @@ WHOLE_LIMIT = 1_000_000
 
 
 def date_value(value: object, where: CellRef) -> date:
-    """A calendar date: a date object or ISO text ``YYYY-MM-DD``."""
+    """A calendar date: a date object or ISO text ``YYYY-MM-DD`` (a time of exactly midnight
+    after it, as exports of date cells write, is allowed)."""
     if isinstance(value, date) and not isinstance(value, datetime):
         return value
+    if isinstance(value, datetime) and value.time() == time(0, 0):
+        return value.date()
     fix = "write the date as YYYY-MM-DD, e.g. 2025-03-03"
-    if not isinstance(value, str) or not _ISO_DATE.fullmatch(value.strip()):
+    if not isinstance(value, str):
         raise where.error("not a date", value, fix)
+    text = value.strip()
+    midnight = _MIDNIGHT.fullmatch(text)
+    if midnight:  # a date exported with its time, which is midnight: the date itself
+        text = midnight.group(1)
+    if not _ISO_DATE.fullmatch(text):
+        problem, fix = date_advice(text) or ("not a date", fix)
+        raise where.error(problem, value, fix)
     try:
-        return date.fromisoformat(value.strip())
+        return date.fromisoformat(text)
     except ValueError:
         raise where.error("no such date", value, fix) from None

@@ -13,7 +13,8 @@ links (:mod:`hasten.formats.links`), and the crash steps and options
 
 from __future__ import annotations
 
-from hasten.formats.activities import activity_rows, check_calendars, check_progress
+from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
+                                       percent_notes)
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.reach import check_reach
 from hasten.formats.settings import parse_settings
@@ -21,11 +22,18 @@ from hasten.formats.shortening import option_rows, step_rows, with_options, with
 from hasten.formats.tables import Tables
 from hasten.project import Project
 
-__all__ = ["parse_tables"]
+__all__ = ["parse_tables", "parse_tables_with_notes"]
 
 
 def parse_tables(tables: Tables) -> Project:
     """Validate everything and build the Project (activity and link order as given)."""
+    return parse_tables_with_notes(tables)[0]
+
+
+def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
+    """As :func:`parse_tables`, and the reading notes: one text per value that was read as
+    written but is probably a slip (e.g. percentages written as fractions), naming the
+    file, the column and what was assumed."""
     settings = parse_settings(tables.settings)
     rows = activity_rows(tables.activities)
     check_progress(rows, tables.activities, settings.start, settings.data_date,
@@ -55,4 +63,5 @@ def parse_tables(tables: Tables) -> Project:
     check_reach(project, {r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],
                 tables.settings.where)
-    return project
+    notes = percent_notes(tables.activities) if "percent_complete" in tables.activities.columns else []
+    return project, tuple(notes)

@@ -29,6 +29,7 @@ import re
 import zipfile
 from collections.abc import Mapping
 from datetime import date
+from decimal import Decimal
 from pathlib import Path
 
 from hasten.errors import InputError
@@ -53,7 +54,18 @@ def labels(path: Path) -> dict[str, str]:
 
 
 def _grid(sheet):
-    return enumerate(sheet.iter_rows(min_row=1, max_row=sheet.max_row, values_only=True), start=1)
+    """(row number, cell values) of every row; a number in a cell formatted as a percentage
+    becomes its text with the % sign (60 % is stored as 0.6: ``0.6`` -> ``"60%"``), so that it
+    keeps the meaning the spreadsheet shows."""
+    for line, cells in enumerate(sheet.iter_rows(min_row=1, max_row=sheet.max_row), start=1):
+        yield line, [_percent_text(c.value) if type(c.value) in (int, float)
+                     and "%" in (c.number_format or "") else c.value for c in cells]
+
+
+def _percent_text(value: int | float) -> str:
+    """``0.6`` -> ``"60%"``: the exact decimal of the stored number, times 100."""
+    shown = Decimal(repr(value)) * 100
+    return f"{shown.normalize():f}%" if shown else "0%"
 
 
 def _settings(sheet, source: str) -> Settings:
