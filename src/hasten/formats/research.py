@@ -60,7 +60,6 @@ from hasten.formats.psplib import PSPLIB_FIX, read_psplib
 from hasten.formats.reach import check_reach
 from hasten.formats.research_lines import Lines, decode
 from hasten.formats.settings import NAMED_CALENDARS
-from hasten.graph import find_cycle
 from hasten.project import Calendar, Link, Project
 
 __all__ = ["read_research", "RESEARCH_SUFFIXES", "RESEARCH_START"]
@@ -73,6 +72,8 @@ _KINDS = {".mm": "PSPLIB multi-mode", ".sm": "PSPLIB single-mode", ".rcp": "Patt
 def _links(successors: dict[int, tuple[int, ...]], path: Path) -> tuple[Link, ...]:
     """Finish-to-start links ordered by successor, then predecessor; loops are refused,
     naming the jobs around the loop in order (:func:`hasten.graph.find_cycle`)."""
+    from hasten.graph import find_cycle  # numpy: imported on use, as in formats.links
+
     pairs = sorted(((p, s) for p, succ in successors.items() for s in succ), key=lambda e: (e[1], e[0]))
     loop = find_cycle(len(successors) + 1, [p for p, _ in pairs], [s for _, s in pairs])
     if loop is not None:
