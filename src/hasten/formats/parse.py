@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
                                        percent_notes)
+from hasten.formats.cells import one_line_errors
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.reach import check_reach
 from hasten.formats.settings import parse_settings
@@ -25,11 +26,13 @@ from hasten.project import Project
 __all__ = ["parse_tables", "parse_tables_with_notes"]
 
 
+@one_line_errors
 def parse_tables(tables: Tables) -> Project:
     """Validate everything and build the Project (activity and link order as given)."""
     return parse_tables_with_notes(tables)[0]
 
 
+@one_line_errors
 def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     """As :func:`parse_tables`, and the reading notes: one text per value that was read as
     written but is probably a slip (e.g. percentages written as fractions), naming the

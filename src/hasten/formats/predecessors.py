@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, shortened
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, one_line_errors, shortened
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
@@ -80,6 +80,7 @@ def parse_predecessor_items(text: str, where: CellRef) -> list[tuple[str, tuple[
     return found
 
 
+@one_line_errors
 def parse_predecessors(text: str, *, file: str | None = None,
                        row: int | None = None) -> list[tuple[str, LinkType, int]]:
     """Parse the shorthand into (predecessor id, link type, lag) triples, in order.
