@@ -117,7 +117,8 @@ def test_read_project_with_notes_of_a_plain_project_has_none():
 ])
 def test_decorated_numbers_are_refused_with_the_plain_number(tmp_path, column, text, says, fix):
     cells = {"duration": "10", "cost": "100"} | {column: text}
-    error = refused(shed(tmp_path, f'id,duration,cost\nA,"{cells["duration"]}","{cells["cost"]}"\n'))
+    row = f'A,"{cells["duration"]}","{cells["cost"]}"'
+    error = refused(shed(tmp_path, f"id,duration,cost\n{row}\n"))
     assert error.column == column and error.value == text
     assert says in error.problem and fix in error.fix, str(error)
 
@@ -157,14 +158,15 @@ def test_a_date_serial_in_a_workbook_number_cell_is_refused(tmp_path):
     assert read_project(tmp_path / "p.xlsx").activities[0].not_before == date(2025, 3, 6)
 
 
-# ---------------------------------------------------------------- any text: a value or a clear error
+# ---------------------------------------------------------------- any text: a value or an error
 
 from hypothesis import given, settings  # noqa: E402
 from hypothesis import strategies as st  # noqa: E402
 
 from hasten.formats.cells import CellRef, date_value, number_value, whole_value  # noqa: E402
 
-CELL_TEXT = st.text(st.sampled_from("0123456789.,'() -+$€%/:Tdw\u2212\u00a0EUR"), max_size=14) | st.text(max_size=8)
+CELL_TEXT = (st.text(st.sampled_from("0123456789.,'() -+$€%/:Tdw\u2212\u00a0EUR"), max_size=14)
+             | st.text(max_size=8))
 
 
 @settings(max_examples=400, deadline=None)

@@ -9,7 +9,6 @@ documentation, datetime module).
 
 from __future__ import annotations
 
-import json
 import shutil
 from datetime import date
 from pathlib import Path
@@ -48,7 +47,8 @@ def refused(path: Path) -> InputError:
 
 def test_a_huge_lag_in_the_predecessors_shorthand_is_refused(tmp_path):
     # links.csv already refuses a lag over 1,000,000 working days; the shorthand must too
-    error = refused(shed(tmp_path, "id,duration,predecessors\nA,1,\nB,1,A:FS+" + "1" + "0" * 30 + "\n"))
+    lag = "1" + "0" * 30
+    error = refused(shed(tmp_path, f"id,duration,predecessors\nA,1,\nB,1,A:FS+{lag}\n"))
     assert error.file.endswith("activities.csv") and error.row == 3
     assert error.column == "predecessors"
     assert "more than 1,000,000 working days" in error.problem
@@ -224,7 +224,8 @@ def json_project(tmp_path: Path, activities_text: str, project_text: str = "") -
 
 def test_json_record_with_a_duplicate_key_is_refused(tmp_path):
     # json.loads keeps the last of two equal keys without a word
-    path = json_project(tmp_path, '{"id": "A", "duration": 3}, {"id": "B", "duration": 4, "duration": 5}')
+    path = json_project(tmp_path, '{"id": "A", "duration": 3}, '
+                                  '{"id": "B", "duration": 4, "duration": 5}')
     error = refused(path)
     assert error.file.endswith("p.json (activities)") and error.row == 2
     assert error.column == "duration" and "the key appears twice" in error.problem
@@ -325,7 +326,8 @@ def test_a_predecessor_with_an_invisible_character_is_named(tmp_path):
 def test_ids_compare_after_unicode_normalisation(tmp_path):
     # 'é' as one code point (U+00E9) and as 'e' + COMBINING ACUTE ACCENT (U+0301) are the
     # same text in Unicode normal form C (Unicode Standard Annex #15)
-    project = read_project(shed(tmp_path / "one", "id,duration,predecessors\n\u00e9,1,\nB,2,e\u0301:SS\n"))
+    project = read_project(shed(tmp_path / "one",
+                                "id,duration,predecessors\n\u00e9,1,\nB,2,e\u0301:SS\n"))
     assert [a.id for a in project.activities] == ["\u00e9", "B"]
     assert project.links[0].pred == "\u00e9"
     error = refused(shed(tmp_path / "two", "id,duration\n\u00e9,1\ne\u0301,2\n"))
@@ -334,7 +336,8 @@ def test_ids_compare_after_unicode_normalisation(tmp_path):
 
 def test_crash_steps_and_links_tables_refer_to_ids_after_normalisation(tmp_path):
     folder = shed(tmp_path, "id,duration,crash_duration,cost,crash_cost\n\u00e9,4,,100,\nB,2,,,\n")
-    (folder / "crash_steps.csv").write_text("id,days,cost_per_day\ne\u0301,1,50\n", encoding="utf-8")
+    (folder / "crash_steps.csv").write_text("id,days,cost_per_day\ne\u0301,1,50\n",
+                                            encoding="utf-8")
     (folder / "links.csv").write_text("predecessor,successor\ne\u0301,B\n", encoding="utf-8")
     project = read_project(folder)
     assert project.activities[0].steps[0].days == 1 and project.links[0].pred == "\u00e9"

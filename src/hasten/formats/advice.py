@@ -134,10 +134,11 @@ def date_advice(text: str) -> tuple[str, str] | None:
     without leading zeros, or with a time of day."""
     text = text.strip()
     if re.fullmatch(r"\d{5}(?:\.0+)?", text):
-        day = SERIAL_EPOCH + timedelta(days=int(float(text)))
+        serial = int(float(text))
+        day = SERIAL_EPOCH + timedelta(days=serial)
         return ("not a date but a spreadsheet date serial number, it seems (the cell lost its "
-                "date format)", f"write the date as YYYY-MM-DD: in the 1900 date system {int(float(text))} "
-                f"is {day.isoformat()} (check it: the 1904 system counts differently)")
+                "date format)", f"write the date as YYYY-MM-DD: in the 1900 date system "
+                f"{serial} is {day.isoformat()} (check it: the 1904 system counts differently)")
     timed = re.fullmatch(r"(\d{4}-\d{2}-\d{2})[ T](\d{1,2}:\d{2}(?::\d{2}(?:\.\d+)?)?)", text)
     if timed and _valid_iso(timed.group(1)):
         return (f"a time of day ({timed.group(2)}) stands in the date; dates are whole days",

@@ -66,5 +66,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     check_reach(project, {r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],
                 tables.settings.where)
-    notes = percent_notes(tables.activities) if "percent_complete" in tables.activities.columns else []
+    notes = []
+    if "percent_complete" in tables.activities.columns:
+        notes += percent_notes(tables.activities)
     return project, tuple(notes)

@@ -140,7 +140,8 @@ def _error(project, worst, came_from, work, lags, bound, activity_where, link_wh
     if len(shown) > 8:
         shown = shown[:4] + [f"... {len(shown) - 7} more ..."] + shown[-3:]
     years = LAST_DATE.year + (bound - LAST_DATE.toordinal()) / 365.25
-    late = f"about the year {years:.0f}" if years >= LAST_DATE.year + 1 else "early in the year 10000"
+    late = (f"about the year {years:.0f}" if years >= LAST_DATE.year + 1
+            else "early in the year 10000")
     floor = max(project.start, project.data_date or project.start)
     origin = (f"{first.id}'s not_before date {first.not_before.isoformat()}"
               if first.not_before is not None and first.not_before > floor else
