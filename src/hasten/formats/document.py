@@ -29,7 +29,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
-from hasten.formats.parse import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS,
+from hasten.formats.columns import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS,
                                   PROGRESS_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid

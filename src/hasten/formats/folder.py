@@ -17,7 +17,9 @@ activities name in an optional ``calendar`` column.
 CSV files are read as UTF-8 (a byte-order mark is allowed) with any line endings; every cell
 is text. Row numbers in messages are CSV line numbers as a spreadsheet shows them: the
 header is row 1, the first data row is row 2, blank lines are skipped but counted. Files are
-written as UTF-8 without byte-order mark, with ``\\n`` line endings.
+written as UTF-8 without byte-order mark, with ``\\n`` line endings. A text cell that a
+spreadsheet would run as a formula (starting ``=``, ``+``, ``-``, ``@``) is written with a
+single quote in front, which reading removes again (see :mod:`hasten.formats.csvtext`).
 """
 
 from __future__ import annotations
@@ -31,10 +33,11 @@ from collections.abc import Iterator, Sequence
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where, cell_text
+from hasten.formats.cells import CellRef
+from hasten.formats.csvtext import csv_value, restored_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_folder
-from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.columns import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import flatten, nest
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 from hasten.formats.tomlwrite import toml_text
@@ -70,24 +73,65 @@ def _decode(path: Path) -> str:
                          fix="check the path and the file permissions") from None
 
 
-def _numbered(rows: csv.reader) -> Iterator[tuple[int, Sequence[str]]]:
-    """(line number of the record's first line, cells) for each CSV record."""
-    line = 1
-    for cells in rows:
-        yield line, cells
-        line = rows.line_num + 1
+class _Records:
+    """(line number of the record's first line, cells) for each CSV record, remembering
+    where the record being read starts (for the messages about broken quotes)."""
+
+    def __init__(self, text: str):
+        self.text = text
+        self.rows = csv.reader(io.StringIO(text, newline=""))
+        self.start = 1  # the first line of the record being read
+        self.quoted = "'" in text  # some cell may carry the quote that keeps a formula text
+
+    def __iter__(self) -> Iterator[tuple[int, Sequence[str]]]:
+        for cells in self.rows:
+            if self.quoted:
+                cells = [restored_text(cell) for cell in cells]
+            yield self.start, cells
+            self.start = self.rows.line_num + 1
+
+    def unclosed_quote(self, start: int) -> bool:
+        """True when the record starting on line ``start`` opens a quote it never closes
+        (the csv module then reads the rest of the file into one cell)."""
+        lines = io.StringIO(self.text, newline="").readlines()
+        tail = "".join(lines[start - 1:])
+        try:
+            for _ in csv.reader(io.StringIO(tail, newline=""), strict=True):
+                pass
+        except csv.Error as exc:
+            return "end of data" in str(exc) or tail.count('"') % 2 == 1
+        return False
+
+
+_QUOTE_FIX = ('close the quote, or write a quote inside a text as two quotes, "like ""this"""')
 
 
 def read_csv(path: Path) -> Table:
     """A CSV file as a table of text cells."""
-    text = _decode(path)
-    rows = csv.reader(io.StringIO(text, newline=""))
+    records = _Records(_decode(path))
     try:
-        return table_from_grid(str(path), _numbered(rows))
+        table = table_from_grid(str(path), records)
     except csv.Error as exc:
-        raise InputError(f"cannot read the CSV: {exc}", file=str(path), row=rows.line_num,
+        start = records.start
+        if records.unclosed_quote(start):
+            raise InputError("a quote opened here is never closed: the rest of the file is read "
+                             "as one cell", file=str(path),
+                             row=start, fix=_QUOTE_FIX) from None
+        if "field larger than field limit" in str(exc):
+            limit = csv.field_size_limit()
+            raise InputError(f"a cell is longer than {limit:,} characters", file=str(path),
+                             row=start, fix=f"shorten the text to at most {limit:,} characters"
+                             ) from None
+        raise InputError(f"cannot read the CSV: {exc}", file=str(path), row=records.rows.line_num,
                          fix="check the quotes on that line (a text with a quote inside "
                              "is written \"like \"\"this\"\"\")") from None
+    if table.rows and '"' in records.text and records.unclosed_quote(table.rows[-1].line):
+        row = table.rows[-1]
+        column = next((c for c in reversed(table.columns) if row.cells.get(c)), None)
+        raise InputError("a quote opened here is never closed: the rest of the file was read "
+                         "into this cell", file=str(path), row=row.line, column=column,
+                         fix=_QUOTE_FIX)
+    return table
 
 
 def read_toml(path: Path) -> Settings:
@@ -101,7 +145,11 @@ def read_toml(path: Path) -> Settings:
                          row=int(place.group(1)) if place else None,
                          fix='text needs quotes (name = "Depot"), dates do not '
                              "(start = 2025-03-03), lists use brackets") from None
-    return Settings(str(path), flatten(nested, Where(str(path))))
+    except RecursionError:
+        raise InputError("the TOML is nested too deeply to read", file=str(path),
+                         fix="project settings nest only a few levels deep: check the "
+                             "brackets") from None
+    return Settings(str(path), flatten(nested, CellRef(str(path))))
 
 
 def _need(folder: Path, key: str) -> Path:
@@ -109,6 +157,10 @@ def _need(folder: Path, key: str) -> Path:
     path = folder / FILES[key]
     if path.is_file():
         return path
+    if path.is_dir():
+        raise InputError("this is a folder, not a file", file=str(path),
+                         fix=f"{FILES[key]} must be a file: move the folder away and put the "
+                             "file in its place")
     others = [p.name for p in folder.iterdir()
               if p.is_file() and p.suffix == path.suffix and p.name not in FILES.values()]
     close = difflib.get_close_matches(FILES[key], others, n=1, cutoff=0.8)
@@ -136,7 +188,7 @@ def _csv_writer(columns: tuple[str, ...], records: list[dict[str, object]]):
         with path.open("w", encoding="utf-8", newline="") as handle:
             out = csv.writer(handle, lineterminator="\n")
             out.writerow(columns)
-            out.writerows([cell_text(r.get(c)) for c in columns] for r in records)
+            out.writerows([csv_value(r.get(c)) for c in columns] for r in records)
     return write
 
 

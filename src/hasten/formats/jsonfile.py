@@ -35,11 +35,11 @@ from datetime import date
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where
+from hasten.formats.cells import CellRef
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
 from hasten.formats.settings import flatten, nest
-from hasten.formats.tables import Settings, Tables, table_from_records
+from hasten.formats.tables import RepeatedKeys, Settings, Tables, table_from_records
 
 __all__ = ["KEYS", "labels", "read", "write"]
 
@@ -53,16 +53,43 @@ def labels(path: Path) -> dict[str, str]:
     return {key: f"{path} ({name})" for key, name in KEYS.items()}
 
 
+def _object(pairs: list[tuple[str, object]]) -> dict:
+    """A JSON object; keys given twice (which ``json`` would silently keep the last of) are
+    remembered so that the reader can refuse them where it knows the place."""
+    found = dict(pairs)
+    if len(found) == len(pairs):
+        return found
+    seen: set[str] = set()
+    repeated = [k for k, _ in pairs if k in seen or seen.add(k)]
+    return RepeatedKeys(found, repeated)
+
+
+def _check_repeated(value: object, where: CellRef, prefix: str = "", *,
+                    inside: bool = True) -> None:
+    """Refuse keys given twice in an object (and, if ``inside``, in the objects in it)."""
+    if not isinstance(value, dict):
+        return
+    for key in getattr(value, "repeated", ()):
+        raise where.at(prefix + key).error("the key appears twice in one object", key,
+                                           "keep one of them")
+    for key, inner in value.items() if inside else ():
+        _check_repeated(inner, where, f"{prefix}{key}.")
+
+
 def _load(path: Path) -> dict:
     """The top-level object; syntax errors name their line and column."""
     try:
-        data = json.loads(path.read_bytes().decode("utf-8-sig"))
+        data = json.loads(path.read_bytes().decode("utf-8-sig"), object_pairs_hook=_object)
     except json.JSONDecodeError as exc:
         raise InputError(f"not valid JSON: {exc.msg} (column {exc.colno})", file=str(path),
                          row=exc.lineno, fix="check commas, quotes and brackets on that line") from None
     except UnicodeDecodeError:
         raise InputError("the file is not UTF-8 text", file=str(path),
                          fix="save it as UTF-8") from None
+    except RecursionError:
+        raise InputError("the JSON is nested too deeply to read", file=str(path),
+                         fix="a project nests objects and lists only a few levels deep: "
+                             "check the brackets") from None
     if not isinstance(data, dict):
         raise InputError("the file must hold one JSON object", file=str(path),
                          value=type(data).__name__, fix='write {"project": {...}, "activities": [...]}')
@@ -70,14 +97,15 @@ def _load(path: Path) -> dict:
 
 
 def _check_keys(data: dict, path: Path) -> None:
+    _check_repeated(data, CellRef(str(path)), inside=False)
     allowed = tuple(KEYS.values())
     for key in data:
         if key not in allowed:
-            raise Where(str(path), None, key).error(
+            raise CellRef(str(path), None, key).error(
                 "unknown key", key, f"allowed keys: {', '.join(allowed)}")
     for key in _REQUIRED:
         if key not in data:
-            raise Where(str(path), None, key).error(
+            raise CellRef(str(path), None, key).error(
                 f"the key '{key}' is missing", None, f'add "{key}" to the top-level object')
 
 
@@ -88,12 +116,13 @@ def read(path: Path) -> Tables:
     names = labels(path)
     project = data["project"]
     if not isinstance(project, dict):
-        raise Where(names["settings"]).error("expected an object", type(project).__name__,
+        raise CellRef(names["settings"]).error("expected an object", type(project).__name__,
                                              'write "project": {"name": ..., "start": ...}')
+    _check_repeated(project, CellRef(names["settings"]))
     optional = {key: table_from_records(names[key], data[KEYS[key]]) if KEYS[key] in data else None
                 for key in ("links", "crash_steps", "options")}
     return Tables(
-        settings=Settings(names["settings"], flatten(project, Where(names["settings"]))),
+        settings=Settings(names["settings"], flatten(project, CellRef(names["settings"]))),
         activities=table_from_records(names["activities"], data["activities"]),
         **optional,
     )

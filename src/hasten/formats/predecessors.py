@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import re
 
-from hasten.formats.cells import Where
+from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, one_line_errors, shortened
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
@@ -21,7 +21,7 @@ COLUMN = "predecessors"
 _LINK_TYPES = {kind.value: kind for kind in LinkType}  # a dict look-up is quicker than LinkType()
 
 
-def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
+def link_type(text: str, where: CellRef, shown: str | None = None) -> LinkType:
     """A link type from its two letters in any case; ``shown`` is the value to name on error."""
     kind = _LINK_TYPES.get(text.strip().upper())
     if kind is None:
@@ -29,21 +29,26 @@ def link_type(text: str, where: Where, shown: str | None = None) -> LinkType:
     return kind
 
 
-def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
+def _type_and_lag(text: str, item: str, where: CellRef) -> tuple[LinkType, int]:
     """Parse ``SS+2`` (the part after the colon)."""
     match = _TYPE_AND_LAG.fullmatch(text)
     if not match:
-        raise where.error("cannot read the link type and lag", item,
+        raise where.error("cannot read the link type and lag", shortened(item),
                           f"write ID:TYPE+LAG, e.g. 'A:SS+2'; {LINK_TYPE_FIX}")
     kind = link_type(match.group(1), where, item)
     sign, lag = match.group(2), match.group(3)
     if sign is None:
         return kind, 0
     if not _WHOLE.fullmatch(lag):
-        raise where.error("the lag is not a whole number of working days", item,
+        raise where.error("the lag is not a whole number of working days", shortened(item),
                           f"write the lag as whole days after + or -, e.g. "
                           f"'{item.split(':')[0].strip()}:{kind.value}+2'")
-    return kind, int(lag) if sign == "+" else -int(lag)
+    # the length first: Python refuses to turn text of thousands of digits into a number
+    days = int(lag) if len(lag) <= 9 else WHOLE_LIMIT + 1
+    if days > WHOLE_LIMIT:
+        raise where.error(f"the lag is more than {WHOLE_LIMIT:,} working days", shortened(item),
+                          f"write a lag of up to {WHOLE_LIMIT:,} working days")
+    return kind, days if sign == "+" else -days
 
 
 #: type-and-lag texts already read (``"SS+2"``), a few distinct ones in any project;
@@ -51,7 +56,7 @@ def _type_and_lag(text: str, item: str, where: Where) -> tuple[LinkType, int]:
 _known: dict[str, tuple[LinkType, int]] = {}
 
 
-def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[str, LinkType, int]]]:
+def parse_predecessor_items(text: str, where: CellRef) -> list[tuple[str, tuple[str, LinkType, int]]]:
     """Each non-empty item as (item text, (predecessor id, type, lag))."""
     found = []
     for raw in text.split(";"):
@@ -63,6 +68,8 @@ def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[st
         if not ident:
             raise where.error("a predecessor has no id", item,
                               "write the predecessor's id before the colon, e.g. 'A:SS+2'")
+        if not (ident.isascii() and ident.isprintable()):
+            ident = id_value(ident, where)
         if not colon:
             kind, lag = LinkType.FS, 0
         else:
@@ -73,10 +80,11 @@ def parse_predecessor_items(text: str, where: Where) -> list[tuple[str, tuple[st
     return found
 
 
+@one_line_errors
 def parse_predecessors(text: str, *, file: str | None = None,
                        row: int | None = None) -> list[tuple[str, LinkType, int]]:
     """Parse the shorthand into (predecessor id, link type, lag) triples, in order.
 
     Pure: it does not check that the ids exist. ``file`` and ``row`` only locate errors.
     """
-    return [triple for _, triple in parse_predecessor_items(text, Where(file, row, COLUMN))]
+    return [triple for _, triple in parse_predecessor_items(text, CellRef(file, row, COLUMN))]

@@ -27,7 +27,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from datetime import date
 
-from hasten.formats.cells import Where, date_value, number_value, text_value, whole_value
+from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
 from hasten.formats.tables import Settings
 from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
 
@@ -81,7 +81,7 @@ class ProjectSettings:
     calendars: tuple[Calendar, ...] = ()
 
 
-def _flatten_calendars(value: object, where: Where) -> dict[str, object]:
+def _flatten_calendars(value: object, where: CellRef) -> dict[str, object]:
     """``{"crane": {"workdays": w}}`` -> ``{"calendars.crane.workdays": w}``."""
     if not isinstance(value, Mapping):
         raise where.at(CALENDARS).error(
@@ -104,7 +104,7 @@ def _flatten_calendars(value: object, where: Where) -> dict[str, object]:
     return flat
 
 
-def flatten(nested: Mapping[str, object], where: Where) -> dict[str, object]:
+def flatten(nested: Mapping[str, object], where: CellRef) -> dict[str, object]:
     """``{"contract": {"finish": d}}`` -> ``{"contract.finish": d}`` for the known sections,
     ``{"calendars": {"crane": {"workdays": w}}}`` -> ``{"calendars.crane.workdays": w}``."""
     flat: dict[str, object] = {}
@@ -176,7 +176,7 @@ def _check_keys(settings: Settings) -> None:
                                         f"{hint}allowed keys: {', '.join(SETTING_KEYS)}")
     for key in REQUIRED_KEYS:
         if _given(settings, key) is None:
-            raise Where(settings.source, None, key).error(
+            raise CellRef(settings.source, None, key).error(
                 f"the required key '{key}' is missing", None,
                 f"add it, e.g. {key} = " + ('"Depot extension"' if key == "name" else "2025-03-03"))
 
@@ -187,7 +187,7 @@ def _given(settings: Settings, key: str) -> object:
     return None if isinstance(value, str) and not value.strip() else value
 
 
-def _weekday_names(value: object, where: Where) -> list[str]:
+def _weekday_names(value: object, where: CellRef) -> list[str]:
     """The weekday names of a list or of comma-separated text."""
     items = value.split(",") if isinstance(value, str) else value
     if not isinstance(items, list) or not all(isinstance(i, str) for i in items):
@@ -195,7 +195,7 @@ def _weekday_names(value: object, where: Where) -> list[str]:
     return [i.strip().lower() for i in items]
 
 
-def parse_calendar(value: object, holidays: tuple[date, ...], where: Where) -> Calendar:
+def parse_calendar(value: object, holidays: tuple[date, ...], where: CellRef) -> Calendar:
     """A named calendar or a list of working weekdays; the name is canonical."""
     if value is None:
         return Calendar(holidays=holidays)
@@ -203,8 +203,12 @@ def parse_calendar(value: object, holidays: tuple[date, ...], where: Where) -> C
         name = value.strip().lower()
         return Calendar(NAMED_CALENDARS[name], holidays, name)
     names = _weekday_names(value, where)
-    if not names or any(n not in WEEKDAY_NAMES for n in names) or len(set(names)) != len(names):
+    if not names or any(n not in WEEKDAY_NAMES for n in names):
         raise where.error("unknown calendar" if names else "no working weekdays", value, _CALENDAR_FIX)
+    twice = next((n for i, n in enumerate(names) if n in names[:i]), None)
+    if twice:
+        raise where.error(f"the weekday '{twice}' is listed twice", value,
+                          "list each working weekday once, e.g. [\"mon\", \"tue\", \"wed\"]")
     workdays = tuple(sorted(WEEKDAY_NAMES.index(n) for n in names))
     for name, days in NAMED_CALENDARS.items():
         if days == workdays:
@@ -212,7 +216,7 @@ def parse_calendar(value: object, holidays: tuple[date, ...], where: Where) -> C
     return Calendar(workdays, holidays, ",".join(WEEKDAY_NAMES[d] for d in workdays))
 
 
-def parse_holidays(value: object, where: Where) -> tuple[date, ...]:
+def parse_holidays(value: object, where: CellRef) -> tuple[date, ...]:
     """A list of dates, or comma-separated dates in one cell; each date once."""
     if value is None:
         return ()
@@ -229,7 +233,7 @@ def parse_holidays(value: object, where: Where) -> tuple[date, ...]:
     return days
 
 
-def _calendar_holidays(value: object, where: Where) -> tuple[date, ...]:
+def _calendar_holidays(value: object, where: CellRef) -> tuple[date, ...]:
     """A named calendar's holidays: as :func:`parse_holidays`, and the text ``none`` for no
     holidays (an empty workbook cell means the key is absent: the project's holidays)."""
     if isinstance(value, str) and value.strip().lower() == "none":
@@ -291,7 +295,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
     )
 
 
-def _days(value: object, where: Where) -> int:
+def _days(value: object, where: CellRef) -> int:
     """A whole number of calendar days (the bonus cap)."""
     return whole_value(value, where, unit="days")
 

@@ -11,9 +11,10 @@ from __future__ import annotations
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 
-from hasten.formats.cells import Where, cell_text, clean_text
+from hasten.formats.cells import CellRef, cell_text, clean_text
 
-__all__ = ["Row", "Table", "Settings", "Tables", "table_from_grid", "table_from_records"]
+__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "table_from_grid",
+           "table_from_records"]
 
 
 @dataclass(frozen=True)
@@ -51,9 +52,9 @@ class Settings:
     values: Mapping[str, object] = field(default_factory=dict)
     lines: Mapping[str, int] = field(default_factory=dict)
 
-    def where(self, key: str) -> Where:
+    def where(self, key: str) -> CellRef:
         """The location of ``key`` for error messages."""
-        return Where(self.source, self.lines.get(key), key)
+        return CellRef(self.source, self.lines.get(key), key)
 
 
 @dataclass(frozen=True)
@@ -65,6 +66,15 @@ class Tables:
     links: Table | None = None
     crash_steps: Table | None = None
     options: Table | None = None
+
+
+class RepeatedKeys(dict):
+    """A record (JSON object) in which some keys were given more than once; ``repeated``
+    lists them (the dict keeps the last value of each, as ``json`` does)."""
+
+    def __init__(self, values: dict, repeated: list[str]):
+        super().__init__(values)
+        self.repeated = tuple(repeated)
 
 
 def _has_text(cell: object) -> bool:
@@ -82,7 +92,7 @@ def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
     names = tuple(cell_text(c).strip().lower() for c in cells)
     for i, name in enumerate(names):
         if name and name in names[:i]:
-            raise Where(source, line, name).error(
+            raise CellRef(source, line, name).error(
                 "the column name appears twice", name, f"keep one column named '{name}'")
     return names
 
@@ -107,7 +117,7 @@ def _row(source: str, line: int, names: tuple[str, ...], cells: Sequence[object]
             values[names[i]] = text
         elif text:
             column = f"#{i + 1}"
-            raise Where(source, line, column).error(
+            raise CellRef(source, line, column).error(
                 "a value stands in a column without a name", text,
                 "give the column a name in the header row, or remove the value "
                 "(text containing commas must be quoted)")
@@ -136,19 +146,28 @@ def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) 
 def table_from_records(source: str, records: object) -> Table:
     """Build a table from a JSON list of objects; row numbers are 1-based list positions."""
     if not isinstance(records, list):
-        raise Where(source).error("expected a list of objects", type(records).__name__,
+        raise CellRef(source).error("expected a list of objects", type(records).__name__,
                                   'write a list: [{"id": "A", ...}, ...]')
     columns: dict[str, None] = {}
     keyed = []
     for number, record in enumerate(records, start=1):
         if not isinstance(record, dict):
-            raise Where(source, number).error("expected an object", record,
+            raise CellRef(source, number).error("expected an object", record,
                                               'write each item as {"column": value, ...}')
+        for key in getattr(record, "repeated", ()):
+            raise CellRef(source, number, key.strip().lower()).error(
+                "the key appears twice in one object", key, "keep one of them")
         item = {}
+        spelt: dict[str, str] = {}
         for key, value in record.items():
             name = key.strip().lower()
+            if name in spelt:
+                raise CellRef(source, number, name).error(
+                    f"the keys '{spelt[name]}' and '{key}' name the same column (case and "
+                    "spaces around a name do not count)", key, f"keep one key named '{name}'")
+            spelt[name] = key
             if isinstance(value, (list, dict)):
-                raise Where(source, number, name).error(
+                raise CellRef(source, number, name).error(
                     "expected a single value", value, "write text, a number or null")
             item[name] = clean_text(cell_text(value))
             columns.setdefault(name)

@@ -25,16 +25,18 @@ row numbers (header = row 1). Other sheets are ignored.
 
 from __future__ import annotations
 
+import re
 import zipfile
 from collections.abc import Mapping
 from datetime import date
+from decimal import Decimal
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where, cell_text
+from hasten.formats.cells import CellRef, cell_text
 from hasten.formats.document import Document
 from hasten.formats.files import write_file
-from hasten.formats.parse import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
+from hasten.formats.columns import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Settings, Table, Tables, table_from_grid
 
@@ -52,13 +54,24 @@ def labels(path: Path) -> dict[str, str]:
 
 
 def _grid(sheet):
-    return enumerate(sheet.iter_rows(min_row=1, max_row=sheet.max_row, values_only=True), start=1)
+    """(row number, cell values) of every row; a number in a cell formatted as a percentage
+    becomes its text with the % sign (60 % is stored as 0.6: ``0.6`` -> ``"60%"``), so that it
+    keeps the meaning the spreadsheet shows."""
+    for line, cells in enumerate(sheet.iter_rows(min_row=1, max_row=sheet.max_row), start=1):
+        yield line, [_percent_text(c.value) if type(c.value) in (int, float)
+                     and "%" in (c.number_format or "") else c.value for c in cells]
+
+
+def _percent_text(value: int | float) -> str:
+    """``0.6`` -> ``"60%"``: the exact decimal of the stored number, times 100."""
+    shown = Decimal(repr(value)) * 100
+    return f"{shown.normalize():f}%" if shown else "0%"
 
 
 def _settings(sheet, source: str) -> Settings:
     """The project sheet: one key and value per row."""
     table = table_from_grid(source, _grid(sheet))
-    header = Where(source, table.header_line)
+    header = CellRef(source, table.header_line)
     if table.columns != _SETTINGS_COLUMNS:
         raise header.error("the project sheet needs exactly the columns key and value",
                            ", ".join(table.columns) or "no columns",
@@ -68,10 +81,10 @@ def _settings(sheet, source: str) -> Settings:
     for row in table.rows:
         key = row.cells["key"]
         if not key:
-            raise Where(source, row.line, "key").error(
+            raise CellRef(source, row.line, "key").error(
                 "a value has no key", row.cells["value"], "write the setting's name in column A")
         if key in values:
-            raise Where(source, row.line, "key").error(
+            raise CellRef(source, row.line, "key").error(
                 f"the key is given twice: rows {lines[key]} and {row.line}", key,
                 "keep one row (several holidays go into one cell, separated by commas)")
         values[key], lines[key] = row.cells["value"], row.line
@@ -87,6 +100,56 @@ def _load(path: Path):
     except (InvalidFileException, zipfile.BadZipFile, KeyError, ValueError, OSError) as exc:
         raise InputError(f"cannot open the workbook: {exc}", file=str(path),
                          fix="save it from the spreadsheet program as an .xlsx workbook") from None
+
+
+_FORMULA = re.compile(rb"<(?:\w+:)?f[ >/]")
+
+
+def _has_formulas(path: Path) -> bool:
+    """True when some sheet of the workbook holds a formula (a quick look at its XML)."""
+    try:
+        with zipfile.ZipFile(path) as archive:
+            return any(_FORMULA.search(archive.read(name)) for name in archive.namelist()
+                       if name.startswith("xl/worksheets/") and name.endswith(".xml"))
+    except (zipfile.BadZipFile, OSError, KeyError):
+        return False
+
+
+def _check_calculated(path: Path, sheets: dict, tables: dict[str, Table | None],
+                      names: dict[str, str]) -> None:
+    """Refuse a formula cell whose value was never calculated and saved.
+
+    Files written by programs that do not calculate (scripts, some converters) hold the
+    formula without its value; read with its values only, the cell looks empty.
+    """
+    if not _has_formulas(path):
+        return
+    import openpyxl
+
+    formulas = openpyxl.load_workbook(path, data_only=False)
+    try:
+        for key, name in SHEETS.items():
+            table = tables.get(key)
+            if table is None or name not in sheets:
+                continue
+            values, cells = sheets[name], formulas[sheets[name].title]
+            header = [cell_text(c.value).strip().lower() for c in values[table.header_line or 1]]
+            for row in cells.iter_rows():
+                for cell in row:
+                    text = cell.value  # a formula is text starting '=' (or an array formula)
+                    text = text if isinstance(text, str) else getattr(text, "text", None)
+                    if (isinstance(text, str) and text.startswith("=")
+                            and values.cell(cell.row, cell.column).value is None):
+                        named = cell.column <= len(header) and header[cell.column - 1]
+                        label = header[cell.column - 1] if named else f"#{cell.column}"
+                        raise CellRef(names[key], cell.row, label).error(
+                            "the cell holds a formula that was never calculated, so it has no "
+                            "value to read", text,
+                            "open the workbook in a spreadsheet program and save it (that "
+                            "stores the calculated values), or type the value instead of the "
+                            "formula")
+    finally:
+        formulas.close()
 
 
 def read(path: Path) -> Tables:
@@ -106,6 +169,8 @@ def read(path: Path) -> Tables:
                 raise InputError(f"the sheet '{name}' is missing (sheets found: {found})",
                                  file=str(path), fix=f"add a sheet named '{name}'")
         settings = _settings(sheets[SHEETS["settings"]], names["settings"])
+        _check_calculated(path, sheets, tables | {"settings": table_from_grid(
+            names["settings"], _grid(sheets[SHEETS["settings"]]))}, names)
     finally:
         book.close()
     return Tables(settings, tables["activities"], tables["links"], tables["crash_steps"],
