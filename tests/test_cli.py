@@ -71,7 +71,7 @@ def test_schedule_writes_csv_and_xlsx(hendrickson: Path, tmp_path: Path):
         assert list(frame["id"]) == list("ABCDEFGHI")
         assert int(frame.loc[frame["id"] == "I", "lf"].iloc[0]) == 30
     bad = run("schedule", hendrickson, "--out", tmp_path / "cpm.txt")
-    assert bad.exit_code == 2 and "FILE.csv or FILE.xlsx" in bad.output
+    assert bad.exit_code == 2 and "cpm.csv or cpm.xlsx" in bad.output
 
 
 def test_plan_finish_json(ques10: Path):

@@ -18,7 +18,7 @@ import pytest
 from hasten.errors import InputError
 from hasten.formats import read_project, read_research
 from hasten.network import Network
-from hasten.network import schedule as cpm
+from hasten.cpm import schedule as cpm
 
 DATA = Path(__file__).parent / "data"
 HALL = DATA / "formats" / "hall"

@@ -1,3 +1,5 @@
-from .cli import main
+"""``python -m hasten``: the same as the ``hasten`` console script."""
+
+from .launch import main
 
 main()

@@ -24,8 +24,10 @@ import typer
 from . import render, render_json
 from .cpm import schedule as cpm
 from .errors import HastenError, InfeasibleTargetError, InputError, TimeLimitError
+from .formats import check_output_folder, check_output_target, import_research, read_project_with_notes
 from .formats import convert as convert_project
-from .formats import read_project, write_project
+from .formats import read_project, write_table
+from .formats.output import TABLE_SUFFIXES
 from .formats.files import write_file
 from .questions import Earlier
 
@@ -40,6 +42,7 @@ app = typer.Typer(
 
 ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook or .json file.")]
 JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
+ForceOpt = Annotated[bool, typer.Option("--force", help="Replace an existing output file (never an input).")]
 LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds each mixed-integer solve may use.")]
 
 
@@ -70,13 +73,28 @@ def _errors():
 
 
 def _emit(as_json: bool, as_dict, as_text, notes=()) -> None:
-    """Print a result as one JSON object, or as text after its notes."""
+    """Print a result as one JSON object (with its notes), or as text after its notes."""
     if as_json:
-        _json(as_dict())
+        _json(as_dict() | {"notes": list(notes)})
         return
     for note in notes:
         _echo(f"Note: {note}")
     _echo(as_text())
+
+
+def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path | None, ...] = ()) -> None:
+    """Check every output path before any work: never an input, never an existing file
+    without --force, a folder that exists and can be written, and a table's suffix."""
+    for path in tables:
+        if path is not None and path.suffix.lower() not in TABLE_SUFFIXES:
+            raise InputError(f"cannot write a table to a {path.suffix or 'suffix-less'!r} file", file=str(path),
+                             fix=f"name the file {path.stem}.csv or {path.stem}.xlsx")
+    for path in paths + tables:
+        if path is not None:
+            check_output_target(path, inputs=[project], force=force)
+
+
+_SCHEDULE_DATES = ("early_start", "early_finish", "late_start", "late_finish")
 
 
 def _date(text: str, option: str) -> date:
@@ -126,30 +144,18 @@ def schedule(
     as_json: JsonOpt = False,
     out: Annotated[Optional[Path], typer.Option("--out", help="Also write the table to FILE.csv or FILE.xlsx.")] = None,
     deadline: Annotated[Optional[str], typer.Option("--deadline", help="Backward pass from this date (YYYY-MM-DD) instead of the early finish; float may go negative.")] = None,
+    force: ForceOpt = False,
 ) -> None:
     """Forward and backward pass: dates, floats, critical paths."""
     with _errors():
-        p = read_project(project)
+        _outputs(project, force, tables=(out,))
+        p, notes = read_project_with_notes(project)
         sched = cpm(p, deadline=None if deadline is None else _date(deadline, "--deadline"))
         if out is not None:
-            _write_table(out, render_json.schedule_rows(p, sched))
-        _emit(as_json, lambda: render_json.schedule_json(p, sched), lambda: render.schedule_text(p, sched))
-
-
-def _write_table(out: Path, rows: list[dict]) -> None:
-    import pandas as pd
-
-    frame = pd.DataFrame(rows)
-    if "driving" in frame:
-        frame["driving"] = frame["driving"].map(lambda v: ";".join(v))
-    suffix = out.suffix.lower()
-    if suffix == ".csv":
-        write_file(out.resolve(), lambda tmp: frame.to_csv(tmp, index=False, encoding="utf-8"))
-    elif suffix == ".xlsx":
-        write_file(out.resolve(), lambda tmp: frame.to_excel(tmp, index=False, engine="openpyxl"))
-    else:
-        raise InputError(f"cannot write a table to {out.name!r}", column="--out", value=str(out),
-                         fix="name the output FILE.csv or FILE.xlsx")
+            rows = render_json.schedule_rows(p, sched)
+            write_table(out, list(rows[0]) if rows else ["id"], rows, sheet_name="schedule",
+                        date_columns=_SCHEDULE_DATES)
+        _emit(as_json, lambda: render_json.schedule_json(p, sched), lambda: render.schedule_text(p, sched), notes)
 
 
 _EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
@@ -192,8 +198,10 @@ def plan(
         from .questions import plan as least_cost_plan
 
         target = _target(finish, by, earlier)
-        result = least_cost_plan(read_project(project), target, time_limit=time_limit)
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result), result.notes)
+        p, notes = read_project_with_notes(project)
+        result = least_cost_plan(p, target, time_limit=time_limit)
+        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result),
+              notes + result.notes)
 
 
 @app.command()
@@ -205,22 +213,33 @@ def curve(
     csv: Annotated[Optional[Path], typer.Option("--csv", help="Also write the points to FILE.csv.")] = None,
     plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the curve to FILE.png.")] = None,
     time_limit: LimitOpt = None,
+    force: ForceOpt = False,
 ) -> None:
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
         from .questions import curve as least_cost_curve
 
-        p = read_project(project)
+        _outputs(project, force, csv, plot)
+        if csv is not None and csv.suffix.lower() != ".csv":
+            raise InputError("--csv writes a .csv file", value=str(csv), fix="name the output FILE.csv")
+        for flag, value in (("--to", shortest), ("--from", longest)):
+            if value is not None and value < 0:
+                raise InputError(f"{flag} is a finish in working days from the start, 0 or more",
+                                 value=value, fix=f"give a finish such as {flag} 40")
+        p, notes = read_project_with_notes(project)
         with _progress(not as_json) as tick:
             result = least_cost_curve(p, longest, shortest, time_limit=time_limit, progress=tick)
         if csv is not None:
-            _write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv,
-                         render_json.curve_rows(result))
+            rows = render_json.curve_rows(result)
+            write_table(csv, ["finish", "finish_date", "added_cost", "milestone_damages", "day_cost", "changes"],
+                        rows, sheet_name="cost curve", date_columns=("finish_date",),
+                        money_columns=("added_cost", "milestone_damages", "day_cost"), currency=p.currency)
         if plot is not None:
             from .charts import curve_chart
 
             write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
-        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result), result.notes)
+        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result),
+              notes + result.notes)
 
 
 @app.command()
@@ -229,10 +248,11 @@ def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = N
     with _errors():
         from .questions import best_finish
 
-        p = read_project(project)
+        p, notes = read_project_with_notes(project)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result), result.notes)
+        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result),
+              notes + result.notes)
 
 
 @app.command()
@@ -246,14 +266,14 @@ def budget(
     with _errors():
         from .questions import earliest_within
 
-        p = read_project(project)
+        p, notes = read_project_with_notes(project)
         if not math.isfinite(spend) or spend < 0:
             raise InputError("--spend must be a number 0 or more", value=spend,
                              fix="give the most you would add to the direct cost, e.g. --spend 50000")
         result = earliest_within(p, spend, time_limit=time_limit)
         title = f"Earliest finish within {render.money(spend, p.currency)}"
         _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result, title=title),
-              result.notes)
+              notes + result.notes)
 
 
 @app.command()
@@ -262,11 +282,11 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
     with _errors():
         from .questions import recover as recovery
 
-        p = read_project(project)
+        p, notes = read_project_with_notes(project)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
         _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
-              result.notes)
+              notes + result.notes)
 
 
 @app.command()
@@ -276,6 +296,7 @@ def convert(
 ) -> None:
     """Convert a project between its folder, workbook and JSON forms."""
     with _errors():
+        check_output_target(target, inputs=[source])
         convert_project(source, target)
         _echo(f"wrote {target}")
 
@@ -290,11 +311,9 @@ def import_(
     Multi-mode jobs: the longest mode is the normal way, the other modes become options
     costing the difference in nonrenewable resources; renewable resources are ignored.
     """
-    from .formats.research import read_research
-
     with _errors():
-        project = read_research(source)
-        write_project(project, target)
+        check_output_target(target, inputs=[source])
+        project = import_research(source, target)
         options = sum(len(a.options) for a in project.activities)
         _echo(f"wrote {target}: {len(project.activities)} activities, {len(project.links)} links, "
               f"{options} options")
@@ -312,8 +331,7 @@ def demo(
             while folder.exists():
                 folder = Path(f"hasten-demo-{k}")
                 k += 1
-        if folder.exists() and any(folder.iterdir()):
-            raise HastenError(f"{folder} is not empty; give a new or empty folder for the demo")
+        check_output_folder(folder)
         folder.mkdir(parents=True, exist_ok=True)
         source = resources.files("hasten") / "demo"
         for item in source.iterdir():
@@ -345,6 +363,9 @@ def main() -> None:  # pragma: no cover - the console script
     try:
         app()
         code = 0
+    except KeyboardInterrupt:  # interrupted before typer's own handling began
+        sys.stderr.write("hasten: interrupted\n")
+        code = 130
     except SystemExit as exc:
         code = exc.code if isinstance(exc.code, int) else (0 if exc.code is None else 1)
     sys.stdout.flush()

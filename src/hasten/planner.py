@@ -117,8 +117,21 @@ class Planner:
         ``calendar_days`` calendar days before its date (to the last working day on or
         before it, in the project calendar)."""
         if calendar_days:
-            return self.clock.shift_calendar_days(self.normal_finish, calendar_days)
-        return self.normal_finish - working_days
+            try:
+                return self.clock.shift_calendar_days(self.normal_finish, calendar_days)
+            except (OverflowError, ValueError):
+                raise HastenError(f"{calendar_days:,} calendar days before the current finish is before "
+                                  "the first date a calendar can count (the year 1)") from None
+        return self._datable(self.normal_finish - working_days)
+
+    def _datable(self, target: int) -> int:
+        """``target`` itself, when the project calendar can date it."""
+        try:
+            self.clock.project_finish_date(target)
+        except (OverflowError, ValueError):
+            raise HastenError(f"a finish of {target:,} working days from the start cannot be dated with "
+                              "the project calendar (it falls outside the years 1 to 9999)") from None
+        return target
 
     def contract_target(self) -> int | None:
         """The target that meets the contract finish, or the shortest possible finish when
@@ -147,7 +160,8 @@ class Planner:
                 raise HastenError(f"no plan meets every interim milestone deadline by a finish of "
                                   f"{target} working days")
             shortest = self.shortest_finish
-            raise InfeasibleTargetError(target, shortest, self.clock.project_finish_date(target),
+            raise InfeasibleTargetError(target, shortest,
+                                        self.clock.project_finish_date(target) if target > 0 else None,
                                         self.clock.project_finish_date(shortest))
         return sol
 
@@ -170,6 +184,7 @@ class Planner:
         InfeasibleTargetError
             When no plan finishes by ``target`` (it carries the shortest possible finish).
         """
+        self._datable(target)
         self._reach = max(self._reach, self.normal_finish - target + 1)  # and the next day
         sol = self._solve(target, strict=strict)
         sched = schedule(self.network, sol.durations)

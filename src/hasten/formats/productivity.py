@@ -28,7 +28,7 @@ from fractions import Fraction
 from pathlib import Path
 
 from hasten.errors import InputError
-from hasten.formats.cells import Where, number_value, whole_value
+from hasten.formats.cells import CellRef, number_value, whole_value
 from hasten.productivity import ProductivityTable, schedule_key, week_hours_key
 
 __all__ = ["PRODUCTIVITY_COLUMNS", "parse_productivity", "read_productivity"]
@@ -40,7 +40,7 @@ _WEEK_HOURS = re.compile(r"(\d+(?:\.\d+)?)\s*[hH]")
 _SCHEDULE_FIX = "write days x hours a day, e.g. 6x10, or hours a week, e.g. 60h"
 
 
-def _schedule(text: str, where: Where) -> str:
+def _schedule(text: str, where: CellRef) -> str:
     if m := _DAYS_HOURS.fullmatch(text):
         days, hours = int(m.group(1)), Fraction(m.group(2))
         if not 1 <= days <= 7:
@@ -56,7 +56,7 @@ def _schedule(text: str, where: Where) -> str:
     raise where.error("not a schedule" if text else "the schedule is empty", text, _SCHEDULE_FIX)
 
 
-def _loss(text: str, where: Where) -> Fraction:
+def _loss(text: str, where: CellRef) -> Fraction:
     if text.endswith("%"):
         raise where.error("write the loss as a fraction, not a percentage", text,
                           f"write {text[:-1].strip()}% as a fraction, e.g. 17% as 0.17")
@@ -94,7 +94,7 @@ def parse_productivity(text: str, source: str) -> ProductivityTable:
         if header is None:
             header = [c.lower() for c in cells]
             for i, name in enumerate(header):
-                where = Where(source, line, name or f"#{i + 1}")
+                where = CellRef(source, line, name or f"#{i + 1}")
                 if name not in PRODUCTIVITY_COLUMNS:
                     close = difflib.get_close_matches(name, PRODUCTIVITY_COLUMNS, n=1)
                     hint = f"did you mean '{close[0]}'? " if close else ""
@@ -104,30 +104,30 @@ def parse_productivity(text: str, source: str) -> ProductivityTable:
                     raise where.error("the column name appears twice", name, f"keep one column '{name}'")
             for name in _REQUIRED:
                 if name not in header:
-                    raise Where(source, line, name).error(
+                    raise CellRef(source, line, name).error(
                         "a required column is missing", None,
                         f"add the column '{name}'; the columns are {', '.join(PRODUCTIVITY_COLUMNS)}")
             continue
         if len(cells) > len(header):
-            raise Where(source, line, f"#{len(header) + 1}").error(
+            raise CellRef(source, line, f"#{len(header) + 1}").error(
                 "a value stands in a column without a name", cells[len(header)],
                 "remove it, or name the column in the header row")
         cell = dict(zip(header, cells + [""] * (len(header) - len(cells))))
-        key = _schedule(cell["schedule"], Where(source, line, "schedule"))
+        key = _schedule(cell["schedule"], CellRef(source, line, "schedule"))
         week = None
         if cell.get("week", ""):
-            week = whole_value(cell["week"], Where(source, line, "week"), minimum=1, unit="weeks")
-        loss = _loss(cell["loss"], Where(source, line, "loss"))
+            week = whole_value(cell["week"], CellRef(source, line, "week"), minimum=1, unit="weeks")
+        loss = _loss(cell["loss"], CellRef(source, line, "loss"))
         if cell.get("source") and cell["source"] not in sources:
             sources.append(cell["source"])
         earlier = rows.setdefault(key, [])
         if earlier and (week is None) != (earlier[0][1] is None):
-            raise Where(source, line, "week").error(
+            raise CellRef(source, line, "week").error(
                 f"schedule {key} has rows with and without a week", cell.get("week", ""),
                 "give either one row with an empty week (one loss for every week) or a row "
                 "for each week 1, 2, ...")
         if any(w == week for _, w, _ in earlier):
-            raise Where(source, line, "week" if week else "schedule").error(
+            raise CellRef(source, line, "week" if week else "schedule").error(
                 f"schedule {key} is given twice" + (f" for week {week}" if week else ""),
                 week or cell["schedule"], "keep one row for each schedule and week")
         earlier.append((line, week, loss))
@@ -143,7 +143,7 @@ def parse_productivity(text: str, source: str) -> ProductivityTable:
         entries.sort(key=lambda e: e[1])
         for expected, (line, week, _) in enumerate(entries, start=1):
             if week != expected:
-                raise Where(source, line, "week").error(
+                raise CellRef(source, line, "week").error(
                     f"schedule {key} has no row for week {expected}", week,
                     f"add a row for week {expected}: weeks run 1, 2, ... with none missing")
         losses[key] = tuple(e[2] for e in entries)
