@@ -58,7 +58,8 @@ class Schedule:
     longest_paths: tuple[tuple[str, ...], ...] = ()
     warnings: tuple[str, ...] = ()  # about the input, e.g. out-of-sequence progress
     start_date: date | None = None  # the project's first working day
-    finish_date: date | None = None  # the last day worked
+    finish_date: date | None = None  # the last day worked (or the day of the last milestone)
+    states: tuple = ()  # hasten.progress.ActivityProgress of each activity: how its dates are shown
 
     def by_id(self) -> dict[str, ActivityDates]:
         return {a.id: a for a in self.activities}
@@ -138,7 +139,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
                                   free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
                                   states[i].state))
     return Schedule(finish, tuple(rows), paths, deadline, truncated, longest, net.progress.warnings,
-                    net.clock.start_date(0), net.clock.project_finish_date(finish))
+                    net.clock.start_date(0), net.finish_date(finish), states)
 
 
 def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: list[int], finish: int):

@@ -17,6 +17,7 @@ from datetime import date
 from .planner import Planner
 from .results import Plan, TotalCostPoint
 from .errors import HastenError
+from .progress import end_day
 from .project import Project
 
 __all__ = ["MilestoneForecast", "Course", "Recovery", "recovery"]
@@ -94,7 +95,7 @@ def recovery(planner: Planner, progress=None) -> Recovery:
     for k, (a, f) in enumerate(zip(project.activities, finishes)):
         if a.deadline is None:
             continue
-        forecast = net.timeline.clock_of(k).project_finish_date(f)  # in its own calendar
+        forecast = net.timeline.clock_of(k).date_of(end_day(net.progress.activities[k], f))  # own calendar
         late = max(0, (forecast - a.deadline).days)
         milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
     base = planner.total_cost_point(planner.normal_finish, 0.0, planner.checker.milestone_damages(finishes))

@@ -45,7 +45,7 @@ def schedule_text(project: Project, sched: Schedule) -> str:
     if progress:
         lines.append(f"Data date {_d(project.data_date)}: finished work shows its actual dates; "
                      "started work its actual start and forecast finish.")
-    lines += ["Dates are the first and last day worked (a milestone: the day its predecessors end); "
+    lines += ["Dates are the first and last day worked (a milestone: the day it happens, see README \"Method\"); "
               "floats in working days" + (" of each activity's own calendar; the project finish in "
                                           "working days of the project calendar." if own else ".")] + [f"Warning: {w}" for w in sched.warnings] + ["", table, ""]
     lines += _paths(sched)

@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING
 
 from .calendar import CalendarClock, Timeline
 from .cpm import Schedule
+from .progress import shown_days
 from .project import Project
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
@@ -36,28 +37,37 @@ def iso(day: date | None) -> str | None:
     return None if day is None else day.isoformat()
 
 
-def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tuple[list[str], list[str]]:
+def _dates(clock: CalendarClock, starts: list[int], finishes: list[int],
+           milestones: list[bool] | None = None, states=None) -> tuple[list[str], list[str]]:
     """First and last day worked for each (start, finish) pair, in two vectorised calls.
 
-    A milestone (start == finish) is dated on the last working day before it, like the
-    project finish: the day its predecessors end."""
-    first = clock.iso_dates([f - 1 if f == s and s > 0 else s for s, f in zip(starts, finishes)])
-    last = clock.iso_dates([max(f - 1, 0) if f > s else max(s - 1, 0) for s, f in zip(starts, finishes)])
-    return first, last
+    A milestone is dated on one day (:func:`hasten.progress.shown_days`): a start
+    milestone on the day it starts, another on the day its predecessors end, never before
+    the first day it may happen."""
+    if milestones is None or states is None:  # every pair is work
+        first = clock.iso_dates(starts)
+        last = clock.iso_dates([max(f - 1 if f > s else s - 1, 0) for s, f in zip(starts, finishes)])
+        return first, last
+    days = [shown_days(st, m, s, f) for st, m, s, f in zip(states, milestones, starts, finishes)]
+    return clock.iso_dates([a for a, _ in days]), clock.iso_dates([b for _, b in days])
 
 
-def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str):
+def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str, states=None):
     """Dates of one (start, finish) pair of every row, each in its activity's own calendar."""
     starts = [getattr(r, field) for r in rs]
     finishes = [getattr(r, other) for r in rs]
+    milestones = [r.duration == 0 and a.duration == 0 for r, a in zip(rs, project.activities)] \
+        if states else None
     if not timeline.several:
-        return _dates(timeline.project_clock, starts, finishes)
+        return _dates(timeline.project_clock, starts, finishes, milestones, states)
     pos = {a.id: k for k, a in enumerate(project.activities)}
     cal = [timeline.of[pos[r.id]] for r in rs]
     first, last = [""] * len(rs), [""] * len(rs)
     for c in sorted(set(cal)):
         mine = [k for k, x in enumerate(cal) if x == c]
-        f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine])
+        f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine],
+                      None if milestones is None else [milestones[k] for k in mine],
+                      None if states is None else [states[k] for k in mine])
         for k, a, b in zip(mine, f, g):
             first[k], last[k] = a, b
     return first, last
@@ -69,8 +79,9 @@ def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
     acts = {a.id: a for a in project.activities}
     rs = sched.activities
     timeline = Timeline(project)
-    es, ef = _row_dates(project, timeline, rs, "es", "ef")
-    ls, lf = _row_dates(project, timeline, rs, "ls", "lf")
+    states = sched.states or None
+    es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
+    ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states)
     rows = []
     for k, r in enumerate(rs):
         a = acts[r.id]
