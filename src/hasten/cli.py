@@ -79,6 +79,12 @@ def _emit(as_json: bool, as_dict, as_text, notes=()) -> None:
     _echo(as_text())
 
 
+def _with_check(obj: dict, check: tuple[str, ...]) -> dict:
+    """A JSON result with the schedule-check notice (None when every measure passes)."""
+    obj["schedule_check"] = check[0] if check else None
+    return obj
+
+
 def _date(text: str, option: str) -> date:
     try:
         return date.fromisoformat(text)
@@ -105,19 +111,43 @@ def _progress(enabled: bool):
 
 # -- commands ------------------------------------------------------------------------
 @app.command()
-def check(project: ProjectArg) -> None:
-    """Validate a project; prints what was found. Exit 0 when valid, 2 when not."""
+def check(project: ProjectArg, as_json: JsonOpt = False) -> None:
+    """Validate a project and check the schedule's quality before optimising. Exit 0 when
+    the project is valid (failing measures are reported, not refused), 2 when not."""
     with _errors():
+        from .network import Network
+        from .quality import assess
+
         p = read_project(project)
-        sched = cpm(p)
+        net = Network(p)
+        sched = cpm(net)
+        report = assess(p, getattr(p, "quality", None), network=net)
+        shortened = sum(1 for a in p.activities if a.max_shortening > 0)
+        if as_json:
+            _json({"project": p.name, "valid": True, "activities": len(p.activities), "links": len(p.links),
+                   "can_be_shortened": shortened, "normal_finish": sched.finish,
+                   "finish_date": sched.finish_date.isoformat(), "warnings": list(sched.warnings),
+                   "schedule_check": render_json.quality_json(report)})
+            return
         _echo(f"{project}: valid. {len(p.activities)} activities, {len(p.links)} links, "
-              f"{sum(1 for a in p.activities if a.max_shortening > 0)} can be shortened; "
-              f"normal finish {sched.finish} working days.")
+              f"{shortened} can be shortened; normal finish {sched.finish} working days.")
         used = [(c.name, sum(1 for a in p.activities if a.calendar == c.name)) for c in p.calendars]
         if used:
             _echo("Calendars of their own: " + ", ".join(
                 f"{name} ({n} activit{'y' if n == 1 else 'ies'})" for name, n in used)
                   + f"; the others work to the project calendar ({p.calendar.name}).")
+        for w in sched.warnings:
+            _echo(f"Warning: {w}")
+        _echo("")
+        _echo(render.quality_text(report))
+
+
+def _quality_notice(project) -> tuple[str, ...]:
+    """The one line plan, best and recover print when the schedule check fails a measure."""
+    from .quality import assess
+
+    notice = assess(project, getattr(project, "quality", None)).notice()
+    return () if notice is None else (notice,)
 
 
 @app.command()
@@ -192,8 +222,11 @@ def plan(
         from .questions import plan as least_cost_plan
 
         target = _target(finish, by, earlier)
-        result = least_cost_plan(read_project(project), target, time_limit=time_limit)
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result), result.notes)
+        p = read_project(project)
+        result = least_cost_plan(p, target, time_limit=time_limit)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.plan_json(result), check), lambda: render.plan_text(result),
+              check + result.notes)
 
 
 @app.command()
@@ -232,7 +265,9 @@ def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = N
         p = read_project(project)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result), result.notes)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.best_json(result), check), lambda: render.best_text(result),
+              check + result.notes)
 
 
 @app.command()
@@ -265,8 +300,9 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
         p = read_project(project)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
-              result.notes)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.recovery_json(result), check),
+              lambda: render.recovery_text(result), check + result.notes)
 
 
 @app.command()

@@ -13,12 +13,13 @@ from .progress import shown_days
 from .project import Project
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
+    from .quality import QualityReport
     from .recovery import Recovery
     from .results import BestFinish, Curve, CurvePoint, Plan
 
 __all__ = [
     "money_value", "iso", "schedule_rows", "schedule_json", "plan_json", "curve_rows", "curve_json",
-    "best_json", "recovery_json", "instructions", "money",
+    "best_json", "recovery_json", "instructions", "money", "quality_json",
 ]
 
 
@@ -239,4 +240,19 @@ def recovery_json(rec: Recovery) -> dict:
         "courses": [course(c) for c in rec.courses],
         "warnings": list(rec.warnings),
         "notes": list(rec.notes),
+    }
+
+
+# -- the schedule check --------------------------------------------------------------
+def quality_json(report: QualityReport) -> dict:
+    """The schedule-quality check: a summary and every measure with its threshold."""
+    return {
+        "summary": report.summary(),
+        "passed": not report.failed,
+        "measures": [{"measure": m.key, "title": m.title, "assessed": m.assessed, "passed": m.passed,
+                      "count": m.count, "of": m.base, "unit": m.unit,
+                      "share": None if m.share is None else round(m.share, 4),
+                      "threshold": m.limit, "at_least": m.at_least, "items": list(m.items),
+                      "fix": m.fix, "note": m.note} for m in report.measures],
+        "thresholds": dict(report.thresholds),
     }
