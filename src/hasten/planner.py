@@ -204,7 +204,7 @@ class Planner:
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
         clock, day = self.clock, self.network.finish_date
-        cautions = plan_cautions(self.project, self.network.timeline, changes)
+        cautions = plan_cautions(self.project, self.network.timeline, changes, sched)
         return Plan(self.project, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
                     sched, next_cost, clock.start_date(0), day(target), day(finish), day(self.normal_finish),
                     tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
