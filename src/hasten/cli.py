@@ -34,6 +34,9 @@ __all__ = ["app", "main"]
 app = typer.Typer(
     add_completion=False,
     no_args_is_help=True,
+    # plain help: typer's boxed (rich) help shows "<bool>" beside a flag such as --json, as
+    # if it took a value; the plain form shows flags as switches and values as <int>, <str>
+    rich_markup_mode=None,
     help="Least-cost schedule acceleration for construction projects: CPM, the time-cost "
          "curve, target plans, the best total-cost finish.",
 )
@@ -112,8 +115,8 @@ def _progress(enabled: bool):
 # -- commands ------------------------------------------------------------------------
 @app.command()
 def check(project: ProjectArg, as_json: JsonOpt = False) -> None:
-    """Validate a project and check the schedule's quality before optimising. Exit 0 when
-    the project is valid (failing measures are reported, not refused), 2 when not."""
+    """Validate a project and check its schedule's quality. Exit 0 when the project is
+    valid (failing measures are reported, not refused), 2 when not."""
     with _errors():
         from .network import Network
         from .quality import assess
@@ -360,7 +363,9 @@ def demo(
 
         planner = Planner(read_project(folder))
         _echo(f"Demo project written to {folder}/ (an invented job).")
-        _echo(render.schedule_text(planner.project, planner.normal).split("\n\n")[0])
+        sched = planner.normal
+        _echo(f"Current schedule: {sched.finish} working days, {sched.start_date.isoformat()} to "
+              f"{sched.finish_date.isoformat()} (every activity: hasten schedule {folder}).")
         target = planner.contract_target()
         if target is not None:
             _echo("")

@@ -43,6 +43,12 @@ def schedule_text(project: Project, sched: Schedule) -> str:
         tablefmt="simple", disable_numparse=True)
     lines = [f"{project.name}: {sched.finish} working days, "
              f"{_d(sched.start_date)} to {_d(sched.finish_date)}"]
+    if sched.deadline is not None:
+        late = min((r.total_float for r in sched.activities if r.state != "finished"), default=0)
+        lines.append(f"Deadline applied: {_d(sched.deadline_date)} ({sched.deadline} working days); the backward "
+                     "pass starts there, so total float counts against it"
+                     + (f" and is negative where the work is late (down to {late} working days)."
+                        if late < 0 else "."))
     if progress:
         lines.append(f"Data date {_d(project.data_date)}: finished work shows its actual dates; "
                      "started work its actual start and forecast finish.")
@@ -127,7 +133,7 @@ def curve_text(curve: Curve) -> str:
                      tablefmt="simple", disable_numparse=True)
     shortest = ("" if curve.shortest_finish is None
                 else f", shortest possible {curve.shortest_finish}")
-    return "\n".join([f"Least-cost curve for {curve.project.name} ({cur or 'money'}); "
+    return "\n".join([f"Least-cost curve for {curve.project.name}{f' ({cur})' if cur else ''}; "
                       f"normal finish {curve.normal_finish}{shortest} "
                       "working days" + ("; each point trades acceleration against milestone damages"
                                         if damages else ""), table])

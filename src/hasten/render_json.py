@@ -105,6 +105,7 @@ def schedule_json(project: Project, sched: Schedule) -> dict:
         "finish_date": iso(sched.finish_date),
         "data_date": iso(project.data_date),
         "deadline": sched.deadline,
+        "deadline_date": iso(sched.deadline_date),
         "critical_paths": [list(p) for p in sched.critical_paths],
         "critical_paths_truncated": sched.paths_truncated,
         "longest_paths": [list(p) for p in sched.longest_paths],
