@@ -7,6 +7,8 @@ from __future__ import annotations
 from datetime import date
 from typing import TYPE_CHECKING
 
+import numpy as np
+
 from .calendar import CalendarClock, Timeline
 from .cpm import Schedule
 from .progress import shown_days
@@ -45,12 +47,15 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int],
     A milestone is dated on one day (:func:`hasten.progress.shown_days`): a start
     milestone on the day it starts, another on the day its predecessors end, never before
     the first day it may happen."""
-    if milestones is None or states is None:  # every pair is work
-        first = clock.iso_dates(starts)
-        last = clock.iso_dates([max(f - 1 if f > s else s - 1, 0) for s, f in zip(starts, finishes)])
-        return first, last
-    days = [shown_days(st, m, s, f) for st, m, s, f in zip(states, milestones, starts, finishes)]
-    return clock.iso_dates([a for a, _ in days]), clock.iso_dates([b for _, b in days])
+    s = np.asarray(starts, dtype=np.int64)
+    f = np.asarray(finishes, dtype=np.int64)
+    first, last = s, np.maximum(np.where(f > s, f - 1, s - 1), 0)
+    ms = np.flatnonzero(np.asarray(milestones, dtype=bool)) if milestones is not None and states else ()
+    if len(ms):  # (as hasten.progress.shown_days, for the milestones only)
+        days = [shown_days(states[k], True, int(s[k]), int(f[k]))[0] for k in ms.tolist()]
+        first, last = first.copy(), last.copy()
+        first[ms] = last[ms] = days
+    return clock.iso_dates(first), clock.iso_dates(last)
 
 
 def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str, states=None):
