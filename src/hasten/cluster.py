@@ -78,7 +78,7 @@ def cluster_runner(*, workers: int | None = None, scheduler: str | None = None,
             client = distributed.Client(cluster)
         else:
             client = distributed.Client(scheduler, timeout=timeout)
-    except (OSError, TimeoutError) as exc:
+    except (OSError, TimeoutError, ValueError) as exc:
         if cluster is not None:
             cluster.close()
         where = f"the scheduler at {scheduler}" if scheduler else "a local cluster"
