@@ -22,6 +22,7 @@ from .errors import HastenError, InputError
 __all__ = ["cluster_runner", "simulate_on_cluster", "INSTALL_HINT"]
 
 INSTALL_HINT = 'pip install "hasten[cluster]"'
+_TRIM = "distributed.nanny.pre-spawn-environ.MALLOC_TRIM_THRESHOLD_"
 
 
 def _distributed():
@@ -70,11 +71,17 @@ def cluster_runner(*, workers: int | None = None, scheduler: str | None = None,
         raise InputError("the number of workers must be a whole number, 1 or more", column="workers",
                          value=workers, fix="e.g. --workers 2")
     distributed = _distributed()
+    import dask
+
     cluster = None
     try:
         if workers is not None:
-            cluster = distributed.LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
-                                               dashboard_address=None, silence_logs=logging.ERROR)
+            # Dask sets MALLOC_TRIM_THRESHOLD_ in its workers to hand memory back to the
+            # system at once; glibc then maps every large array afresh, and the page faults
+            # cost the simulation (whose arrays are large and short-lived) twice its time
+            with dask.config.set({_TRIM: None}):
+                cluster = distributed.LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
+                                                   dashboard_address=None, silence_logs=logging.ERROR)
             client = distributed.Client(cluster)
         else:
             client = distributed.Client(scheduler, timeout=timeout)
