@@ -82,12 +82,12 @@ def cluster(n: int, runs: int, workers: int) -> list[tuple[str, str, str]]:
     project = random_project(n, 1, max(n // 10, 5), 3)
     net = Network(project)
     ranges = duration_ranges(project, default=SPREAD)
-    here_s, here = timed(lambda: simulate(net, ranges, runs, seed=1, chunk=2_000))
+    here_s, here = timed(lambda: simulate(net, ranges, runs, seed=1))
     print(f"{runs:,} runs, {n:,} activities, in-process: {here_s:.2f} s")
     t = time.perf_counter()
     with cluster_runner(workers=workers) as runner:
         start = time.perf_counter() - t
-        there_s, there = timed(lambda: simulate(net, ranges, runs, seed=1, chunk=2_000, runner=runner))
+        there_s, there = timed(lambda: simulate(net, ranges, runs, seed=1, runner=runner))
     total = time.perf_counter() - t
     print(f"{runs:,} runs, {n:,} activities, {workers}-worker local Dask cluster: {there_s:.2f} s "
           f"(+ {start:.2f} s to start the cluster; {total:.2f} s with start and close); "

@@ -289,7 +289,7 @@ def _mid_ranks(counts: np.ndarray) -> np.ndarray:
 
 
 def simulate(network: Network | Project, ranges: Ranges, runs: int, seed: int | None = None, *,
-             target: int | date | None = None, chunk: int = 1000,
+             target: int | date | None = None, chunk: int = 500,
              progress: Callable[[int, int], None] | None = None, runner: Runner | None = None,
              drivers: int = 10) -> RiskResult:
     """Simulate ``runs`` schedules with durations drawn from ``ranges``.
