@@ -43,7 +43,16 @@ class DaskRunner:
     def __call__(self, fn: Callable, model, tasks: list) -> Iterator[tuple[int, dict]]:
         distributed = _distributed()
         shared = self.client.scatter(model, broadcast=True, hash=False)
-        futures = [self.client.submit(fn, shared, *task, pure=False) for task in tasks]
+        sent: dict[int, object] = {}
+
+        def once(arg):  # an array shared by every task is sent to each worker once
+            if getattr(arg, "nbytes", 0) > 65_536:
+                if id(arg) not in sent:
+                    sent[id(arg)] = self.client.scatter(arg, broadcast=True, hash=False)
+                return sent[id(arg)]
+            return arg
+
+        futures = [self.client.submit(fn, shared, *map(once, task), pure=False) for task in tasks]
         where = {f.key: k for k, f in enumerate(futures)}
         try:
             for future in distributed.as_completed(futures):
