@@ -72,6 +72,13 @@ def local(n: int, runs: int, repeat: int) -> list[tuple[str, str, str]]:
     return rows
 
 
+def _cpu() -> float:
+    """CPU seconds (user + system) of the calling process so far."""
+    import resource
+    r = resource.getrusage(resource.RUSAGE_SELF)
+    return r.ru_utime + r.ru_stime
+
+
 def cluster(n: int, runs: int, workers: int) -> list[tuple[str, str, str]]:
     try:
         from hasten.cluster import cluster_runner
@@ -82,20 +89,29 @@ def cluster(n: int, runs: int, workers: int) -> list[tuple[str, str, str]]:
     project = random_project(n, 1, max(n // 10, 5), 3)
     net = Network(project)
     ranges = duration_ranges(project, default=SPREAD)
+    cpu = _cpu()
     here_s, here = timed(lambda: simulate(net, ranges, runs, seed=1))
-    print(f"{runs:,} runs, {n:,} activities, in-process: {here_s:.2f} s")
+    here_cpu = _cpu() - cpu
+    print(f"{runs:,} runs, {n:,} activities, in-process: {here_s:.2f} s ({here_cpu:.1f} CPU s)")
     t = time.perf_counter()
     with cluster_runner(workers=workers) as runner:
         start = time.perf_counter() - t
+        before, cpu = runner.client.run(_cpu), _cpu()
         there_s, there = timed(lambda: simulate(net, ranges, runs, seed=1, runner=runner))
+        after, main_cpu = runner.client.run(_cpu), _cpu() - cpu
     total = time.perf_counter() - t
+    worker_cpu = sum(after[w] - before[w] for w in before)
     print(f"{runs:,} runs, {n:,} activities, {workers}-worker local Dask cluster: {there_s:.2f} s "
-          f"(+ {start:.2f} s to start the cluster; {total:.2f} s with start and close); "
-          f"speed-up {here_s / there_s:.2f}x ({here_s / total:.2f}x counting the start); "
-          f"same figures: {here == there}")
+          f"({worker_cpu:.1f} CPU s in the workers, {main_cpu:.1f} in this process; + {start:.2f} s to "
+          f"start the cluster, {total:.2f} s with start and close); speed-up {here_s / there_s:.2f}x "
+          f"({here_s / total:.2f}x counting the start); same figures: {here == there}")
+    print(f"(CPU s per wall s: in-process {here_cpu / here_s:.2f}, cluster {(worker_cpu + main_cpu) / there_s:.2f}: "
+          f"on a shared machine the kernel shares the cores between sessions, so the workers get no "
+          f"more than this session's share)")
     return [(f"{runs:,} runs in-process", f"{here_s:.2f} s", ""),
             (f"{runs:,} runs on {workers} Dask workers", f"{there_s:.2f} s", ""),
             ("speed-up (start-up excluded)", f"{here_s / there_s:.2f}x", ""),
+            ("CPU s: in-process / cluster", f"{here_cpu:.0f} / {worker_cpu + main_cpu:.0f}", ""),
             ("same figures as in-process", str(here == there), "True")]
 
 

@@ -88,7 +88,8 @@ def cluster_runner(*, workers: int | None = None, scheduler: str | None = None,
             # Dask sets MALLOC_TRIM_THRESHOLD_ in its workers to hand memory back to the
             # system at once; glibc then maps every large array afresh, and the page faults
             # cost the simulation (whose arrays are large and short-lived) twice its time
-            with dask.config.set({_TRIM: None}):
+            # (and the statistical profiler would sample every worker's stack 100 times a second)
+            with dask.config.set({_TRIM: None, "distributed.worker.profile.enabled": False}):
                 cluster = distributed.LocalCluster(n_workers=workers, threads_per_worker=1, processes=True,
                                                    dashboard_address=None, silence_logs=logging.ERROR)
             client = distributed.Client(cluster)
