@@ -350,12 +350,14 @@ def _sensitivity(model: RiskModel, run: Runner, tasks: list, finish: np.ndarray,
     starts = np.cumsum([0] + [min(t[2] * BLOCK, runs) - t[1] * BLOCK for t in tasks])
     rank_tasks = [t + (finish[starts[k]:starts[k + 1]], finish_rank, low, duration_rank)
                   for k, t in enumerate(tasks)]
-    cross = sum(part for _, part in sorted(run(rank_chunk, model, rank_tasks), key=lambda kv: kv[0]))
-    # Pearson's r of the mid-ranks; every sum below is of twice the ranks (whole numbers)
-    mean2 = runs + 1  # twice the mean rank
-    var_x = (counts * duration_rank.astype(float) ** 2).sum(axis=1) / runs - mean2 ** 2
-    var_f = float((finish_counts * finish_rank.astype(float) ** 2).sum()) / runs - mean2 ** 2
-    cov = cross.astype(float) / runs - mean2 ** 2
+    parts = [part.tolist() for _, part in sorted(run(rank_chunk, model, rank_tasks), key=lambda kv: kv[0])]
+    # Pearson's r of the mid-ranks, in whole numbers (Python's: no overflow) until the last
+    # division: with R = 2 x rank, N cov = sum Rx Rf - N (N + 1)^2, N var = sum R^2 - N (N + 1)^2
+    centre = runs * (runs + 1) ** 2
+    cov = np.array([sum(col) - centre for col in zip(*parts)], dtype=float)
+    var_x = np.array([sum(c * r * r for c, r in zip(cs, rs)) - centre
+                      for cs, rs in zip(counts.tolist(), duration_rank.tolist())], dtype=float)
+    var_f = float(sum(c * r * r for c, r in zip(finish_counts.tolist(), finish_rank.tolist())) - centre)
     with np.errstate(divide="ignore", invalid="ignore"):
         rho = cov / np.sqrt(var_x * var_f)
     return np.where((var_x > 0) & (var_f > 0), rho, 0.0)
