@@ -101,3 +101,15 @@ def test_two_local_workers_give_the_in_process_figures():
                                 progress=lambda done, total: seen.append((done, total)))
     assert there == here
     assert len(seen) == 5 and seen[-1] == (1_500, 1_500)
+
+
+def test_a_running_scheduler_gives_the_in_process_figures():
+    distributed = pytest.importorskip("dask.distributed")
+    from hasten.cluster import simulate_on_cluster
+    project = _project()
+    ranges = duration_ranges(project, default="-20%, +50%", distribution="triangular")
+    here = simulate(project, ranges, 700, seed=3)
+    with distributed.LocalCluster(n_workers=1, threads_per_worker=2, processes=False,
+                                  dashboard_address=None) as running:
+        there = simulate_on_cluster(project, ranges, 700, 3, scheduler=running.scheduler_address, chunk=200)
+    assert there == here
