@@ -113,3 +113,16 @@ def test_a_running_scheduler_gives_the_in_process_figures():
                                   dashboard_address=None) as running:
         there = simulate_on_cluster(project, ranges, 700, 3, scheduler=running.scheduler_address, chunk=200)
     assert there == here
+
+
+def _needs_a_missing_module(model, *task):
+    import hasten_not_installed_anywhere  # noqa: F401  (as on a worker without hasten)
+
+
+def test_a_worker_that_cannot_import_says_so():
+    distributed = pytest.importorskip("dask.distributed")
+    from hasten.cluster import DaskRunner
+    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False,
+                                  dashboard_address=None) as running, distributed.Client(running) as client:
+        with pytest.raises(HastenError, match="install the same hasten on every worker"):
+            list(DaskRunner(client)(_needs_a_missing_module, None, [(1, 0, 1)]))

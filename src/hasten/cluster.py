@@ -19,7 +19,7 @@ from typing import Callable, Iterator
 
 from .errors import HastenError, InputError
 
-__all__ = ["cluster_runner", "simulate_on_cluster", "INSTALL_HINT"]
+__all__ = ["DaskRunner", "cluster_runner", "simulate_on_cluster", "INSTALL_HINT"]
 
 INSTALL_HINT = 'pip install "hasten[cluster]"'
 _TRIM = "distributed.nanny.pre-spawn-environ.MALLOC_TRIM_THRESHOLD_"
@@ -56,7 +56,14 @@ class DaskRunner:
         where = {f.key: k for k, f in enumerate(futures)}
         try:
             for future in distributed.as_completed(futures):
-                yield where[future.key], future.result()
+                try:
+                    result = future.result()
+                except ImportError as exc:  # e.g. a worker of a running cluster without hasten
+                    raise HastenError(f"a worker of the cluster cannot run hasten's simulation ({exc}); "
+                                      f"install the same hasten on every worker") from None
+                except distributed.KilledWorker as exc:
+                    raise HastenError(f"the cluster lost its workers while simulating ({exc})") from None
+                yield where[future.key], result
         finally:
             for future in futures:
                 future.cancel()
