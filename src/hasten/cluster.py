@@ -7,6 +7,7 @@ once. Since each block of runs has its own random stream, a cluster gives the sa
 as one process for the same seed.
 
 >>> from hasten.cluster import cluster_runner                       # doctest: +SKIP
+>>> from hasten.simulation import simulate                          # doctest: +SKIP
 >>> with cluster_runner(workers=2) as runner:                       # doctest: +SKIP
 ...     result = simulate(project, ranges, 100_000, seed=1, runner=runner)
 """
