@@ -31,7 +31,8 @@ from scipy import stats
 
 from conftest import PROPERTY, START, make_project, own_forward, projects
 from hasten.errors import HastenError, InputError
-from hasten.network import Network, schedule
+from hasten.cpm import schedule
+from hasten.network import Network
 from hasten.project import Activity, Calendar, Contract, Link, LinkType, Project
 from hasten.simulation import BLOCK, RiskModel, run_chunk, simulate
 from hasten.uncertainty import duration_ranges
