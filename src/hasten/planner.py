@@ -314,9 +314,36 @@ class Planner:
         return BestFinish(point, current, table, plan, self.notes)
 
     def earliest_within(self, budget: float) -> Plan:
-        """The earliest finish whose least added cost is within ``budget``, and its plan."""
+        """The earliest finish whose least added cost is within ``budget``, and its plan.
+
+        With linear costs on one calendar the least added cost is convex and never rises as
+        the finish grows, so the earliest finish within a budget is found by a few solves:
+        days doubled back from the current finish until the cost passes the budget, then
+        bisection (each solve warm, on the part of the network that can matter). Otherwise
+        (discrete options, calendars of their own, milestone deadlines: no convexity) one
+        solve asks for the earliest finish with the cost capped at the budget.
+        """
         if not math.isfinite(budget) or budget < 0:
             raise HastenError(f"a budget of {budget:g} cannot be spent; give the most you would add, "
                               "a number 0 or more")
-        target = self.model.earliest_finish_within(budget)  # never before the shortest finish
-        return self.plan(min(target, self.normal_finish))
+        if not self._partial_ok:
+            target = self.model.earliest_finish_within(budget)  # never before the shortest finish
+            return self.plan(min(target, self.normal_finish))
+        within = budget + 1e-9 * max(1.0, abs(budget))
+
+        def affordable(target: int) -> bool:
+            if target < 0:
+                return False
+            try:
+                return self._solve(target, tie_break=False).added_cost <= within
+            except InfeasibleTargetError:
+                return False
+
+        good, step = self.normal_finish, 1  # the current finish costs nothing
+        while affordable(self.normal_finish - step):
+            good, step = self.normal_finish - step, 2 * step
+        bad = self.normal_finish - step
+        while good - bad > 1:
+            mid = (good + bad) // 2
+            good, bad = (mid, bad) if affordable(mid) else (good, mid)
+        return self.plan(good)
