@@ -13,7 +13,7 @@ CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions"]
-EDGES = ["__init__", "__main__", "cli", "render", "render_json", "charts"]  # and formats/
+EDGES = ["__init__", "__main__", "cli", "render", "render_json", "render_fit", "charts"]  # and formats/
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 

@@ -16,8 +16,9 @@ if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
     from .results import BestFinish, Curve, CurvePoint, Plan
 
 __all__ = [
-    "money_value", "iso", "schedule_rows", "schedule_json", "plan_json", "curve_rows", "curve_json",
-    "best_json", "recovery_json", "instructions", "money",
+    "money_value", "iso", "schedule_rows", "schedule_json", "revised_rows", "plan_json", "point_plan",
+    "point_changes", "curve_rows", "curve_json", "total_cost_row", "best_json", "recovery_json",
+    "revised_course_rows", "instructions", "money", "option_note", "days",
 ]
 
 
@@ -101,7 +102,40 @@ def schedule_json(project: Project, sched: Schedule) -> dict:
     }
 
 
+def days(n: int) -> str:
+    """``1`` -> ``'1 day'``, ``3`` -> ``'3 days'``."""
+    return f"{n} day" if abs(n) == 1 else f"{n} days"
+
+
+def option_note(project: Project, activity_id: str, option: str) -> str:
+    """The note options.csv gives an activity's option ("" when none)."""
+    if not option:
+        return ""
+    try:
+        act = project.activity(activity_id)
+    except KeyError:
+        return ""
+    return next((o.note for o in act.options if o.name == option), "")
+
+
 # -- plans ---------------------------------------------------------------------------
+def revised_rows(plan: Plan) -> list[dict]:
+    """The schedule after acceleration: the rows of ``schedule --json`` with the plan's
+    durations, each with its ``normal`` duration, ``shortened_by``, ``option`` (and its note),
+    ``added_cost`` and the first and last day worked before (``early_start_before``,
+    ``early_finish_before``)."""
+    rows = schedule_rows(plan.project, plan.schedule)
+    before = {r["id"]: r for r in schedule_rows(plan.project, plan.before)} if plan.before is not None else {}
+    changes = {a.id: a for a in plan.activities}
+    for r in rows:
+        a = changes[r["id"]]
+        b = before.get(r["id"], {})
+        r.update({"normal": a.normal, "shortened_by": a.shortened_by, "option": a.option or None,
+                  "option_note": a.option_note or None, "added_cost": money_value(a.added_cost),
+                  "early_start_before": b.get("early_start"), "early_finish_before": b.get("early_finish")})
+    return rows
+
+
 def plan_json(plan: Plan) -> dict:
     project = plan.project
     return {
@@ -130,32 +164,63 @@ def plan_json(plan: Plan) -> dict:
         "critical_paths": [list(p) for p in plan.schedule.critical_paths],
         "cautions": list(plan.cautions),
         "notes": list(plan.notes),
+        "schedule": revised_rows(plan),
     }
 
 
 # -- the curve -----------------------------------------------------------------------
+def point_plan(p: CurvePoint) -> str:
+    """The plan at a curve point: ``A030 1, A310 2, A120 4 by 'second crew'``."""
+    return ", ".join(f"{i} {d}" + (f" by '{way}'" if way else "") for i, d, way in p.plan) or "none"
+
+
 def point_changes(p: CurvePoint) -> str:
-    """The day-to-day changes of a curve point in words."""
-    text = [f"{i} {d:+d}" for i, d in p.changes]
-    text += [f"{i} now {way or 'normal'}" for i, way in p.switches]
-    return ", ".join(text) + ("" if p.proven else f" [not proven, gap {100 * (p.gap or 0):.1f}%]")
+    """The change from the point one day later, in words a scheduler can act on:
+    ``A410 one day more shortened``, ``A100 back to normal``, ``A120 now by 'second crew'``."""
+    now = {i: (d, way) for i, d, way in p.plan}
+    switched = dict(p.switches)
+    text = []
+    for i, delta in p.changes:
+        if i in switched:
+            continue
+        d, way = now.get(i, (0, ""))
+        if delta < 0:
+            more = -delta
+            text.append(f"{i} shortened {days(d)}" if d == more and not way
+                        else f"{i} {'one day' if more == 1 else days(more)} more shortened")
+        elif d == 0 and not way:
+            text.append(f"{i} back to normal")
+        else:
+            text.append(f"{i} {'one day' if delta == 1 else days(delta)} less shortened")
+    for i, way in p.switches:
+        d, _ = now.get(i, (0, ""))
+        if way:
+            text.append(f"{i} now by '{way}'" + (f", shortened {days(d)}" if d else ""))
+        else:
+            text.append(f"{i} back to the normal way" + (f", shortened {days(d)}" if d else ""))
+    return "; ".join(text) + ("" if p.proven else f" [not proven, gap {100 * (p.gap or 0):.1f}%]")
 
 
 def curve_rows(curve: Curve) -> list[dict]:
     return [{"finish": p.finish, "finish_date": iso(p.finish_date),
              "added_cost": money_value(p.added_cost), "milestone_damages": money_value(p.milestone_damages),
-             "day_cost": money_value(p.day_cost), "changes": point_changes(p)} for p in curve]
+             "day_cost": money_value(p.day_cost), "changes": point_changes(p), "plan": point_plan(p)}
+            for p in curve]
 
 
 def curve_json(curve: Curve) -> dict:
+    project = curve.project
     return {"normal_finish": curve.normal_finish, "shortest_finish": curve.shortest_finish,
             "points": [{"finish": p.finish, "finish_date": iso(p.finish_date),
                         "added_cost": money_value(p.added_cost),
                         "milestone_damages": money_value(p.milestone_damages),
                         "day_cost": money_value(p.day_cost),
-                        "plan": [{"id": i, "shortened_by": d, "option": way or None} for i, d, way in p.plan],
+                        "plan": [{"id": i, "shortened_by": d, "option": way or None,
+                                  "option_note": option_note(project, i, way) or None}
+                                 for i, d, way in p.plan],
                         "changes": [{"id": i, "days": d} for i, d in p.changes],
                         "switches": [{"id": i, "option": way or None} for i, way in p.switches],
+                        "change": point_changes(p),
                         "proven_optimal": p.proven, "gap": p.gap} for p in curve],
             "notes": list(curve.notes)}
 
@@ -195,11 +260,19 @@ def instructions(plan: Plan | None) -> list[str]:
         else:
             how = f"lengthen by {-a.shortened_by} working days"
         verb, rest = how.split(" ", 1)
-        out.append(f"{a.trade or '(no trade)'}: {verb} {what} {rest} at {money(a.added_cost, currency)}")
+        note = f" (option note: {a.option_note})" if a.option and a.option_note else ""
+        out.append(f"{a.trade or '(no trade)'}: {verb} {what} {rest} at {money(a.added_cost, currency)}{note}")
     return out
 
 
+def revised_course_rows(rec: Recovery) -> list[dict]:
+    """The revised schedule of every course that has a plan, one table with a ``course`` column."""
+    return [{"course": c.label, **r} for c in rec.courses if c.plan is not None for r in revised_rows(c.plan)]
+
+
 def recovery_json(rec: Recovery) -> dict:
+    direct = rec.project.normal_direct_cost
+
     def course(c):
         out = {"course": c.label, "possible": c.possible, "note": c.note}
         if c.possible:
@@ -211,7 +284,10 @@ def recovery_json(rec: Recovery) -> dict:
                         "damages_avoided": money_value(c.damages_avoided),
                         "indirect_saved": money_value(c.indirect_saved),
                         "bonus_gained": money_value(c.bonus_gained), "net_effect": money_value(c.net_effect),
-                        "total_cost": money_value(c.total_cost),
+                        # the same sum as best's total_cost: direct (normal + added) + indirect
+                        # + damages - bonus
+                        "direct_cost": money_value(direct + c.added_cost),
+                        "total_cost": money_value(direct + c.total_cost),
                         "instructions": instructions(c.plan),
                         "plan": None if c.plan is None else plan_json(c.plan)})
         return out

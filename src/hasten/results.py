@@ -77,6 +77,7 @@ class Plan:
     bound: float | None = None  # proven lower bound on the added cost, when not proven
     gap: float | None = None  # relative gap between the plan and the bound, when not proven
     milestone_damages: float = 0.0
+    before: Schedule | None = None  # the schedule at normal durations (with progress), for old dates
 
     @property
     def normal_direct_cost(self) -> float:
