@@ -12,6 +12,7 @@ SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
 CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes", "cpm",
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
+        "accelerated", "price",
         "questions"]
 EDGES = ["__init__", "__main__", "cli", "render", "render_json", "render_fit", "charts"]  # and formats/
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}

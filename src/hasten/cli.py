@@ -41,6 +41,10 @@ app = typer.Typer(
 ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook or .json file.")]
 JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
 LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds each mixed-integer solve may use.")]
+WideOpt = Annotated[bool, typer.Option("--wide", help="Show long names whole (tables may pass 100 columns).")]
+OutOpt = Annotated[Optional[Path], typer.Option("--out", help="Also write the revised schedule to FILE.csv or FILE.xlsx.")]
+SaveOpt = Annotated[Optional[Path], typer.Option("--save-as", help="Also write the accelerated project to a new folder, .xlsx or .json.")]
+PlotOpt = Annotated[Optional[Path], typer.Option("--plot", help="Also draw the schedule before and after to FILE.png, .svg or .pdf.")]
 
 
 def _echo(text: str) -> None:
@@ -126,30 +130,56 @@ def schedule(
     as_json: JsonOpt = False,
     out: Annotated[Optional[Path], typer.Option("--out", help="Also write the table to FILE.csv or FILE.xlsx.")] = None,
     deadline: Annotated[Optional[str], typer.Option("--deadline", help="Backward pass from this date (YYYY-MM-DD) instead of the early finish; float may go negative.")] = None,
+    wide: WideOpt = False,
 ) -> None:
     """Forward and backward pass: dates, floats, critical paths."""
     with _errors():
         p = read_project(project)
         sched = cpm(p, deadline=None if deadline is None else _date(deadline, "--deadline"))
         if out is not None:
-            _write_table(out, render_json.schedule_rows(p, sched))
-        _emit(as_json, lambda: render_json.schedule_json(p, sched), lambda: render.schedule_text(p, sched))
+            from .report_files import write_table
+
+            write_table(out, render_json.SCHEDULE_COLUMNS, render_json.schedule_rows(p, sched),
+                        sheet_name="schedule", date_columns=render_json.DATE_COLUMNS)
+        _emit(as_json, lambda: render_json.schedule_json(p, sched),
+              lambda: render.schedule_text(p, sched, wide=wide))
 
 
-def _write_table(out: Path, rows: list[dict]) -> None:
-    import pandas as pd
+def _outputs_first(out: Path | None = None, save_as: Path | None = None, plot: Path | None = None) -> None:
+    """Refuse output names that cannot be written before any solving starts."""
+    from .charts import chart_format
+    from .report_files import table_suffix
 
-    frame = pd.DataFrame(rows)
-    if "driving" in frame:
-        frame["driving"] = frame["driving"].map(lambda v: ";".join(v))
-    suffix = out.suffix.lower()
-    if suffix == ".csv":
-        write_file(out.resolve(), lambda tmp: frame.to_csv(tmp, index=False, encoding="utf-8"))
-    elif suffix == ".xlsx":
-        write_file(out.resolve(), lambda tmp: frame.to_excel(tmp, index=False, engine="openpyxl"))
-    else:
-        raise InputError(f"cannot write a table to {out.name!r}", column="--out", value=str(out),
-                         fix="name the output FILE.csv or FILE.xlsx")
+    if out is not None:
+        table_suffix(out)
+    if plot is not None:
+        chart_format(plot)
+    if save_as is not None:
+        if save_as.suffix.lower() not in ("", ".xlsx", ".json"):
+            raise InputError("cannot save a project in this form", column="--save-as", value=str(save_as),
+                             fix="give a new folder, a FILE.xlsx or a FILE.json")
+        if save_as.exists() and (save_as.is_file() or any(save_as.iterdir())):
+            raise InputError("already exists; nothing is overwritten", column="--save-as", value=str(save_as),
+                             fix="give a new path (or an empty folder)")
+
+
+def _write_outputs(plan, *, out: Path | None = None, save_as: Path | None = None,
+                   plot: Path | None = None, original=None) -> None:
+    """The files a plan command was asked for: the revised schedule, the accelerated project,
+    the chart of the schedule before and after."""
+    if out is not None:
+        from .report_files import write_table
+
+        write_table(out, render_json.REVISED_COLUMNS, render_json.revised_rows(plan), sheet_name="revised schedule", date_columns=render_json.DATE_COLUMNS,
+                    money_columns=("added_cost",), currency=plan.project.currency)
+    if save_as is not None:
+        from .accelerated import accelerated
+
+        write_project(accelerated(original if original is not None else plan.project, plan), save_as)
+    if plot is not None:
+        from .charts import schedule_chart
+
+        write_file(plot.resolve(), lambda tmp: schedule_chart(plan, tmp))
 
 
 _EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
@@ -186,14 +216,22 @@ def plan(
     earlier: Annotated[Optional[str], typer.Option("--earlier", help="Finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
         from .questions import plan as least_cost_plan
 
         target = _target(finish, by, earlier)
-        result = least_cost_plan(read_project(project), target, time_limit=time_limit)
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result), result.notes)
+        _outputs_first(out, save_as, plot)
+        p = read_project(project)
+        result = least_cost_plan(p, target, time_limit=time_limit)
+        _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
+        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result, wide=wide),
+              result.notes)
 
 
 @app.command()
@@ -203,36 +241,51 @@ def curve(
     shortest: Annotated[Optional[int], typer.Option("--to", help="Shortest finish to trace to (default: the shortest possible).")] = None,
     as_json: JsonOpt = False,
     csv: Annotated[Optional[Path], typer.Option("--csv", help="Also write the points to FILE.csv.")] = None,
-    plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the curve to FILE.png.")] = None,
+    plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish to FILE.png, .svg or .pdf.")] = None,
     time_limit: LimitOpt = None,
+    wide: WideOpt = False,
 ) -> None:
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
         from .questions import curve as least_cost_curve
 
+        _outputs_first(plot=plot)
         p = read_project(project)
         with _progress(not as_json) as tick:
             result = least_cost_curve(p, longest, shortest, time_limit=time_limit, progress=tick)
         if csv is not None:
-            _write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv,
-                         render_json.curve_rows(result))
+            from .report_files import write_table
+
+            rows = render_json.curve_rows(result)
+            write_table(csv.with_suffix(".csv") if csv.suffix.lower() != ".csv" else csv, list(rows[0]), rows)
         if plot is not None:
             from .charts import curve_chart
 
             write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
-        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result), result.notes)
+        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result, wide=wide),
+              result.notes)
 
 
 @app.command()
-def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None, wide: WideOpt = False,
+         out: OutOpt = None, save_as: SaveOpt = None,
+         plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish, the best one marked, to FILE.png, .svg or .pdf.")] = None,
+         ) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         from .questions import best_finish
 
+        _outputs_first(out, save_as, plot)
         p = read_project(project)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result), result.notes)
+        _write_outputs(result.plan, out=out, save_as=save_as, original=p)
+        if plot is not None:
+            from .charts import curve_chart
+
+            write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
+        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result, wide=wide),
+              result.notes)
 
 
 @app.command()
@@ -241,31 +294,86 @@ def budget(
     spend: Annotated[float, typer.Option("--spend", help="Most added direct cost you will spend.")],
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
         from .questions import earliest_within
 
+        _outputs_first(out, save_as, plot)
         p = read_project(project)
         if not math.isfinite(spend) or spend < 0:
             raise InputError("--spend must be a number 0 or more", value=spend,
                              fix="give the most you would add to the direct cost, e.g. --spend 50000")
         result = earliest_within(p, spend, time_limit=time_limit)
+        _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
         title = f"Earliest finish within {render.money(spend, p.currency)}"
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result, title=title),
-              result.notes)
+        _emit(as_json, lambda: render_json.plan_json(result),
+              lambda: render.plan_text(result, title=title, wide=wide), result.notes)
 
 
 @app.command()
-def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+def recover(
+    project: ProjectArg,
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: Annotated[Optional[Path], typer.Option("--out", help="Also write the revised schedule of each course to FILE.csv or FILE.xlsx.")] = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
+    course: Annotated[str, typer.Option("--course", help="The course --save-as and --plot use: 'least' (least total cost) or 'full' (recover fully).")] = "least",
+) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
         from .questions import recover as recovery
 
+        if course not in ("least", "full"):
+            raise InputError("--course is not understood", value=course,
+                             fix="write --course least (least total cost) or --course full (recover fully)")
+        _outputs_first(out, save_as, plot)
         p = read_project(project)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
+        label = "least total cost" if course == "least" else "recover fully"
+        chosen = next((c.plan for c in result.courses if c.label == label), None)
+        if chosen is None and (save_as is not None or plot is not None):
+            raise HastenError(f"the course '{label}' has no plan to save or draw; try the other --course")
+        if out is not None:
+            from .report_files import write_table
+
+            write_table(out, ("course",) + render_json.REVISED_COLUMNS, render_json.revised_course_rows(result),
+                        sheet_name="revised schedules", date_columns=render_json.DATE_COLUMNS,
+                        money_columns=("added_cost",), currency=p.currency)
+        if chosen is not None:
+            _write_outputs(chosen, save_as=save_as, plot=plot, original=p)
+        _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result, wide=wide),
+              result.notes)
+
+
+@app.command()
+def price(
+    project: ProjectArg,
+    proposal: Annotated[Path, typer.Option("--proposal", help="The proposal: a CSV with columns id, shortened_by (working days) or option, and cost (optional).")],
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: Annotated[Optional[Path], typer.Option("--save-as", help="Also write the project with the proposal applied to a new folder, .xlsx or .json.")] = None,
+    plot: PlotOpt = None,
+) -> None:
+    """Price a proposal: the finish it achieves, its cost, the least cost for that finish,
+    the lines that buy no time, its leanest part and the cheaper activities it missed."""
+    with _errors():
+        from .questions import price as price_proposal
+
+        _outputs_first(out, save_as, plot)
+        p = read_project(project)
+        result = price_proposal(p, proposal, time_limit=time_limit)
+        _write_outputs(result.plan, out=out, save_as=save_as, plot=plot, original=p)
+        _emit(as_json, lambda: render_json.price_json(result), lambda: render.price_text(result, wide=wide),
               result.notes)
 
 

@@ -28,12 +28,16 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 
+import os
+from typing import Sequence
+
 from .planner import Planner, Progress
+from .price import PricedProposal, ProposalLine, price_proposal, read_proposal
 from .project import Project
 from .recovery import Recovery, recovery
 from .results import BestFinish, Curve, Plan
 
-__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "target_offset"]
+__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "price", "target_offset"]
 
 
 @dataclass(frozen=True)
@@ -104,3 +108,30 @@ def recover(project: Project, *, time_limit: float | None = None,
             progress: Progress | None = None) -> Recovery:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     return recovery(Planner(project, time_limit=time_limit), progress=progress)
+
+
+def price(project: Project, proposal: str | os.PathLike[str] | Sequence[ProposalLine], *,
+          time_limit: float | None = None) -> PricedProposal:
+    """Price a proposal: what it buys, what it costs, what the least-cost plan for the same
+    finish costs, the lines that buy nothing and the leanest part of it
+    (:mod:`hasten.price`).
+
+    Parameters
+    ----------
+    project : Project
+    proposal : path or sequence of ProposalLine
+        A CSV file with columns ``id``, ``shortened_by`` and/or ``option``, and optionally
+        ``cost``; or the lines themselves.
+
+    Examples
+    --------
+    >>> import hasten
+    >>> from hasten.questions import price
+    >>> from hasten.price import ProposalLine
+    >>> priced = price(hasten.read_project("cases/riverside-culvert"), [ProposalLine("A310", 2)])
+    >>> priced.excess >= 0 and priced.finish == priced.least_cost_plan.finish
+    True
+    """
+    if isinstance(proposal, (str, os.PathLike)):
+        return price_proposal(project, read_proposal(proposal), str(proposal), time_limit=time_limit)
+    return price_proposal(project, list(proposal), time_limit=time_limit)

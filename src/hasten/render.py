@@ -19,11 +19,12 @@ from .render_json import (days, instructions, money, option_note, point_changes,
                           revised_rows, schedule_rows)
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
+    from .price import PricedProposal
     from .recovery import Recovery
     from .results import BestFinish, Curve, Plan
 
 __all__ = ["money", "schedule_text", "plan_text", "revised_text", "curve_text", "best_text",
-           "recovery_text", "para", "bullets", "way_text"]
+           "recovery_text", "price_text", "para", "bullets", "way_text"]
 
 
 def _d(day: date) -> str:
@@ -282,3 +283,61 @@ def recovery_text(rec: Recovery, *, wide: bool = False) -> str:
     if cautions:
         lines += ["", "Cautions:"] + bullets(cautions, wide)
     return "\n".join(lines)
+
+
+# -- a proposal priced ---------------------------------------------------------------
+def price_text(priced: PricedProposal, *, wide: bool = False) -> str:
+    plan = priced.plan
+    project = priced.project
+    cur = project.currency
+    finish = priced.finish
+    gained = plan.normal_finish - finish
+    lines = [para(f"Proposal priced for {project.name}" + (f": {priced.source}" if priced.source else ""), wide),
+             _finish_line("Current finish", plan.normal_finish, plan.normal_finish_date),
+             _finish_line("Finish with the proposal", finish, priced.finish_date)
+             + (f", {days(gained)} earlier" if gained > 0 else f", {days(-gained)} later" if gained < 0
+                else ", no earlier")]
+    asked = "" if priced.asked_cost is None else f"; asked {money(priced.asked_cost, cur)}"
+    lines += [f"Proposal cost by the project's crash costs: {money(priced.proposal_cost, cur)}{asked}",
+              f"Least-cost plan for the same finish: {money(priced.least_cost, cur)}",
+              para(f"Money wasted: {money(priced.excess, cur)} (the proposal's cost less the least "
+                   "cost for the same finish" + (", milestone damages included" if plan.milestone_damages
+                                                  or priced.least_cost_plan.milestone_damages else "") + ")"
+                   + ("" if priced.asked_excess is None else
+                      f"; against what is asked: {money(priced.asked_excess, cur)}"), wide)]
+    with_asked = priced.asked_cost is not None
+    ways = any(x.option for x in priced.lines)
+    rows = [[x.id, x.name] + ([way_text(x.option, x.option_note)] if ways else []) + [x.shortened_by,
+                                                                                      money(x.added_cost)]
+            + ([money(x.asked_cost)] if with_asked else []) + [_buys(x.buys(finish))] for x in priced.lines]
+    lines += ["", "The lines of the proposal:",
+              table(rows, ["id", "name"] + (["way"] if ways else []) + ["shortened\nby", "added\ncost"]
+                    + (["asked"] if with_asked else []) + ["days it\nbuys"], shorten=[1, 2] if ways else [1],
+                    wide=wide),
+              para("(days it buys: how much later the job finishes with that line alone taken out)", wide)]
+    if priced.no_effect:
+        lines += ["", para("Lines that buy no time (taking any one of them out alone leaves the finish "
+                           f"at {finish} or earlier): " + ", ".join(priced.no_effect), wide)]
+    lean = priced.leanest
+    lines += ["", para(f"Leanest part of the proposal (only its lines, up to its amounts, same finish): "
+                       f"{money(lean.added_cost, cur)}", wide)]
+    if lean.changed:
+        lines.append(changes_table(lean, wide))
+    if priced.missed:
+        lines += ["", "Activities the least-cost plan shortens that the proposal missed:",
+                  table([[m.id, m.name, m.trade, m.proposed, m.shortened_by, money(m.added_cost)]
+                         for m in priced.missed],
+                        ["id", "name", "trade", "proposed", "least-cost\nplan", "added\ncost"], shorten=[1, 2],
+                        wide=wide)]
+    least = priced.least_cost_plan
+    lines += ["", f"Least-cost plan for a finish of {finish} working days: {money(least.added_cost, cur)}"]
+    if least.changed:
+        lines.append(changes_table(least, wide))
+    lines += ["", revised_text(plan, wide=wide)]
+    if plan.cautions:
+        lines += ["", "Cautions:"] + bullets(plan.cautions, wide)
+    return "\n".join(lines)
+
+
+def _buys(n: int) -> str:
+    return str(n) if n > 0 else "none" if n == 0 else f"{n} (later with it)"

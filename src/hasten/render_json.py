@@ -13,12 +13,13 @@ from .project import Project
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
     from .recovery import Recovery
+    from .price import PricedProposal
     from .results import BestFinish, Curve, CurvePoint, Plan
 
 __all__ = [
-    "money_value", "iso", "schedule_rows", "schedule_json", "revised_rows", "plan_json", "point_plan",
+    "SCHEDULE_COLUMNS", "REVISED_COLUMNS", "DATE_COLUMNS", "money_value", "iso", "schedule_rows", "schedule_json", "revised_rows", "plan_json", "point_plan",
     "point_changes", "curve_rows", "curve_json", "total_cost_row", "best_json", "recovery_json",
-    "revised_course_rows", "instructions", "money", "option_note", "days",
+    "revised_course_rows", "instructions", "money", "option_note", "days", "plan_activities", "price_json",
 ]
 
 
@@ -119,6 +120,18 @@ def option_note(project: Project, activity_id: str, option: str) -> str:
 
 
 # -- plans ---------------------------------------------------------------------------
+#: the columns of a schedule table (``schedule --out``), its dates and those of a revised one
+SCHEDULE_COLUMNS = ("id", "name", "trade", "calendar", "duration", "state", "es", "ef", "ls", "lf",
+                    "early_start", "early_finish", "late_start", "late_finish", "total_float", "free_float",
+                    "critical", "driving")
+REVISED_COLUMNS = ("id", "name", "trade", "calendar", "state", "normal", "duration", "shortened_by", "option",
+                   "option_note", "added_cost", "early_start_before", "early_finish_before", "es", "ef", "ls",
+                   "lf", "early_start", "early_finish", "late_start", "late_finish", "total_float",
+                   "free_float", "critical", "driving")
+DATE_COLUMNS = ("early_start", "early_finish", "late_start", "late_finish", "early_start_before",
+                "early_finish_before", "finish_date")
+
+
 def revised_rows(plan: Plan) -> list[dict]:
     """The schedule after acceleration: the rows of ``schedule --json`` with the plan's
     durations, each with its ``normal`` duration, ``shortened_by``, ``option`` (and its note),
@@ -134,6 +147,15 @@ def revised_rows(plan: Plan) -> list[dict]:
                   "option_note": a.option_note or None, "added_cost": money_value(a.added_cost),
                   "early_start_before": b.get("early_start"), "early_finish_before": b.get("early_finish")})
     return rows
+
+
+def plan_activities(plan: Plan) -> list[dict]:
+    """Every activity of a plan: normal and new duration, days taken off, option, added cost."""
+    return [{"id": a.id, "name": a.name, "trade": a.trade, "calendar": a.calendar,
+             "normal": a.normal, "duration": a.duration, "shortened_by": a.shortened_by,
+             "option": a.option or None, "option_note": a.option_note or None,
+             "added_cost": money_value(a.added_cost)}
+            for a in plan.activities]
 
 
 def plan_json(plan: Plan) -> dict:
@@ -154,11 +176,7 @@ def plan_json(plan: Plan) -> dict:
         "proven_optimal": plan.proven,
         "lower_bound": None if plan.bound is None else money_value(plan.bound),
         "gap": plan.gap,
-        "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "calendar": a.calendar,
-                        "normal": a.normal, "duration": a.duration, "shortened_by": a.shortened_by,
-                        "option": a.option or None, "option_note": a.option_note or None,
-                        "added_cost": money_value(a.added_cost)}
-                       for a in plan.activities],
+        "activities": plan_activities(plan),
         "trades": [{"trade": t.trade, "shortened_by": t.shortened_by,
                     "added_cost": money_value(t.added_cost)} for t in plan.trades],
         "critical_paths": [list(p) for p in plan.schedule.critical_paths],
@@ -304,4 +322,42 @@ def recovery_json(rec: Recovery) -> dict:
         "courses": [course(c) for c in rec.courses],
         "warnings": list(rec.warnings),
         "notes": list(rec.notes),
+    }
+
+
+# -- a proposal priced ---------------------------------------------------------------
+def price_json(priced: PricedProposal) -> dict:
+    """A priced proposal; ``leanest`` and ``least_cost_plan`` as a plan's ``activities``."""
+    def opt(x):
+        return None if x is None else money_value(x)
+
+    plan = priced.plan
+    return {
+        "project": priced.project.name,
+        "currency": priced.project.currency,
+        "proposal": priced.source or None,
+        "normal_finish": plan.normal_finish,
+        "normal_finish_date": iso(plan.normal_finish_date),
+        "finish": priced.finish,
+        "finish_date": iso(priced.finish_date),
+        "proposal_cost": money_value(priced.proposal_cost),
+        "asked_cost": opt(priced.asked_cost),
+        "least_cost": money_value(priced.least_cost),
+        "excess": money_value(priced.excess),
+        "asked_excess": opt(priced.asked_excess),
+        "milestone_damages": money_value(plan.milestone_damages),
+        "no_effect": list(priced.no_effect),
+        "lines": [{"id": x.id, "name": x.name, "trade": x.trade, "shortened_by": x.shortened_by,
+                   "option": x.option or None, "option_note": x.option_note or None,
+                   "added_cost": money_value(x.added_cost), "asked_cost": opt(x.asked_cost),
+                   "finish_without": x.finish_without, "buys": x.buys(priced.finish)} for x in priced.lines],
+        "leanest": plan_activities(priced.leanest),
+        "leanest_cost": money_value(priced.leanest.added_cost),
+        "least_cost_plan": plan_activities(priced.least_cost_plan),
+        "missed": [{"id": m.id, "name": m.name, "trade": m.trade, "proposed": m.proposed,
+                    "shortened_by": m.shortened_by, "option": m.option or None,
+                    "added_cost": money_value(m.added_cost)} for m in priced.missed],
+        "cautions": list(plan.cautions),
+        "notes": list(priced.notes),
+        "schedule": revised_rows(plan),
     }

@@ -12,11 +12,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from datetime import date
+from functools import cached_property
 from typing import Iterator
 
+from .calendar import CalendarClock
 from .cpm import Schedule
 from .project import Project
-from .time_costs import TimeCosts
+from .time_costs import TimeCosts, time_costs
 
 __all__ = ["ActivityChange", "TradeTotal", "Plan", "CurvePoint", "Curve", "TotalCostPoint", "BestFinish"]
 
@@ -126,6 +128,20 @@ class Curve:
 
     def __getitem__(self, k):
         return self.points[k]
+
+    @cached_property
+    def totals(self) -> tuple["TotalCostPoint", ...]:
+        """Direct, indirect, damages and bonus at each point (latest finish first)."""
+        clock = CalendarClock(self.project.calendar, self.project.start)
+        direct = self.project.normal_direct_cost
+        return tuple(TotalCostPoint(p.finish, p.finish_date, direct + p.added_cost, p.added_cost,
+                                    time_costs(self.project, clock, p.finish), p.milestone_damages)
+                     for p in self.points)
+
+    @property
+    def best(self) -> "TotalCostPoint | None":
+        """The point with the least total cost (the later finish on a tie), as ``best`` picks."""
+        return min(self.totals, key=lambda r: (round(r.total_cost, 6), -r.finish), default=None)
 
 
 @dataclass(frozen=True)
