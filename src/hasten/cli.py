@@ -378,6 +378,46 @@ def price(
 
 
 @app.command()
+def report(
+    project: ProjectArg,
+    output: Annotated[Path, typer.Option("-o", "--output", help="The report: FILE.html (one self-contained page), FILE.md (charts beside it) or FILE.xlsx.")],
+    finish: Annotated[Optional[int], typer.Option("--finish", help="Plan to finish in N working days from the start.")] = None,
+    by: Annotated[Optional[str], typer.Option("--by", help="Plan to finish by this date (last day worked), YYYY-MM-DD.")] = None,
+    earlier: Annotated[Optional[str], typer.Option("--earlier", help="Plan to finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
+    best_: Annotated[bool, typer.Option("--best", help="The finish with the least total cost.")] = False,
+    budget_: Annotated[Optional[float], typer.Option("--budget", help="The earliest finish for at most this added direct cost.")] = None,
+    recover_: Annotated[bool, typer.Option("--recover", help="The courses of recovery after a delay.")] = False,
+    proposal: Annotated[Optional[Path], typer.Option("--proposal", help="A proposal to price (CSV: id, shortened_by or option, cost).")] = None,
+    time_limit: LimitOpt = None,
+) -> None:
+    """Write a report for the owner: the question, the answer, the plan, the charts, an
+    interactive curve (HTML), the assumptions, the cautions and how the answer was checked."""
+    with _errors():
+        from .questions import handover
+        from .report import REPORT_SUFFIXES, write_report
+
+        targets = [x is not None for x in (finish, by, earlier)]
+        if sum(targets) + best_ + (budget_ is not None) + recover_ + (proposal is not None) != 1:
+            raise HastenError("ask exactly one question: --finish N, --by DATE, --earlier 10d/2w, --best, "
+                              "--budget AMOUNT, --recover or --proposal FILE.csv")
+        if output.suffix.lower() not in REPORT_SUFFIXES:
+            raise InputError(f"cannot write a report to {output.name!r}", column="-o", value=str(output),
+                             fix="name the report FILE.html, FILE.md or FILE.xlsx")
+        if budget_ is not None and not (math.isfinite(budget_) and budget_ >= 0):
+            raise InputError("--budget must be a number 0 or more", value=budget_,
+                             fix="give the most you would add to the direct cost, e.g. --budget 50000")
+        target = _target(finish, by, earlier) if any(targets) else None
+        p = read_project(project)
+        with _progress(True) as tick:
+            result = handover(p, target=target, best=best_, budget=budget_, recover=recover_, proposal=proposal,
+                              time_limit=time_limit, progress=tick)
+        written = write_report(result, output)
+        for note in result.notes:
+            _echo(f"Note: {note}")
+        _echo("wrote " + ", ".join(str(w) for w in written))
+
+
+@app.command()
 def convert(
     source: Annotated[Path, typer.Argument(help="Project folder, .xlsx or .json to read.")],
     target: Annotated[Path, typer.Argument(help="Folder, .xlsx or .json to write (must not exist).")],

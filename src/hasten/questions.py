@@ -35,9 +35,10 @@ from .planner import Planner, Progress
 from .price import PricedProposal, ProposalLine, price_proposal, read_proposal
 from .project import Project
 from .recovery import Recovery, recovery
-from .results import BestFinish, Curve, Plan
+from .results import BestFinish, Curve, Handover, Plan
 
-__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "price", "target_offset"]
+__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "price", "handover",
+           "target_offset"]
 
 
 @dataclass(frozen=True)
@@ -135,3 +136,62 @@ def price(project: Project, proposal: str | os.PathLike[str] | Sequence[Proposal
     if isinstance(proposal, (str, os.PathLike)):
         return price_proposal(project, read_proposal(proposal), str(proposal), time_limit=time_limit)
     return price_proposal(project, list(proposal), time_limit=time_limit)
+
+
+def _target_words(planner: Planner, target: Target, offset: int) -> str:
+    day = planner.clock.project_finish_date(offset).isoformat()
+    if isinstance(target, Earlier):
+        ahead = (f"{target.weeks} calendar week{'s' if target.weeks != 1 else ''}" if target.weeks
+                 else f"{target.days} working day{'s' if target.days != 1 else ''}")
+        return f"finish {ahead} earlier than now, by {day}"
+    return f"finish by {day} ({offset} working days from the start)"
+
+
+def handover(project: Project, *, target: Target | None = None, best: bool = False, budget: float | None = None,
+             recover: bool = False, proposal=None, time_limit: float | None = None,
+             progress: Progress | None = None) -> Handover:
+    """One question answered for a report, with the least-cost curve (every finish and its
+    plan) beside it. Ask exactly one: ``target`` (a plan), ``best``, ``budget``, ``recover``
+    or ``proposal`` (a path or lines, see :func:`price`).
+
+    Examples
+    --------
+    >>> import hasten
+    >>> from hasten.questions import handover
+    >>> h = handover(hasten.read_project("cases/clinic-fitout"), best=True)
+    >>> h.kind, h.plan.finish == h.answer.point.finish, len(h.curve) > 1
+    ('best', True, True)
+    """
+    asked = [target is not None, best, budget is not None, recover, proposal is not None]
+    if sum(asked) != 1:
+        from .errors import HastenError
+
+        raise HastenError("ask exactly one question: a target, the best finish, a budget, recovery "
+                          "or a proposal")
+    planner = Planner(project, time_limit=time_limit)
+    currency = f" {project.currency}" if project.currency else ""
+    if target is not None:
+        offset = target_offset(planner, target)
+        answer = planner.plan(offset)
+        kind, question, chosen = "plan", ("What is the least added cost to "
+                                          + _target_words(planner, target, offset) + "?"), answer
+    elif best:
+        answer = planner.best_finish(progress=progress)
+        kind, question, chosen = "best", ("Which finish date costs the least in all (direct cost, site "
+                                          "overhead, damages and bonus), and how is it reached?"), answer.plan
+    elif budget is not None:
+        answer = planner.earliest_within(budget)
+        kind, question, chosen = "budget", (f"How early can the job finish for at most {budget:,.0f}{currency} "
+                                            "of added direct cost?"), answer
+    elif recover:
+        answer = recovery(planner, progress=progress)
+        kind, question = "recover", ("The job is late: what does each way of recovering cost against doing "
+                                     "nothing?")
+        chosen = next((c.plan for c in reversed(answer.courses) if c.plan is not None), None)
+    else:
+        answer = price(project, proposal, time_limit=time_limit)
+        where = f" ({answer.source})" if answer.source else ""
+        kind, question, chosen = "price", (f"What does the proposal{where} buy, what should it cost, and what "
+                                           "does it waste?"), answer.plan
+    trace = planner.curve(progress=progress)
+    return Handover(project, kind, question, answer, chosen, trace, tuple(planner.notes))

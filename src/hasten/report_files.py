@@ -35,6 +35,7 @@ class Sheet:
     money_columns: Iterable[str] = ()
     currency: str = ""
     widths: dict = field(default_factory=dict)
+    money_rows: frozenset = frozenset()  # rows (header row 1) whose numbers are all money
 
 
 def table_suffix(path: Path, option: str = "--out") -> str:
@@ -101,9 +102,10 @@ def write_workbook(path: Path, sheets: Sequence[Sheet]) -> None:
             row = ws.max_row
             for k, c in enumerate(sheet.columns, start=1):
                 cell = ws.cell(row=row, column=k)
-                if c in dates and cell.value is not None:
+                if (c in dates and cell.value is not None) or isinstance(cell.value, date):
                     cell.number_format = "yyyy-mm-dd"
-                elif c in money and isinstance(cell.value, (int, float)):
+                elif (c in money or row in sheet.money_rows) and isinstance(cell.value, (int, float)) \
+                        and not isinstance(cell.value, bool):
                     cell.number_format = fmt
         for k, c in enumerate(sheet.columns, start=1):
             longest = max([len(str(c))] + [len(str(_cell(r.get(c)) or "")) for r in sheet.rows[:200]])

@@ -20,7 +20,8 @@ from .cpm import Schedule
 from .project import Project
 from .time_costs import TimeCosts, time_costs
 
-__all__ = ["ActivityChange", "TradeTotal", "Plan", "CurvePoint", "Curve", "TotalCostPoint", "BestFinish"]
+__all__ = ["ActivityChange", "TradeTotal", "Plan", "CurvePoint", "Curve", "TotalCostPoint", "BestFinish",
+           "Handover"]
 
 
 @dataclass(frozen=True)
@@ -173,3 +174,23 @@ class BestFinish:
     def saving(self) -> float:
         """Total cost saved against the current finish (positive saves money)."""
         return self.current.total_cost - self.point.total_cost
+
+
+@dataclass(frozen=True)
+class Handover:
+    """Everything a report needs: the question, its answer, the plan it comes to, and the
+    least-cost curve with the plan of every finish (for the interactive curve).
+
+    ``kind`` is ``"plan"``, ``"budget"``, ``"best"``, ``"recover"`` or ``"price"``; ``answer`` is a
+    :class:`Plan`, :class:`BestFinish`, :class:`~hasten.recovery.Recovery` or
+    :class:`~hasten.price.PricedProposal`; ``plan`` the plan the answer comes to (for recovery
+    the least-total-cost course's, for a proposal the proposal applied), or ``None``.
+    """
+
+    project: Project
+    kind: str
+    question: str  # the question in words
+    answer: object
+    plan: Plan | None
+    curve: Curve
+    notes: tuple[str, ...] = ()
