@@ -74,7 +74,10 @@ def svg_markup(fig) -> str:
     buf = io.BytesIO()
     save(fig, buf, "svg")
     text = buf.getvalue().decode("utf-8")
-    return text[text.index("<svg"):]
+    text = text[text.index("<svg"):]
+    if "<metadata>" in text:  # the RDF block names outside vocabularies: not needed inline
+        text = text[:text.index("<metadata>")] + text[text.index("</metadata>") + len("</metadata>"):]
+    return text
 
 
 def _money_axis(ax, currency: str) -> None:
