@@ -14,8 +14,10 @@ CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "accelerated", "price",
         "questions"]
-EDGES = ["__init__", "__main__", "cli", "render", "render_json", "render_fit", "charts"]  # and formats/
-EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
+EDGES = ["__init__", "__main__", "cli", "render", "render_json", "render_fit", "charts", "report", "report_html",
+         "report_md", "report_xlsx", "report_files"]  # and formats/
+EDGE = {"cli", "formats", "render", "render_json", "render_fit", "charts", "report", "report_html", "report_md",
+        "report_xlsx", "report_files", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 
 def _imports(path: Path) -> set[str]:
