@@ -136,12 +136,14 @@ def changes_table(plan: Plan, wide: bool = False) -> str:
     with_options = any(a.option for a in plan.changed)
     own = bool(plan.project.calendars)
     rows = [[a.id, a.name, a.trade] + ([a.calendar] if own else [])
-            + ([way_text(a.option, a.option_note)] if with_options else [])
+            + ([a.option or "normal"] if with_options else [])
             + [a.normal, a.duration, a.shortened_by, money(a.added_cost)] for a in plan.changed]
     headers = (["id", "name", "trade"] + (["calendar"] if own else []) + (["way"] if with_options else [])
                + ["normal\ndays", "new\ndays", "shortened\nby", "added\ncost"])
     texts = list(range(1, 3 + own + with_options))
-    return table(rows, headers, shorten=texts, wide=wide)
+    body = table(rows, headers, shorten=texts, wide=wide)
+    notes = [f"{a.id} by '{a.option}': {a.option_note}" for a in plan.changed if a.option and a.option_note]
+    return "\n".join([body] + (["Option notes:"] + bullets(notes, wide) if notes else []))
 
 
 def revised_text(plan: Plan, *, wide: bool = False) -> str:
@@ -231,8 +233,8 @@ def best_text(best: BestFinish, *, around: int = 5, wide: bool = False) -> str:
         verdict = f"costs {money(-saving, cur)} more than the current finish"
     lines += [para(f"Best finish: {best.point.finish} working days ({_d(best.point.finish_date)}), "
                    f"total cost {money(best.point.total_cost, cur)}: {verdict}", wide),
-              "Total cost = direct (normal + added) + indirect + damages - bonus; "
-              "* marks the best finish, 'now' the current one.",
+              para("Total cost = direct (normal + added) + indirect + damages - bonus; "
+                   "* marks the best finish, 'now' the current one.", wide),
               "", body, "", plan_text(best.plan, title="Plan at the best finish", wide=wide)]
     return "\n".join(lines)
 
@@ -307,7 +309,7 @@ def price_text(priced: PricedProposal, *, wide: bool = False) -> str:
                       f"; against what is asked: {money(priced.asked_excess, cur)}"), wide)]
     with_asked = priced.asked_cost is not None
     ways = any(x.option for x in priced.lines)
-    rows = [[x.id, x.name] + ([way_text(x.option, x.option_note)] if ways else []) + [x.shortened_by,
+    rows = [[x.id, x.name] + ([x.option or "normal"] if ways else []) + [x.shortened_by,
                                                                                       money(x.added_cost)]
             + ([money(x.asked_cost)] if with_asked else []) + [_buys(x.buys(finish))] for x in priced.lines]
     lines += ["", "The lines of the proposal:",
@@ -315,6 +317,9 @@ def price_text(priced: PricedProposal, *, wide: bool = False) -> str:
                     + (["asked"] if with_asked else []) + ["days it\nbuys"], shorten=[1, 2] if ways else [1],
                     wide=wide),
               para("(days it buys: how much later the job finishes with that line alone taken out)", wide)]
+    notes = [f"{x.id} by '{x.option}': {x.option_note}" for x in priced.lines if x.option and x.option_note]
+    if notes:
+        lines += ["Option notes:"] + bullets(notes, wide)
     if priced.no_effect:
         lines += ["", para("Lines that buy no time (taking any one of them out alone leaves the finish "
                            f"at {finish} or earlier): " + ", ".join(priced.no_effect), wide)]
