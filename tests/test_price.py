@@ -6,6 +6,8 @@ Sources:
   and the least-cost curve (the data authors' scipy linprog: 160 at 20 days by C 1 + F 2).
 - Hand-worked small networks written out below; the SS/FF case is the one in README "Method"
   ("Shortening can lengthen the job").
+- Random proposals on random networks against the references of tests/conftest.py (a plain
+  forward pass, the crash costs, scipy's linprog).
 """
 
 from __future__ import annotations
@@ -14,9 +16,12 @@ import json
 from pathlib import Path
 
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 from typer.testing import CliRunner
 
-from conftest import TOL, load_json, make_project, project_from_example
+from conftest import (PROPERTY, TOL, linprog_least_cost, load_json, make_project, own_cut_cost, own_finish,
+                      project_from_example, projects)
 from hasten.cli import app
 from hasten.errors import InputError
 from hasten.formats import write_project
@@ -188,3 +193,31 @@ def test_the_library_call_reads_a_file(tmp_path: Path, ques10):
     # C 1 + F 2 is the least-cost plan for 20 days itself (example's independent check): no excess
     assert priced.finish == 20 and abs(priced.excess) <= TOL and priced.no_effect == ()
     assert priced.source == str(prop)
+
+
+@PROPERTY
+@given(st.data())
+def test_random_proposals_against_references(data):
+    # References written apart from hasten (tests/conftest.py): a plain forward pass over
+    # networkx's topological order for the finish, the activity's own crash cost for the cost,
+    # and scipy's linprog for the least cost of the same finish.
+    project = data.draw(projects(max_n=7))
+    cuts = {a.id: data.draw(st.integers(0, a.duration - a.shortest)) for a in project.activities
+            if a.shortest < a.duration}
+    if not cuts:
+        return
+    lines = [ProposalLine(i, k) for i, k in cuts.items()]
+    priced = price_proposal(project, lines)
+    durations = {a.id: a.duration - cuts.get(a.id, 0) for a in project.activities}
+    assert priced.finish == own_finish(project, durations)
+    cost = sum(own_cut_cost(a, cuts.get(a.id, 0)) for a in project.activities)
+    assert abs(priced.proposal_cost - cost) <= TOL * max(1, cost)
+    least = linprog_least_cost(project, priced.finish)
+    assert least is not None and abs(priced.least_cost - least) <= 1e-6 * max(1, least)
+    assert priced.excess >= -1e-6
+    assert priced.least_cost - 1e-6 <= priced.leanest.added_cost <= priced.proposal_cost + 1e-6
+    for a in priced.leanest.activities:  # the leanest part stays within the proposal's lines
+        assert 0 <= a.shortened_by <= cuts.get(a.id, 0)
+    for line in priced.lines:  # each line's effect, by the plain forward pass
+        without = dict(durations, **{line.id: durations[line.id] + cuts[line.id]})
+        assert line.finish_without == own_finish(project, without)
