@@ -47,6 +47,8 @@ class Planner:
     time_limit : float, optional
         Seconds each mixed-integer solve may take; a plan stopped by it is reported as not
         proven optimal, with its bound and gap.
+    keep_dominated : bool
+        Keep every option (to price a given plan that uses a dominated one, :meth:`evaluate`).
 
     Examples
     --------
@@ -57,10 +59,11 @@ class Planner:
     True
     """
 
-    def __init__(self, project: Project, *, time_limit: float | None = None, solver: str | None = None):
+    def __init__(self, project: Project, *, time_limit: float | None = None, solver: str | None = None,
+                 keep_dominated: bool = False):
         if time_limit is not None and not (time_limit > 0 and math.isfinite(time_limit)):
             raise HastenError(f"the time limit {time_limit!r} must be a positive number of seconds")
-        project, notes = drop_dominated(project)
+        project, notes = (project, []) if keep_dominated else drop_dominated(project)
         self.given = project  # as given: results list activities in this order
         # The model is built on the activities sorted by id (and the links sorted), so that
         # among plans of equal cost the one chosen never depends on the order of the rows.
@@ -202,6 +205,16 @@ class Planner:
                     next_cost = next_added + next_damages - cost - damages
         return self._plan(target, finish, sol, cost, damages, sched, next_cost)
 
+    def evaluate(self, durations, choices=None) -> Plan:
+        """The plan of given durations (and option choices, -1 for none) of what is left to
+        schedule, checked and scheduled without solving; its target is its own finish."""
+        durations = tuple(int(d) for d in durations)
+        choices = tuple(choices) if choices is not None and any(c >= 0 for c in choices) else ()
+        early = self.network.forward(durations)
+        finish, cost, damages = self.checker.check(durations, early, choices=choices or None)
+        sched = schedule(self.network, durations)
+        return self._plan(finish, finish, Solution(durations, cost, cost, choices), cost, damages, sched, None)
+
     def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, damages: float,
               sched: Schedule, next_cost: float | None) -> Plan:
         changes = []
@@ -228,7 +241,8 @@ class Planner:
         changes, sched = self._as_given(changes), self._as_given_schedule(sched)
         return Plan(self.given, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
                     sched, next_cost, clock.start_date(0), day(target), day(finish), day(self.normal_finish),
-                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
+                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages,
+                    self._as_given_schedule(self.normal))
 
     def _as_given(self, rows: list) -> list:
         """Rows (one per activity, in the model's order) in the order the project gave them."""

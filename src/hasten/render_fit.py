@@ -1,0 +1,128 @@
+"""Text tables that fit a terminal: at most :data:`WIDTH` columns.
+
+Long texts (names, trades) are shortened with an ellipsis, long lists (the curve's
+changes) are wrapped onto more lines; ``wide=True`` shows every text whole. JSON, CSV and
+the report always carry the full texts.
+
+Examples
+--------
+>>> print(table([["A1", "A very long activity name indeed", "12"]], ["id", "name", "days"],
+...             shorten=[1], width=24))
+id  name            days
+--  --------------  ----
+A1  A very long a…    12
+"""
+
+from __future__ import annotations
+
+import re
+import textwrap
+from typing import Sequence
+
+__all__ = ["WIDTH", "table", "cut", "wrap_lines"]
+
+#: the widest line a text table may have (``--wide`` lifts it)
+WIDTH = 100
+_ELLIPSIS = "…"
+_GAP = 2  # two spaces between columns
+_NUMBER = re.compile(r"^-?[\d,]+(\.\d+)?$")
+
+
+def cut(text: str, width: int) -> str:
+    """``text`` cut to ``width`` characters, the last one an ellipsis when cut."""
+    text = str(text)
+    if len(text) <= width:
+        return text
+    return text[: max(width - 1, 0)].rstrip() + _ELLIPSIS
+
+
+def _widths(rows: list[list[str]], headers: Sequence[str]) -> list[int]:
+    out = [max((len(x) for x in str(h).split("\n")), default=0) for h in headers]
+    for r in rows:
+        for k, cell in enumerate(r):
+            out[k] = max(out[k], max((len(x) for x in str(cell).split("\n")), default=0))
+    return out
+
+
+def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: Sequence[int] = (),
+          wrap: Sequence[int] = (), wide: bool = False, width: int = WIDTH, least: int = 8,
+          optional: Sequence[int] = (), comfort: int = 24) -> str:
+    """A plain text table no wider than ``width``.
+
+    Parameters
+    ----------
+    rows, headers
+        The cells (turned into text) and the column titles (``"\\n"`` for two lines).
+    shorten
+        Columns whose texts may be cut with an ellipsis, down to ``least`` characters.
+    wrap
+        Columns whose texts may be wrapped onto several lines (at spaces).
+    wide
+        Show every text whole, however wide the table gets.
+    optional
+        Columns left out, in this order, while the table is too wide with the texts cut to
+        ``comfort`` characters (a line under the table names them).
+    """
+    text_rows = [["" if c is None else str(c) for c in r] for r in rows]
+    headers = [str(h) for h in headers]
+    dropped: list[str] = []
+    if not wide:
+        for k in optional:
+            floor = [len(max(str(h).split("\n"), key=len)) if j not in (*shorten, *wrap) or j in optional
+                     else max(comfort, len(max(str(h).split("\n"), key=len))) for j, h in enumerate(headers)]
+            widths = [min(w, f) if j in (*shorten, *wrap) else w
+                      for j, (w, f) in enumerate(zip(_widths(text_rows, headers), floor))]
+            if sum(widths) + _GAP * (len(widths) - 1) <= width:
+                break
+            gone = k - sum(1 for x in optional[: optional.index(k)] if x < k)  # positions move left
+            dropped.append(headers[gone].replace("\n", " "))
+            del headers[gone]
+            for r in text_rows:
+                del r[gone]
+            shorten = [j - (j > gone) for j in shorten if j != gone]
+            wrap = [j - (j > gone) for j in wrap if j != gone]
+        widths = _widths(text_rows, headers)
+        over = sum(widths) + _GAP * (len(widths) - 1) - width
+        floors = {k: max(least, max(len(w) for w in str(headers[k]).split("\n")))
+                  for k in (*shorten, *wrap)}
+        limit = dict.fromkeys((*shorten, *wrap), None)
+        while over > 0:
+            room = [k for k in limit if (limit[k] or widths[k]) > floors[k]]
+            if not room:
+                break
+            k = max(room, key=lambda j: (limit[j] or widths[j], j in wrap))
+            limit[k] = (limit[k] or widths[k]) - 1
+            over -= 1
+        for k, cap in limit.items():
+            if cap is None:
+                continue
+            for r in text_rows:
+                r[k] = wrap_lines(r[k], cap) if k in wrap else cut(r[k], cap)
+    note = f"\n({', '.join(dropped)} left out to fit {width} columns; --wide shows every column)" if dropped else ""
+    return _render(text_rows, headers) + note
+
+
+def _render(rows: list[list[str]], headers: list[str]) -> str:
+    """Columns two spaces apart, titles over a dashed rule (titles of several lines sit on
+    the rule), numbers aligned right, other texts left; cells may hold several lines."""
+    widths = _widths(rows, headers)
+    right = [bool(rows) and all(_NUMBER.match(r[k]) for r in rows if r[k]) and any(r[k] for r in rows)
+             for k in range(len(headers))]
+
+    def block(cells: list[str], top: bool) -> list[str]:
+        parts = [c.split("\n") for c in cells]
+        height = max((len(p) for p in parts), default=1)
+        parts = [([""] * (height - len(p)) + p) if top else (p + [""] * (height - len(p))) for p in parts]
+        return [(" " * _GAP).join(x.rjust(w) if r else x.ljust(w) for x, w, r in zip(line, widths, right)).rstrip()
+                for line in zip(*parts)]
+
+    out = block(headers, True) + [(" " * _GAP).join("-" * w for w in widths)]
+    for r in rows:
+        out += block(r, False)
+    return "\n".join(out)
+
+
+def wrap_lines(text: str, width: int) -> str:
+    """``text`` wrapped at spaces into lines of at most ``width`` characters."""
+    return "\n".join(textwrap.wrap(text, width, break_on_hyphens=False)) or text
+
