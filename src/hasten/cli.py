@@ -44,6 +44,8 @@ ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook
 JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
 ForceOpt = Annotated[bool, typer.Option("--force", help="Replace an existing output file (never an input).")]
 LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds each mixed-integer solve may use.")]
+CrewsOpt = Annotated[Optional[str], typer.Option("--crews", help="Also offer options built from the activities' crew data: measures such as 5x10,6x10,2-shifts,+1-crew (see hasten options).")]
+ProductivityOpt = Annotated[Optional[Path], typer.Option("--productivity", help="Your own overtime productivity table (CSV: schedule,week,loss) in place of the built-in one.")]
 
 
 def _echo(text: str) -> None:
@@ -92,6 +94,27 @@ def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path
     for path in paths + tables:
         if path is not None:
             check_output_target(path, inputs=[project], force=force)
+
+
+def _crews(project: Path, crews: str | None, productivity: Path | None):
+    """The project and its reading notes, with the options built from crews added when
+    ``--crews`` is given (after the project's own options; a name used twice is refused);
+    the notes then also say what was built, what the options rest on and the cautions."""
+    p, notes = read_project_with_notes(project)
+    if crews is None:
+        if productivity is not None:
+            raise InputError("--productivity replaces the overtime table of options built from "
+                             "crews, and no --crews was given", value=str(productivity),
+                             fix="add --crews 6x10 (or other measures), or leave out --productivity")
+        return p, notes
+    from .crew_project import crew_notes, crew_options, with_crew_options
+    from .formats.productivity import read_productivity
+
+    build = crew_options(p, crews, None if productivity is None else read_productivity(productivity))
+    try:
+        return with_crew_options(p, build), tuple(notes) + tuple(crew_notes(build))
+    except InputError as exc:
+        raise exc.located(str(project)) from None
 
 
 _SCHEDULE_DATES = ("early_start", "early_finish", "late_start", "late_finish")
@@ -192,13 +215,14 @@ def plan(
     earlier: Annotated[Optional[str], typer.Option("--earlier", help="Finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    crews: CrewsOpt = None, productivity: ProductivityOpt = None,
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
         from .questions import plan as least_cost_plan
 
         target = _target(finish, by, earlier)
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         result = least_cost_plan(p, target, time_limit=time_limit)
         _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result),
               notes + result.notes)
@@ -243,12 +267,13 @@ def curve(
 
 
 @app.command()
-def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None,
+         crews: CrewsOpt = None, productivity: ProductivityOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         from .questions import best_finish
 
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
         _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result),
@@ -261,12 +286,13 @@ def budget(
     spend: Annotated[float, typer.Option("--spend", help="Most added direct cost you will spend.")],
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    crews: CrewsOpt = None, productivity: ProductivityOpt = None,
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
         from .questions import earliest_within
 
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         if not math.isfinite(spend) or spend < 0:
             raise InputError("--spend must be a number 0 or more", value=spend,
                              fix="give the most you would add to the direct cost, e.g. --spend 50000")
@@ -277,16 +303,49 @@ def budget(
 
 
 @app.command()
-def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None,
+            crews: CrewsOpt = None, productivity: ProductivityOpt = None) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
         from .questions import recover as recovery
 
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
         _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
               notes + result.notes)
+
+
+@app.command()
+def options(
+    project: ProjectArg,
+    out: Annotated[Optional[Path], typer.Option("--out", "-o", help="Write the options to FILE.csv (or .xlsx) in the layout of a project's options.csv.")] = None,
+    schedules: Annotated[Optional[str], typer.Option("--schedules", help="Measures to price, separated by commas: DAYSxHOURS (6x10), 2-shifts, +N-crew. Default: 5x10,6x10,2-shifts,+1-crew.")] = None,
+    productivity: ProductivityOpt = None,
+    force: ForceOpt = False,
+) -> None:
+    """Acceleration options built from crew data (labour hours, crew, wage, [labour] rules):
+    extended hours, a second shift, extra crews, each priced against normal working."""
+    with _errors():
+        from .crew_project import DEFAULT_SCHEDULES, crew_options
+        from .formats.productivity import read_productivity
+        from .render_crews import OPTIONS_TABLE_COLUMNS, options_rows, options_text
+
+        _outputs(project, force, tables=(out,))
+        if out is not None and productivity is not None:
+            check_output_target(out, inputs=[productivity], force=force)
+        p, notes = read_project_with_notes(project)
+        table = None if productivity is None else read_productivity(productivity)
+        build = crew_options(p, schedules or DEFAULT_SCHEDULES, table, column="--schedules")
+        if out is not None:
+            write_table(out, OPTIONS_TABLE_COLUMNS, options_rows(build), sheet_name="options",
+                        money_columns=("added_cost",), currency=p.currency)
+        for note in notes:
+            _echo(f"Note: {note}")
+        _echo(options_text(p, build))
+        if out is not None:
+            _echo(f"\nWrote {out}: {build.options} options (copy it into a project folder as "
+                  "options.csv, or use --crews on plan, best, budget and recover)")
 
 
 @app.command()
