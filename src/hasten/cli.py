@@ -336,7 +336,8 @@ def options(
             check_output_target(out, inputs=[productivity], force=force)
         p, notes = read_project_with_notes(project)
         table = None if productivity is None else read_productivity(productivity)
-        build = crew_options(p, schedules or DEFAULT_SCHEDULES, table, column="--schedules")
+        build = crew_options(p, DEFAULT_SCHEDULES if schedules is None else schedules, table,
+                             column="--schedules")
         if out is not None:
             write_table(out, OPTIONS_TABLE_COLUMNS, options_rows(build), sheet_name="options",
                         money_columns=("added_cost",), currency=p.currency)

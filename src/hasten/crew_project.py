@@ -133,7 +133,7 @@ def with_crew_options(project: Project, build: CrewBuild) -> Project:
 def crew_notes(build: CrewBuild) -> list[str]:
     """What was built, the sources the options rest on and the cautions, one text each."""
     built = [r.activity_id for r in build.results if r.options]
-    head = (f"options from crews ({build.schedules}): {build.options} built for "
+    head = (f"Options from crews ({build.schedules}): {build.options} built for "
             f"{len(built)} of {len(build.results) + len(build.passed)} activities with labour "
             "data" + (f" ({', '.join(built)})" if built else ""))
     return ([head] + option_sources(build.results) + list(build.notes)
