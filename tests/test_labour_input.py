@@ -308,3 +308,36 @@ def test_steps_and_options_built_in_code_are_cut_at_the_minimum():
     assert Activity("O", 10, options=(option,), min_duration=6).shortest == 6
     # without a minimum nothing changes
     assert Activity("L", 10, crash_duration=5, cost=100.0, crash_cost=600.0).segments() == (CrashStep(5, 100.0),)
+
+
+def test_the_optimiser_and_the_plan_check_keep_the_minimum():
+    from hasten import plan
+    from hasten.checks import PlanChecker
+    from hasten.errors import InfeasibleTargetError, PlanCheckError
+    from hasten.network import Network
+
+    # A: 10 days, linear crash to 5 at (600 - 100) / 5 = 100 a day, physical minimum 7.
+    # B: 6 days; option 'fast' 4 days for 300, itself shortened to 2 at 50 a day, minimum 3.
+    # By hand: shortest finish 7 + 3 = 10 (not 5 + 2 = 7); at 10 the least cost is
+    # A 3 days x 100 + 'fast' 300 + 1 day x 50 = 650.
+    project = Project("minimum", date(2027, 3, 1), (
+        Activity("A", 10, crash_duration=5, cost=100.0, crash_cost=600.0, min_duration=7),
+        Activity("B", 6, options=(Option("fast", 4, 300.0, crash_duration=2, cost_per_day=50.0),),
+                 min_duration=3)), (Link("A", "B"),))
+    best = plan(project, 10)
+    assert (best.finish, best.added_cost) == (10, 650)
+    with pytest.raises(InfeasibleTargetError) as caught:
+        plan(project, 9)
+    assert caught.value.shortest == 10
+    checker = PlanChecker(Network(project))
+    with pytest.raises(PlanCheckError):
+        checker.check([6, 4], [0, 6], choices=[-1, 0])  # A below its minimum
+    with pytest.raises(PlanCheckError):
+        checker.check([7, 2], [0, 7], choices=[-1, 0])  # 'fast' below B's minimum
+    assert checker.check([7, 3], [0, 7], choices=[-1, 0])[0] == 10
+    # an option shorter than the minimum, built in code, is refused by name
+    shorter = replace(project, activities=(project.activities[0], replace(
+        project.activities[1], options=(Option("fast", 2, 300.0),))))
+    with pytest.raises(InputError) as caught:
+        Network(shorter)
+    assert "'fast'" in str(caught.value) and "physical minimum of 3" in str(caught.value)
