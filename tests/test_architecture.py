@@ -12,8 +12,10 @@ SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
 CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes", "cpm",
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
-        "questions", "labour", "productivity", "premium", "crew_options", "crew_project"]
-EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "charts", "render_crews"]  # and formats/
+        "questions", "labour", "productivity", "premium", "crew_options", "quality",
+        "uncertainty", "simulation", "cluster", "crew_project"]
+EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "charts",
+         "render_crews"]  # and formats/
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 

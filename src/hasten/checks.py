@@ -15,7 +15,7 @@ import numpy as np
 
 from .errors import PlanCheckError
 from .project import LinkType, Option, Project
-from .progress import DONE
+from .progress import DONE, end_day
 
 __all__ = ["option_added_cost", "check_plan", "PlanChecker"]
 
@@ -194,7 +194,8 @@ class PlanChecker:
         total = 0.0
         for k in self.deadlines:
             a = self.project.activities[k]
-            late = (self.clocks[k].project_finish_date(int(finishes[k])) - a.deadline).days
+            day = end_day(self.net.progress.activities[k], int(finishes[k]))
+            late = (self.clocks[k].date_of(day) - a.deadline).days
             total += a.damages_per_day * max(0, late)
         return total
 

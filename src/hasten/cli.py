@@ -36,6 +36,9 @@ __all__ = ["app", "main"]
 app = typer.Typer(
     add_completion=False,
     no_args_is_help=True,
+    # plain help: typer's boxed (rich) help shows "<bool>" beside a flag such as --json, as
+    # if it took a value; the plain form shows flags as switches and values as <int>, <str>
+    rich_markup_mode=None,
     help="Least-cost schedule acceleration for construction projects: CPM, the time-cost "
          "curve, target plans, the best total-cost finish.",
 )
@@ -120,6 +123,12 @@ def _crews(project: Path, crews: str | None, productivity: Path | None):
 _SCHEDULE_DATES = ("early_start", "early_finish", "late_start", "late_finish")
 
 
+def _with_check(obj: dict, check: tuple[str, ...]) -> dict:
+    """A JSON result with the schedule-check notice (None when every measure passes)."""
+    obj["schedule_check"] = check[0] if check else None
+    return obj
+
+
 def _date(text: str, option: str) -> date:
     try:
         return date.fromisoformat(text)
@@ -146,19 +155,43 @@ def _progress(enabled: bool):
 
 # -- commands ------------------------------------------------------------------------
 @app.command()
-def check(project: ProjectArg) -> None:
-    """Validate a project; prints what was found. Exit 0 when valid, 2 when not."""
+def check(project: ProjectArg, as_json: JsonOpt = False) -> None:
+    """Validate a project and check its schedule's quality. Exit 0 when the project is
+    valid (failing measures are reported, not refused), 2 when not."""
     with _errors():
+        from .network import Network
+        from .quality import assess
+
         p = read_project(project)
-        sched = cpm(p)
+        net = Network(p)
+        sched = cpm(net)
+        report = assess(p, getattr(p, "quality", None), network=net)
+        shortened = sum(1 for a in p.activities if a.max_shortening > 0)
+        if as_json:
+            _json({"project": p.name, "valid": True, "activities": len(p.activities), "links": len(p.links),
+                   "can_be_shortened": shortened, "normal_finish": sched.finish,
+                   "finish_date": sched.finish_date.isoformat(), "warnings": list(sched.warnings),
+                   "schedule_check": render_json.quality_json(report)})
+            return
         _echo(f"{project}: valid. {len(p.activities)} activities, {len(p.links)} links, "
-              f"{sum(1 for a in p.activities if a.max_shortening > 0)} can be shortened; "
-              f"normal finish {sched.finish} working days.")
+              f"{shortened} can be shortened; normal finish {sched.finish} working days.")
         used = [(c.name, sum(1 for a in p.activities if a.calendar == c.name)) for c in p.calendars]
         if used:
             _echo("Calendars of their own: " + ", ".join(
                 f"{name} ({n} activit{'y' if n == 1 else 'ies'})" for name, n in used)
                   + f"; the others work to the project calendar ({p.calendar.name}).")
+        for w in sched.warnings:
+            _echo(f"Warning: {w}")
+        _echo("")
+        _echo(render.quality_text(report))
+
+
+def _quality_notice(project) -> tuple[str, ...]:
+    """The one line plan, best and recover print when the schedule check fails a measure."""
+    from .quality import assess
+
+    notice = assess(project, getattr(project, "quality", None)).notice()
+    return () if notice is None else (notice,)
 
 
 @app.command()
@@ -224,8 +257,9 @@ def plan(
         target = _target(finish, by, earlier)
         p, notes = _crews(project, crews, productivity)
         result = least_cost_plan(p, target, time_limit=time_limit)
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result),
-              notes + result.notes)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.plan_json(result), check), lambda: render.plan_text(result),
+              notes + check + result.notes)
 
 
 @app.command()
@@ -276,8 +310,9 @@ def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = N
         p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.best_json(result), lambda: render.best_text(result),
-              notes + result.notes)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.best_json(result), check), lambda: render.best_text(result),
+              notes + check + result.notes)
 
 
 @app.command()
@@ -312,8 +347,9 @@ def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt 
         p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
-        _emit(as_json, lambda: render_json.recovery_json(result), lambda: render.recovery_text(result),
-              notes + result.notes)
+        check = _quality_notice(p)
+        _emit(as_json, lambda: _with_check(render_json.recovery_json(result), check),
+              lambda: render.recovery_text(result), notes + check + result.notes)
 
 
 @app.command()
@@ -402,7 +438,9 @@ def demo(
 
         planner = Planner(read_project(folder))
         _echo(f"Demo project written to {folder}/ (an invented job).")
-        _echo(render.schedule_text(planner.project, planner.normal).split("\n\n")[0])
+        sched = planner.normal
+        _echo(f"Current schedule: {sched.finish} working days, {sched.start_date.isoformat()} to "
+              f"{sched.finish_date.isoformat()} (every activity: hasten schedule {folder}).")
         target = planner.contract_target()
         if target is not None:
             _echo("")

@@ -58,7 +58,9 @@ class Schedule:
     longest_paths: tuple[tuple[str, ...], ...] = ()
     warnings: tuple[str, ...] = ()  # about the input, e.g. out-of-sequence progress
     start_date: date | None = None  # the project's first working day
-    finish_date: date | None = None  # the last day worked
+    finish_date: date | None = None  # the last day worked (or the day of the last milestone)
+    states: tuple = ()  # hasten.progress.ActivityProgress of each activity: how its dates are shown
+    deadline_date: date | None = None  # the last day of the deadline, when one was given
 
     def by_id(self) -> dict[str, ActivityDates]:
         return {a.id: a for a in self.activities}
@@ -99,8 +101,11 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     hasten.errors.CycleError: the links form a loop: A -> B -> A. Fix: remove or reverse one of these links so that no activity depends on itself
     """
     net = project_or_network if isinstance(project_or_network, Network) else Network(project_or_network)
+    deadline_date = None
     if isinstance(deadline, date):
-        deadline = net.clock.offset_of(deadline, finish=True)
+        deadline_date, deadline = deadline, net.clock.offset_of(deadline, finish=True)
+    elif deadline is not None:
+        deadline_date = net.clock.project_finish_date(deadline)
     d = list(net.durations if durations is None else durations)
     n = len(d)
     es = net.forward(d)
@@ -138,7 +143,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
                                   free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
                                   states[i].state))
     return Schedule(finish, tuple(rows), paths, deadline, truncated, longest, net.progress.warnings,
-                    net.clock.start_date(0), net.clock.project_finish_date(finish))
+                    net.clock.start_date(0), net.finish_date(finish), states, deadline_date)
 
 
 def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: list[int], finish: int):

@@ -22,6 +22,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
+from .progress import end_day
 from .solver_model import INF, LinearModel
 
 if TYPE_CHECKING:
@@ -195,7 +196,8 @@ def holds(model, result, objective: str, target: int | None, strict: bool):
         f = es[i] + d[i]
         if strict and f > limit:
             return False, None
-        damages += act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
+        day = end_day(model.net.progress.activities[i], f)
+        damages += act.damages_per_day * max(0, (clock.date_of(day) - act.deadline).days)
     return damages <= sol.milestone_damages + 1e-6 * max(1.0, abs(damages)), None
 
 

@@ -43,6 +43,7 @@ from . import crash_calendars, crash_ties
 from .crash_calendars import INT_TOL as _INT_TOL
 from .errors import HastenError, SolverError, TimeLimitError
 from .network import Network
+from .progress import end_day
 from .solver_model import INF, LinearModel
 
 __all__ = ["CrashModel", "Objective", "Solution"]
@@ -191,12 +192,16 @@ class CrashModel:
             limit = clock.offset_of(act.deadline, finish=True)
             if limit >= horizon:
                 continue
+            # The end is dated on end_day (hasten.progress): never before the activity's
+            # floor (0; a milestone's first day). A deadline before that day is missed
+            # whatever the plan: the steps then start from a virtual offset floor - 1 that
+            # costs nothing (the finish is never before the floor).
+            state = net.progress.activities[i]
+            floor = state.floor
+            limit = limit if limit > floor else floor - 1
             self._deadlines.append((i, clock, act, limit))
-            # A deadline before the first working day (limit <= 0) is missed even at offset
-            # 0: the steps then start from a virtual offset -1 that costs nothing.
-            limit = limit if limit > 0 else -1
-            g = [act.damages_per_day * max(0, (clock.project_finish_date(f) - act.deadline).days)
-                 if f >= 0 else 0.0 for f in range(limit, horizon + 1)]
+            g = [act.damages_per_day * max(0, (clock.date_of(end_day(state, f)) - act.deadline).days)
+                 if f >= floor else 0.0 for f in range(limit, horizon + 1)]
             steps = np.diff(g)
             b = lm.add_columns(np.zeros(len(steps)), 1.0)
             lm.add_row(np.concatenate([[self.end[i]], b]), np.concatenate([[1.0], -np.ones(len(b))]),

@@ -5,7 +5,11 @@ normal way of being done, which takes ``activity.duration`` days at added cost 0
 option ``o`` (one that cannot be shortened further, ``crash_duration`` None) is *dominated*
 by another plain way ``p`` of the same activity — another option or the normal way — when
 
-    p.duration <= o.duration  and  p.added_cost <= o.added_cost,  at least one strict.
+    p.duration <= o.duration  and  p.added_cost < o.added_cost.
+
+A way that is faster at the same cost does not drop a slower one: among plans of equal
+cost hasten takes the fewest working days off (README, "Ties"), and the slower way is
+then the one to choose wherever its days are not needed.
 
 Options that allow further shortening are never dropped and never drop another; the normal
 way takes part only when the activity itself cannot be shortened (no crash duration below
@@ -51,16 +55,11 @@ def _beats(p_duration: int, p_cost: float, o: Option, equal_duration_only: bool)
     """Whether the way (p_duration, p_cost) dominates the plain option ``o``."""
     if equal_duration_only and p_duration != o.duration:
         return False
-    return (p_duration <= o.duration and p_cost <= o.added_cost
-            and (p_duration < o.duration or p_cost < o.added_cost))
+    return p_duration <= o.duration and p_cost < o.added_cost
 
 
 def _why(p_duration: int, p_cost: float, o: Option) -> str:
-    if p_duration < o.duration and p_cost < o.added_cost:
-        return "faster and cheaper"
-    if p_duration < o.duration:
-        return "faster and costs no more"
-    return "as fast and cheaper"
+    return "faster and cheaper" if p_duration < o.duration else "as fast and cheaper"
 
 
 def dominated_options(activity: Activity, *, equal_duration_only: bool = False

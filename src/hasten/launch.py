@@ -3,15 +3,25 @@ interrupted while it is still loading, before its own handling of Ctrl-C is in p
 
 from __future__ import annotations
 
+import os
+import signal
 import sys
 
 __all__ = ["main"]
 
 
+def _interrupted(signum, frame) -> None:  # pragma: no cover - runs in a subprocess in the tests
+    sys.stderr.write("hasten: interrupted\n")
+    sys.stderr.flush()
+    os._exit(130)  # nothing has been written yet: no file to finish or remove
+
+
+# in place from the moment this module is loaded until the command line has loaded
+signal.signal(signal.SIGINT, _interrupted)
+
+
 def main() -> None:  # pragma: no cover - exercised through a subprocess in the tests
-    try:
-        from .cli import main as run
-    except KeyboardInterrupt:
-        sys.stderr.write("hasten: interrupted\n")
-        raise SystemExit(130) from None
+    from .cli import main as run
+
+    signal.signal(signal.SIGINT, signal.default_int_handler)  # the commands handle Ctrl-C
     run()

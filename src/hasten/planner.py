@@ -148,7 +148,7 @@ class Planner:
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
         target = min(target, self.normal_finish) if self.penalised else target
-        if self._model is None and self._partial_ok:  # solve on the part that can matter
+        if self._partial_ok:  # solve on the part that can matter (whatever was asked before)
             if self._partial is None:
                 self._partial = PartialSolver(self.network, time_limit=self.time_limit)
             sol = self._partial.least_cost(target, reach=self._reach, tie_break=tie_break)
@@ -160,9 +160,8 @@ class Planner:
                 raise HastenError(f"no plan meets every interim milestone deadline by a finish of "
                                   f"{target} working days")
             shortest = self.shortest_finish
-            raise InfeasibleTargetError(target, shortest,
-                                        self.clock.project_finish_date(target) if target > 0 else None,
-                                        self.clock.project_finish_date(shortest))
+            raise InfeasibleTargetError(target, shortest, self.network.finish_date(target) if target > 0 else None,
+                                        self.network.finish_date(shortest))
         return sol
 
     def _checked(self, sol: Solution, target: int, starts=None) -> tuple[int, float, float]:
@@ -224,12 +223,11 @@ class Planner:
                 t[1] += cost
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
-        clock = self.clock
-        cautions = plan_cautions(self.project, self.network.timeline, changes)
+        clock, day = self.clock, self.network.finish_date
+        cautions = plan_cautions(self.project, self.network.timeline, changes, sched)
         changes, sched = self._as_given(changes), self._as_given_schedule(sched)
         return Plan(self.given, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
-                    sched, next_cost, clock.start_date(0), clock.project_finish_date(target),
-                    clock.project_finish_date(finish), clock.project_finish_date(self.normal_finish),
+                    sched, next_cost, clock.start_date(0), day(target), day(finish), day(self.normal_finish),
                     tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
 
     def _as_given(self, rows: list) -> list:
@@ -272,7 +270,7 @@ class Planner:
             choices = sol.choices or (-1,) * len(sol.durations)
             plan = tuple((ids[i], n - d, self._way(i, c)) for i, (d, n, c) in
                          enumerate(zip(sol.durations, normal, choices)) if d != n or c >= 0)
-            date_ = self.clock.project_finish_date(target)
+            date_ = self.network.finish_date(target)
             before = solved.get(target + 1)
             if before is None:
                 points.append(CurvePoint(target, date_, cost, 0.0, plan, (), (), sol.proven, sol.gap, damages))
@@ -293,9 +291,10 @@ class Planner:
     # -- total cost --------------------------------------------------------------------
     def total_cost_point(self, finish: int, added_cost: float, milestone_damages: float = 0.0) -> TotalCostPoint:
         """Direct, indirect, damages and bonus of finishing at ``finish`` with ``added_cost``."""
-        return TotalCostPoint(finish, self.clock.project_finish_date(finish),
+        return TotalCostPoint(finish, self.network.finish_date(finish),
                               self.project.normal_direct_cost + added_cost, added_cost,
-                              time_costs(self.project, self.clock, finish), milestone_damages)
+                              time_costs(self.project, self.clock, finish, floor=self.network.finish_floor),
+                              milestone_damages)
 
     def best_finish(self, progress: Progress | None = None) -> BestFinish:
         """The finish with the least total cost (direct + indirect + damages - bonus).
@@ -315,9 +314,36 @@ class Planner:
         return BestFinish(point, current, table, plan, self.notes)
 
     def earliest_within(self, budget: float) -> Plan:
-        """The earliest finish whose least added cost is within ``budget``, and its plan."""
+        """The earliest finish whose least added cost is within ``budget``, and its plan.
+
+        With linear costs on one calendar the least added cost is convex and never rises as
+        the finish grows, so the earliest finish within a budget is found by a few solves:
+        days doubled back from the current finish until the cost passes the budget, then
+        bisection (each solve warm, on the part of the network that can matter). Otherwise
+        (discrete options, calendars of their own, milestone deadlines: no convexity) one
+        solve asks for the earliest finish with the cost capped at the budget.
+        """
         if not math.isfinite(budget) or budget < 0:
             raise HastenError(f"a budget of {budget:g} cannot be spent; give the most you would add, "
                               "a number 0 or more")
-        target = self.model.earliest_finish_within(budget)  # never before the shortest finish
-        return self.plan(min(target, self.normal_finish))
+        if not self._partial_ok:
+            target = self.model.earliest_finish_within(budget)  # never before the shortest finish
+            return self.plan(min(target, self.normal_finish))
+        within = budget + 1e-9 * max(1.0, abs(budget))
+
+        def affordable(target: int) -> bool:
+            if target < 0:
+                return False
+            try:
+                return self._solve(target, tie_break=False).added_cost <= within
+            except InfeasibleTargetError:
+                return False
+
+        good, step = self.normal_finish, 1  # the current finish costs nothing
+        while affordable(self.normal_finish - step):
+            good, step = self.normal_finish - step, 2 * step
+        bad = self.normal_finish - step
+        while good - bad > 1:
+            mid = (good + bad) // 2
+            good, bad = (mid, bad) if affordable(mid) else (good, mid)
+        return self.plan(good)

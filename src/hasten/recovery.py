@@ -1,10 +1,12 @@
 """The recovery question: the job is late at its data date; what is it worth to recover?
 
-Three courses side by side, each priced against doing nothing:
+Three courses side by side (four when full recovery is impossible), each priced against
+doing nothing:
 
 - do nothing: the forecast with progress applied; pay the damages;
 - recover fully: the least-cost plan that meets the contract finish and every interim
-  milestone deadline (if any plan can);
+  milestone deadline (if any plan can; if not, which date cannot be met, and a fourth
+  course: recover as much as possible, the least-cost plan at the shortest possible finish);
 - least total cost: the finish and plan with the least direct + indirect + damages - bonus,
   which may recover only part of the delay.
 """
@@ -17,6 +19,7 @@ from datetime import date
 from .planner import Planner
 from .results import Plan, TotalCostPoint
 from .errors import HastenError
+from .progress import end_day
 from .project import Project
 
 __all__ = ["MilestoneForecast", "Course", "Recovery", "recovery"]
@@ -85,16 +88,46 @@ def _course(planner: Planner, label: str, point: TotalCostPoint, plan: Plan | No
                   base.time.indirect - t.indirect, t.bonus - base.time.bonus, plan, note)
 
 
+def _why_not(planner: Planner) -> str:
+    """Which date cannot be met: the contract finish (the shortest possible finish is
+    after it) and/or the milestone deadlines that even every activity at its shortest
+    misses (a forward pass at the shortest durations)."""
+    project, net = planner.project, planner.network
+    reasons = []
+    contract = project.contract.finish
+    shortest = planner.shortest_finish
+    if contract is not None and shortest > planner.target_by_date(contract):
+        day = net.finish_date(shortest)
+        reasons.append(f"the contract finish {contract.isoformat()} cannot be met: the shortest possible finish "
+                       f"is {shortest} working days ({day.isoformat()}, {(day - contract).days} calendar days later)")
+    d = net.shortest
+    es = net.forward(d)
+    missed = []
+    for k, a in enumerate(project.activities):
+        if a.deadline is None or net.fixed[k]:  # (work done is history)
+            continue
+        day = net.timeline.clock_of(k).date_of(end_day(net.progress.activities[k], es[k] + d[k]))
+        if day > a.deadline:
+            missed.append(f"{a.id} {a.name or ''}".rstrip() + f" (deadline {a.deadline.isoformat()}, "
+                          f"{day.isoformat()} at the earliest)")
+    if missed:
+        reasons.append("the milestone deadline" + ("s " if len(missed) > 1 else " ") + "; ".join(missed)
+                       + (" cannot be met" if len(missed) > 1 else " cannot be met"))
+    if not reasons:  # each date can be met alone, but not all of them together
+        reasons.append("the contract finish and the milestone deadlines cannot all be met together")
+    return "; and ".join(reasons)
+
+
 def recovery(planner: Planner, progress=None) -> Recovery:
-    """Price the three courses for a project with its progress applied."""
-    project, clock, net = planner.project, planner.clock, planner.network
+    """Price the courses for a project with its progress applied."""
+    project, net = planner.project, planner.network
     normal = planner.normal
     finishes = [a.ef for a in normal.activities]
     milestones = []
     for k, (a, f) in enumerate(zip(project.activities, finishes)):
         if a.deadline is None:
             continue
-        forecast = net.timeline.clock_of(k).project_finish_date(f)  # in its own calendar
+        forecast = net.timeline.clock_of(k).date_of(end_day(net.progress.activities[k], f))  # own calendar
         late = max(0, (forecast - a.deadline).days)
         milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
     base = planner.total_cost_point(planner.normal_finish, 0.0, planner.checker.milestone_damages(finishes))
@@ -108,11 +141,12 @@ def recovery(planner: Planner, progress=None) -> Recovery:
     try:
         full = planner.plan(target, strict=True)
     except HastenError:
-        shortest = planner.shortest_finish
         courses.append(Course("recover fully", False, None, None, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0,
-                              None, f"not possible: the shortest possible finish is {shortest} working days "
-                                    f"({clock.project_finish_date(shortest).isoformat()}), or a milestone "
-                                    "deadline cannot be met"))
+                              None, "not possible: " + _why_not(planner)))
+        shortest = planner.plan(planner.shortest_finish)
+        point = planner.total_cost_point(shortest.finish, shortest.added_cost, shortest.milestone_damages)
+        courses.append(_course(planner, "recover as much as possible", point, shortest, base,
+                               "the shortest possible finish"))
     else:
         point = planner.total_cost_point(full.finish, full.added_cost, full.milestone_damages)
         courses.append(_course(planner, "recover fully", point, full, base, "meets every date"))

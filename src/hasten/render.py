@@ -14,10 +14,11 @@ from .project import Project
 from .render_json import instructions, money, point_changes, schedule_rows
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
+    from .quality import Measure, QualityReport
     from .recovery import Recovery
     from .results import BestFinish, Curve, Plan
 
-__all__ = ["money", "schedule_text", "plan_text", "curve_text", "best_text", "recovery_text"]
+__all__ = ["money", "schedule_text", "plan_text", "curve_text", "best_text", "recovery_text", "quality_text"]
 
 
 def _d(day: date) -> str:
@@ -42,10 +43,16 @@ def schedule_text(project: Project, sched: Schedule) -> str:
         tablefmt="simple", disable_numparse=True)
     lines = [f"{project.name}: {sched.finish} working days, "
              f"{_d(sched.start_date)} to {_d(sched.finish_date)}"]
+    if sched.deadline is not None:
+        late = min((r.total_float for r in sched.activities if r.state != "finished"), default=0)
+        lines.append(f"Deadline applied: {_d(sched.deadline_date)} ({sched.deadline} working days); the backward "
+                     "pass starts there, so total float counts against it"
+                     + (f" and is negative where the work is late (down to {late} working days)."
+                        if late < 0 else "."))
     if progress:
         lines.append(f"Data date {_d(project.data_date)}: finished work shows its actual dates; "
                      "started work its actual start and forecast finish.")
-    lines += ["Dates are the first and last day worked (a milestone: the day its predecessors end); "
+    lines += ["Dates are the first and last day worked (a milestone: the day it happens, see README \"Method\"); "
               "floats in working days" + (" of each activity's own calendar; the project finish in "
                                           "working days of the project calendar." if own else ".")] + [f"Warning: {w}" for w in sched.warnings] + ["", table, ""]
     lines += _paths(sched)
@@ -126,7 +133,7 @@ def curve_text(curve: Curve) -> str:
                      tablefmt="simple", disable_numparse=True)
     shortest = ("" if curve.shortest_finish is None
                 else f", shortest possible {curve.shortest_finish}")
-    return "\n".join([f"Least-cost curve for {curve.project.name} ({cur or 'money'}); "
+    return "\n".join([f"Least-cost curve for {curve.project.name}{f' ({cur})' if cur else ''}; "
                       f"normal finish {curve.normal_finish}{shortest} "
                       "working days" + ("; each point trades acceleration against milestone damages"
                                         if damages else ""), table])
@@ -201,4 +208,43 @@ def recovery_text(rec: Recovery) -> str:
                 cautions.append(text)
     if cautions:
         lines += ["", "Cautions:"] + [f"- {c}" for c in cautions]
+    return "\n".join(lines)
+
+
+# -- the schedule check --------------------------------------------------------------
+def _limit(m: Measure) -> str:
+    if m.unit == "test":
+        return "finish moves by the delay"
+    return f"{'at least' if m.at_least else 'at most'} {100 * m.limit:g}%"
+
+
+def quality_text(report: QualityReport, *, shown: int = 10) -> str:
+    """The schedule-quality check as a table of measures, then what each failing measure
+    concerns and how to fix it (at most ``shown`` items each)."""
+    rows = []
+    for m in report.measures:
+        if not m.assessed:
+            rows.append([m.title, "", "", "", _limit(m), "not assessed"])
+        elif m.unit == "test":
+            rows.append([m.title, "", "", "", _limit(m), "pass" if m.passed else "FAIL"])
+        else:
+            rows.append([m.title, m.count, f"{m.base} {m.unit}", f"{100 * m.share:.1f}%", _limit(m),
+                         "pass" if m.passed else "FAIL"])
+    lines = [f"Schedule check: {report.summary()}.",
+             "Thresholds: the commonly used values of a published schedule assessment (from memory; "
+             "README \"Schedule check\").", "",
+             tabulate(rows, headers=["measure", "count", "of", "share", "threshold", "result"],
+                      tablefmt="simple", disable_numparse=True)]
+    for m in report.measures:
+        if not m.assessed:
+            lines += ["", f"{m.title}: {m.note}."]
+            continue
+        if m.passed and not (m.items and m.key == "open_ends"):
+            continue
+        head = f"{m.title} ({'FAIL' if not m.passed else 'within the threshold'})"
+        lines += ["", head + (f": {m.note}" if m.note else "")]
+        items = list(m.items[:shown]) + ([f"... and {len(m.items) - shown} more"] if len(m.items) > shown else [])
+        lines += [f"- {item}" for item in items if m.unit != "test" or item != m.note]
+        if not m.passed:
+            lines.append(f"Fix: {m.fix}.")
     return "\n".join(lines)

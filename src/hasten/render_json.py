@@ -7,17 +7,21 @@ from __future__ import annotations
 from datetime import date
 from typing import TYPE_CHECKING
 
+import numpy as np
+
 from .calendar import CalendarClock, Timeline
 from .cpm import Schedule
+from .progress import shown_days
 from .project import Project
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
+    from .quality import QualityReport
     from .recovery import Recovery
     from .results import BestFinish, Curve, CurvePoint, Plan
 
 __all__ = [
     "money_value", "iso", "schedule_rows", "schedule_json", "plan_json", "curve_rows", "curve_json",
-    "best_json", "recovery_json", "instructions", "money",
+    "best_json", "recovery_json", "instructions", "money", "quality_json",
 ]
 
 
@@ -36,30 +40,48 @@ def iso(day: date | None) -> str | None:
     return None if day is None else day.isoformat()
 
 
-def _dates(clock: CalendarClock, starts: list[int], finishes: list[int]) -> tuple[list[str], list[str]]:
+def _dates(clock: CalendarClock, starts: list[int], finishes: list[int],
+           milestones: list[bool] | None = None, states=None, late: bool = False) -> tuple[list[str], list[str]]:
     """First and last day worked for each (start, finish) pair, in two vectorised calls.
 
-    A milestone (start == finish) is dated on the last working day before it, like the
-    project finish: the day its predecessors end (on the first day when it is at day 0).
-    Offsets before day 0 (late dates against a deadline earlier than the early finish) are
-    real dates before the project start, counted in working days of the calendar."""
-    day = [(s - 1 if s > 0 else s, s - 1 if s > 0 else s) if f == s else (s, f - 1)
-           for s, f in zip(starts, finishes)]
-    return clock.iso_dates([a for a, _ in day]), clock.iso_dates([b for _, b in day])
+    A milestone is dated on one day (:func:`hasten.progress.shown_days`): a start
+    milestone on the day it starts, another on the day its predecessors end, never before
+    the first day it may happen. Late dates (``late``) are not held at the first day: against
+    a deadline earlier than the early finish they fall before the project start, and are
+    shown as those real dates, counted in working days of the calendar."""
+    s = np.asarray(starts, dtype=np.int64)
+    f = np.asarray(finishes, dtype=np.int64)
+    first, last = s, np.where(f > s, f - 1, s - 1)
+    if not late:
+        last = np.maximum(last, 0)
+    ms = np.flatnonzero(np.asarray(milestones, dtype=bool)) if milestones is not None and states else ()
+    if len(ms):  # (as hasten.progress.shown_days, for the milestones only)
+        if late:
+            days = [int(s[k]) if states[k].opens else int(f[k]) - 1 for k in ms.tolist()]
+        else:
+            days = [shown_days(states[k], True, int(s[k]), int(f[k]))[0] for k in ms.tolist()]
+        first, last = first.copy(), last.copy()
+        first[ms] = last[ms] = days
+    return clock.iso_dates(first), clock.iso_dates(last)
 
 
-def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str):
+def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str, states=None,
+               late: bool = False):
     """Dates of one (start, finish) pair of every row, each in its activity's own calendar."""
     starts = [getattr(r, field) for r in rs]
     finishes = [getattr(r, other) for r in rs]
+    milestones = [r.duration == 0 and a.duration == 0 for r, a in zip(rs, project.activities)] \
+        if states else None
     if not timeline.several:
-        return _dates(timeline.project_clock, starts, finishes)
+        return _dates(timeline.project_clock, starts, finishes, milestones, states, late)
     pos = {a.id: k for k, a in enumerate(project.activities)}
     cal = [timeline.of[pos[r.id]] for r in rs]
     first, last = [""] * len(rs), [""] * len(rs)
     for c in sorted(set(cal)):
         mine = [k for k, x in enumerate(cal) if x == c]
-        f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine])
+        f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine],
+                      None if milestones is None else [milestones[k] for k in mine],
+                      None if states is None else [states[k] for k in mine], late)
         for k, a, b in zip(mine, f, g):
             first[k], last[k] = a, b
     return first, last
@@ -71,8 +93,9 @@ def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
     acts = {a.id: a for a in project.activities}
     rs = sched.activities
     timeline = Timeline(project)
-    es, ef = _row_dates(project, timeline, rs, "es", "ef")
-    ls, lf = _row_dates(project, timeline, rs, "ls", "lf")
+    states = sched.states or None
+    es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
+    ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
     rows = []
     for k, r in enumerate(rs):
         a = acts[r.id]
@@ -95,6 +118,7 @@ def schedule_json(project: Project, sched: Schedule) -> dict:
         "finish_date": iso(sched.finish_date),
         "data_date": iso(project.data_date),
         "deadline": sched.deadline,
+        "deadline_date": iso(sched.deadline_date),
         "critical_paths": [list(p) for p in sched.critical_paths],
         "critical_paths_truncated": sched.paths_truncated,
         "longest_paths": [list(p) for p in sched.longest_paths],
@@ -230,4 +254,19 @@ def recovery_json(rec: Recovery) -> dict:
         "courses": [course(c) for c in rec.courses],
         "warnings": list(rec.warnings),
         "notes": list(rec.notes),
+    }
+
+
+# -- the schedule check --------------------------------------------------------------
+def quality_json(report: QualityReport) -> dict:
+    """The schedule-quality check: a summary and every measure with its threshold."""
+    return {
+        "summary": report.summary(),
+        "passed": not report.failed,
+        "measures": [{"measure": m.key, "title": m.title, "assessed": m.assessed, "passed": m.passed,
+                      "count": m.count, "of": m.base, "unit": m.unit,
+                      "share": None if m.share is None else round(m.share, 4),
+                      "threshold": m.limit, "at_least": m.at_least, "items": list(m.items),
+                      "fix": m.fix, "note": m.note} for m in report.measures],
+        "thresholds": dict(report.thresholds),
     }

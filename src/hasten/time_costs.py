@@ -29,13 +29,15 @@ class TimeCosts:
         return self.indirect + self.damages - self.bonus
 
 
-def time_costs(project: Project, clock: CalendarClock, finish: int) -> TimeCosts:
-    """Time-related costs of finishing after ``finish`` working days."""
+def time_costs(project: Project, clock: CalendarClock, finish: int, *, floor: int = 0) -> TimeCosts:
+    """Time-related costs of finishing after ``finish`` working days; ``floor``: the first
+    working day the finish may be dated on (a milestone that cannot happen before it, see
+    :meth:`hasten.network.Network.finish_date`)."""
     indirect = project.costs.indirect_per_day * finish
     contract = project.contract
     if contract.finish is None:
         return TimeCosts(indirect, 0.0, 0.0, 0, 0)
-    delta = (clock.project_finish_date(finish) - contract.finish).days
+    delta = (clock.date_of(max(finish - 1, floor, 0)) - contract.finish).days
     late = max(delta, 0)
     early = max(-delta, 0)
     paid_early = early if contract.bonus_cap_days is None else min(early, contract.bonus_cap_days)

@@ -5,7 +5,8 @@ Progress and date columns (all optional):
 * ``actual_start``, ``actual_finish`` (the last day worked): dates of work already done.
   They need the settings' data date (``[status] data_date``); an actual start must be on or
   before it, an actual finish before it and not before the actual start; an actual finish
-  needs an actual start; no actual start may be before the project start.
+  needs an actual start; no actual start of work may be before the project start (a
+  milestone's may: a notice to proceed or an award dated before the first site day).
 * ``remaining`` (whole working days, at most the duration) and ``percent_complete``
   (0 to 100, decimals allowed) describe a started activity, so they need an actual start.
   Both may be given: ``remaining`` wins and ``percent_complete`` is kept for the record
@@ -281,7 +282,7 @@ def check_progress(rows: Sequence[ActivityRow], table: Table, start: date,
                 cells["actual_start"],
                 "give [status] data_date (workbook key status.data_date, JSON "
                 "project.status.data_date): the date of the progress update")
-        if act.actual_start < start:
+        if act.actual_start < start and act.duration > 0:  # (a milestone may: an award, a notice)
             raise where.at("actual_start").error(
                 f"the actual start is before the project start ({start.isoformat()})",
                 cells["actual_start"], "correct the date, or move the project start back")

@@ -201,7 +201,8 @@ def _requests(lines: Lines, jobs: dict[int, _Job]) -> None:
 
 def _note(job: _Job, mode: _Mode) -> str:
     amounts = ", ".join(f"N{k + 1} {a}" for k, a in enumerate(mode.amounts))
-    return (f"PSPLIB mode {mode.number} of job {job.number}: {mode.duration} periods"
+    return (f"PSPLIB mode {mode.number} of job {job.number}: {mode.duration} "
+            f"period{'' if mode.duration == 1 else 's'}"
             + (f"; nonrenewable {amounts}" if amounts else ""))
 
 
