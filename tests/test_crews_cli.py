@@ -270,3 +270,29 @@ def test_without_crews_nothing_changes(walls):
     data = json.loads(run("plan", walls, "--finish", 32, "--json").output)
     # 3 days without options: B 3 x 800 = 2,400 (S costs 1,000 a day)
     assert data["added_cost"] == 2400 and not any("crews" in n for n in data["notes"])
+
+
+def test_started_work_and_calendars_of_their_own(walls):
+    from datetime import date
+
+    from hasten.crew_project import calendar_days, crew_notes
+    from hasten.project import Calendar
+
+    p = read_project(walls)
+    six = Calendar((0, 1, 2, 3, 4, 5), (), "six-day")
+    a = replace(p.activity("A"), calendar="six-day")
+    on_six = replace(p, calendars=(six,), activities=tuple(a if x.id == "A" else x for x in p.activities))
+    assert (calendar_days(on_six, a), calendar_days(p, p.activity("A"))) == (6, 5)
+    built = crew_options(on_six, "6x10")
+    # 20 days worked at six a week on a six-day calendar: 3 x 6 + 2 = 20 working days (the
+    # Saturdays count); normal working, 20 days at five a week: 3 x 6 + 5 = 23 working days
+    # (project_days, checked against numpy business days in test_crew_options.py)
+    assert (built.results[0].options[0].duration, built.results[0].normal.duration) == (20, 23)
+    assert any("its duration (20 working days) is not what its labour data gives at normal "
+               "working (23)" in n for n in crew_notes(built))
+    # work already started is not priced: the optimiser offers options to work not started
+    started = replace(p, data_date=date(2027, 3, 15), activities=tuple(
+        replace(x, actual_start=date(2027, 3, 8)) if x.id == "A" else x for x in p.activities))
+    built = crew_options(started, "6x10")
+    assert built.results == () and built.passed[0][0] == "A"
+    assert "A: not priced, work has started" in " ".join(crew_notes(built))

@@ -108,12 +108,14 @@ def _crews(project: Path, crews: str | None, productivity: Path | None):
         if productivity is not None:
             raise InputError("--productivity replaces the overtime table of options built from "
                              "crews, and no --crews was given", value=str(productivity),
-                             fix="add --crews 6x10 (or other measures), or leave out --productivity")
+                             fix="add --crews 6x10 (or other measures), or leave out "
+                                 "--productivity")
         return p, notes
     from .crew_project import crew_notes, crew_options, with_crew_options
     from .formats.productivity import read_productivity
 
-    build = crew_options(p, crews, None if productivity is None else read_productivity(productivity))
+    table = None if productivity is None else read_productivity(productivity)
+    build = crew_options(p, crews, table)
     try:
         return with_crew_options(p, build), tuple(notes) + tuple(crew_notes(build))
     except InputError as exc:

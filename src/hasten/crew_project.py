@@ -32,7 +32,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 
-from hasten.crew_options import CrewOptions, build_options, labour_cautions, option_sources, with_options
+from hasten.crew_options import (CrewOptions, build_options, labour_cautions, option_sources,
+                                 with_options)
 from hasten.errors import InputError
 from hasten.labour import LabourRules, parse_measures
 from hasten.productivity import ProductivityTable, table_named

@@ -32,15 +32,12 @@ def options_text(project: Project, build: CrewBuild) -> str:
     rows, skipped = [], []
     for r in build.results:
         normal = r.normal
-        first = True
-        for option in r.options:
-            rows.append([r.activity_id if first else "", names.get(r.activity_id, "") if first else "",
-                         f"{normal.duration}" if first else "", option.name, option.duration,
-                         money(option.added_cost)])
-            first = False
-        if first:
-            rows.append([r.activity_id, names.get(r.activity_id, ""), f"{normal.duration}",
-                         "(none)", "", ""])
+        head = [r.activity_id, names.get(r.activity_id, ""), f"{normal.duration}"]
+        for k, option in enumerate(r.options):
+            rows.append((head if k == 0 else ["", "", ""])
+                        + [option.name, option.duration, money(option.added_cost)])
+        if not r.options:
+            rows.append(head + ["(none)", "", ""])
         skipped += [f"- {r.activity_id} {s.measure}: {s.reason}" for s in r.skipped]
     skipped += [f"- {ident}: {why}" for ident, why in build.passed]
     lines = [f"Options from crews ({build.schedules}) for {project.name}: {build.options} "

@@ -62,8 +62,8 @@ class Document:
         """The columns to write: the plan columns, then the progress columns, the calendar
         column and the labour columns in use."""
         used = {key for record in self.activities for key in record}
-        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS
-                                    if c in used)
+        optional = PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS
+        return PLAN_COLUMNS + tuple(c for c in optional if c in used)
 
 
 def _in_reading_order(project: Project) -> bool:

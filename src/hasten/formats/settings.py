@@ -28,8 +28,8 @@ from dataclasses import dataclass
 from datetime import date
 
 from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
-from hasten.formats.labour import (LABOUR, LABOUR_KEYS, check_labour_key, flatten_labour, labour_values,
-                                   parse_labour)
+from hasten.formats.labour import (LABOUR, LABOUR_KEYS, check_labour_key, flatten_labour,
+                                   labour_values, parse_labour)
 from hasten.formats.tables import Settings
 from hasten.labour import LabourRules
 from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
@@ -351,5 +351,5 @@ def settings_values(project: Project) -> dict[str, object]:
         "contract.bonus_cap_days": project.contract.bonus_cap_days,
         "status.data_date": project.data_date,
     }
-    return ({k: v for k, v in values.items() if v is not None} | _calendars_values(project.calendars)
-            | labour_values(project.labour))
+    given = {k: v for k, v in values.items() if v is not None}
+    return given | _calendars_values(project.calendars) | labour_values(project.labour)

@@ -173,7 +173,8 @@ def option_rows(table: Table | None,
                 "remove this option, or give the activity its normal duration")
         option = _option(row, table)
         floor = owner.activity.min_duration
-        for column, days in (("duration", option.duration), ("crash_duration", option.crash_duration)):
+        for column, days in (("duration", option.duration),
+                             ("crash_duration", option.crash_duration)):
             if days is not None and days < floor:
                 raise cell_ref(row, table, column).error(
                     f"the option takes '{ident}' below its physical minimum (min_duration "
