@@ -13,11 +13,11 @@ CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions", "labour", "productivity", "premium", "crew_options", "quality",
-        "uncertainty", "simulation", "cluster", "accelerated", "price"]
+        "uncertainty", "simulation", "cluster", "accelerated", "price", "crew_project"]
 EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "render_fit", "charts", "report",
-         "report_html", "report_md", "report_xlsx", "report_files"]  # and formats/
-EDGE = {"cli", "formats", "render", "render_json", "render_fit", "charts", "report", "report_html", "report_md",
-        "report_xlsx", "report_files", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
+         "report_html", "report_md", "report_xlsx", "report_files", "render_crews"]  # and formats/
+EDGE = {"cli", "formats", "render", "render_json", "render_fit", "render_crews", "charts", "report", "report_html",
+        "report_md", "report_xlsx", "report_files", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 
 def _imports(path: Path) -> set[str]:

@@ -51,6 +51,8 @@ WideOpt = Annotated[bool, typer.Option("--wide", help="Show long names whole (ta
 OutOpt = Annotated[Optional[Path], typer.Option("--out", help="Also write the revised schedule to FILE.csv or FILE.xlsx.")]
 SaveOpt = Annotated[Optional[Path], typer.Option("--save-as", help="Also write the accelerated project to a new folder, .xlsx or .json.")]
 PlotOpt = Annotated[Optional[Path], typer.Option("--plot", help="Also draw the schedule before and after to FILE.png, .svg or .pdf.")]
+CrewsOpt = Annotated[Optional[str], typer.Option("--crews", help="Also offer options built from the activities' crew data: measures such as 5x10,6x10,2-shifts,+1-crew (see hasten options).")]
+ProductivityOpt = Annotated[Optional[Path], typer.Option("--productivity", help="Your own overtime productivity table (CSV: schedule,week,loss) in place of the built-in one.")]
 
 
 def _echo(text: str) -> None:
@@ -114,6 +116,29 @@ def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path
     for path in paths + tables + charts:
         if path is not None:
             check_output_target(path, inputs=[project], force=force)
+
+
+def _crews(project: Path, crews: str | None, productivity: Path | None):
+    """The project and its reading notes, with the options built from crews added when
+    ``--crews`` is given (after the project's own options; a name used twice is refused);
+    the notes then also say what was built, what the options rest on and the cautions."""
+    p, notes = read_project_with_notes(project)
+    if crews is None:
+        if productivity is not None:
+            raise InputError("--productivity replaces the overtime table of options built from "
+                             "crews, and no --crews was given", value=str(productivity),
+                             fix="add --crews 6x10 (or other measures), or leave out "
+                                 "--productivity")
+        return p, notes
+    from .crew_project import crew_notes, crew_options, with_crew_options
+    from .formats.productivity import read_productivity
+
+    table = None if productivity is None else read_productivity(productivity)
+    build = crew_options(p, crews, table)
+    try:
+        return with_crew_options(p, build), tuple(notes) + tuple(crew_notes(build))
+    except InputError as exc:
+        raise exc.located(str(project)) from None
 
 
 def _with_check(obj: dict, check: tuple[str, ...]) -> dict:
@@ -266,6 +291,8 @@ def plan(
     save_as: SaveOpt = None,
     plot: PlotOpt = None,
     force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
@@ -273,7 +300,7 @@ def plan(
 
         target = _target(finish, by, earlier)
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         result = least_cost_plan(p, target, time_limit=time_limit)
         _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
         check = _quality_notice(p)
@@ -324,13 +351,13 @@ def curve(
 def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None, wide: WideOpt = False,
          out: OutOpt = None, save_as: SaveOpt = None,
          plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish, the best one marked, to FILE.png, .svg or .pdf.")] = None,
-         force: ForceOpt = False) -> None:
+         force: ForceOpt = False, crews: CrewsOpt = None, productivity: ProductivityOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         from .questions import best_finish
 
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
         _write_outputs(result.plan, out=out, save_as=save_as, original=p)
@@ -354,13 +381,15 @@ def budget(
     save_as: SaveOpt = None,
     plot: PlotOpt = None,
     force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
         from .questions import earliest_within
 
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         if not math.isfinite(spend) or spend < 0:
             raise InputError("--spend must be a number 0 or more", value=spend,
                              fix="give the most you would add to the direct cost, e.g. --spend 50000")
@@ -382,6 +411,8 @@ def recover(
     plot: PlotOpt = None,
     course: Annotated[str, typer.Option("--course", help="The course --save-as and --plot use: 'least' (least total cost) or 'full' (recover fully).")] = "least",
     force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
 ) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
@@ -391,7 +422,7 @@ def recover(
             raise InputError("--course is not understood", value=course,
                              fix="write --course least (least total cost) or --course full (recover fully)")
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
-        p, notes = read_project_with_notes(project)
+        p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
         label = "least total cost" if course == "least" else "recover fully"
@@ -472,6 +503,39 @@ def report(
         for note in result.notes:
             _echo(f"Note: {note}")
         _echo("wrote " + ", ".join(str(w) for w in written))
+
+
+@app.command()
+def options(
+    project: ProjectArg,
+    out: Annotated[Optional[Path], typer.Option("--out", "-o", help="Write the options to FILE.csv (or .xlsx) in the layout of a project's options.csv.")] = None,
+    schedules: Annotated[Optional[str], typer.Option("--schedules", help="Measures to price, separated by commas: DAYSxHOURS (6x10), 2-shifts, +N-crew. Default: 5x10,6x10,2-shifts,+1-crew.")] = None,
+    productivity: ProductivityOpt = None,
+    force: ForceOpt = False,
+) -> None:
+    """Acceleration options built from crew data (labour hours, crew, wage, [labour] rules):
+    extended hours, a second shift, extra crews, each priced against normal working."""
+    with _errors():
+        from .crew_project import DEFAULT_SCHEDULES, crew_options
+        from .formats.productivity import read_productivity
+        from .render_crews import OPTIONS_TABLE_COLUMNS, options_rows, options_text
+
+        _outputs(project, force, tables=(out,))
+        if out is not None and productivity is not None:
+            check_output_target(out, inputs=[productivity], force=force)
+        p, notes = read_project_with_notes(project)
+        table = None if productivity is None else read_productivity(productivity)
+        build = crew_options(p, DEFAULT_SCHEDULES if schedules is None else schedules, table,
+                             column="--schedules")
+        if out is not None:
+            write_table(out, OPTIONS_TABLE_COLUMNS, options_rows(build), sheet_name="options",
+                        money_columns=("added_cost",), currency=p.currency)
+        for note in notes:
+            _echo(f"Note: {note}")
+        _echo(options_text(p, build))
+        if out is not None:
+            _echo(f"\nWrote {out}: {build.options} options (copy it into a project folder as "
+                  "options.csv, or use --crews on plan, best, budget and recover)")
 
 
 @app.command()

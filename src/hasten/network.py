@@ -13,16 +13,33 @@ from __future__ import annotations
 import numpy as np
 
 from .calendar import Timeline
-from .errors import CycleError
+from .errors import CycleError, InputError
 from .graph import find_cycle, levels
 from .passes import CpmPasses
 from .progress import DONE, STARTED, WAITING, apply_progress
-from .project import LinkType, Project
+from .project import Activity, LinkType, Option, Project
 
 __all__ = ["Network"]
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _KIND = {LinkType.FS: _FS, LinkType.SS: _SS, LinkType.FF: _FF, LinkType.SF: _SF}
+
+
+def _floored(activity: Activity) -> tuple[Option, ...]:
+    """The options of ``activity``, their own shortening stopped at its physical minimum;
+    an option shorter than the minimum is refused (the formats refuse it when reading)."""
+    floor, out = activity.min_duration, []
+    for option in activity.options:
+        if option.duration < floor:
+            raise InputError(f"activity '{activity.id}': the option '{option.name}' takes "
+                             f"{option.duration} working days, below the physical minimum of "
+                             f"{floor}", column="duration", value=option.duration,
+                             fix=f"give the option at least {floor} days, or lower min_duration")
+        if option.shortest < floor:
+            option = Option(option.name, option.duration, option.added_cost, option.note,
+                            floor, option.cost_per_day)
+        out.append(option)
+    return tuple(out)
 
 
 class Network(CpmPasses):
@@ -45,7 +62,8 @@ class Network(CpmPasses):
         idx = self.index
         # what is left to schedule: durations at normal pace, crash steps, options
         self.durations: list[int] = [s.duration for s in states]
-        self.options = [a.options if s.state == WAITING else () for a, s in zip(acts, states)]
+        self.options = [(_floored(a) if a.min_duration else a.options) if s.state == WAITING else ()
+                        for a, s in zip(acts, states)]
         self._steps: list | None = None
         self._shortest: list[int] | None = None
         self.release: list[int] = [s.release for s in states]  # earliest start

@@ -22,6 +22,18 @@ Progress and date columns (all optional):
 ``calendar`` (optional column): the name of one of the calendars defined in the settings
 (``[calendars.NAME]``), on whose working days the activity is worked. An empty cell means
 the project calendar; an undefined name is refused.
+
+Labour columns (all optional), from which acceleration options are built
+(:mod:`hasten.crew_options`):
+
+* ``labour_hours``: work-hours left at normal productivity (0 or more). Given, it makes the
+  row's crew data, and then ``crew_size`` (workers in one crew, at least 1) is required;
+  ``wage`` (straight-time rate per hour, more than 0; empty: the trade's rate under
+  ``[labour.wages]``), ``max_crews`` (crews the area takes at once, at least 1, default 1)
+  and ``equipment_per_day`` (plant cost per working day, default 0) are optional. Any of
+  them without ``labour_hours`` is refused.
+* ``min_duration``: the physical minimum in working days (curing, lead times), with or
+  without crew data: at most the duration, and no crash duration below it.
 """
 
 from __future__ import annotations
@@ -29,16 +41,17 @@ from __future__ import annotations
 import difflib
 import re
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from datetime import date
 
 from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
                                   whole_value)
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
-                                    PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref, check_columns,
-                                    optional, required)
+                                    LABOUR_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref,
+                                    check_columns, optional, required)
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
+from hasten.labour import CrewData
 from hasten.project import Activity
 
 __all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars", "percent_notes"]
@@ -130,6 +143,47 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
         calendar=optional(row, table, CALENDAR_COLUMN, text_value, ""),
         **(_progress(row, table, duration) if with_progress else {}),
     )
+
+
+def _at_least_one(text: str, where: CellRef) -> int:
+    return whole_value(text, where, minimum=1, unit="crews or workers")
+
+
+def _labour(row: Row, table: Table, activity: Activity) -> Activity:
+    """The activity with the physical minimum and the crew data of its row."""
+    minimum = optional(row, table, "min_duration", whole_value, 0)
+    if minimum > activity.duration:
+        raise cell_ref(row, table, "min_duration").error(
+            f"the physical minimum is longer than the duration ({activity.duration})",
+            row.cells["min_duration"],
+            f"write {activity.duration} or less, or raise the duration")
+    if activity.crash_duration is not None and activity.crash_duration < minimum:
+        raise cell_ref(row, table, "crash_duration").error(
+            f"the crash duration is below the physical minimum (min_duration {minimum})",
+            row.cells["crash_duration"],
+            f"write a crash duration of {minimum} or more, or lower min_duration")
+    hours = optional(row, table, "labour_hours", number_value)
+    if hours is None:
+        given = next((c for c in LABOUR_COLUMNS[1:-1] if row.cells.get(c)), None)
+        if given is not None:
+            raise cell_ref(row, table, given).error(
+                "crew data without labour hours", row.cells[given],
+                "write the work-hours left at normal productivity in labour_hours, or clear "
+                "this cell")
+        return replace(activity, min_duration=minimum) if minimum else activity
+    if hours > 0 and activity.is_milestone:
+        raise cell_ref(row, table, "labour_hours").error(
+            "a milestone (duration 0) has no work to do", row.cells["labour_hours"],
+            "clear the labour data, or give the activity its normal duration")
+    crew = CrewData(
+        labour_hours=hours,
+        crew_size=required(row, table, "crew_size", _at_least_one,
+                           "the number of workers in one crew, e.g. 4"),
+        wage=optional(row, table, "wage", number_value),
+        max_crews=optional(row, table, "max_crews", _at_least_one, 1),
+        equipment_per_day=optional(row, table, "equipment_per_day", number_value, 0.0),
+        trade=activity.trade, file=table.source, row=row.line)
+    return replace(activity, min_duration=minimum, crew=crew)
 
 
 def _percent(text: str, where: CellRef) -> float:
@@ -256,6 +310,9 @@ def activity_rows(table: Table) -> list[ActivityRow]:
     with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
     rows = [ActivityRow(_activity(r, table, with_progress), CellRef(table.source, r.line))
             for r in table.rows]
+    if any(column in table.columns for column in LABOUR_COLUMNS):
+        rows = [ActivityRow(_labour(r, table, row.activity), row.where)
+                for r, row in zip(table.rows, rows)]
     first: dict[str, ActivityRow] = {}
     for row in rows:
         ident = row.activity.id

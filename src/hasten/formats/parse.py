@@ -62,6 +62,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
         contract=settings.contract,
         data_date=settings.data_date,
         calendars=settings.calendars,
+        labour=settings.labour,
     )
     check_reach(project, {r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],
