@@ -313,11 +313,20 @@ class Planner:
     def best_finish(self, progress: Progress | None = None) -> BestFinish:
         """The finish with the least total cost (direct + indirect + damages - bonus).
 
-        Ties go to the later finish: the same money for less acceleration.
+        Ties go to the later finish: the same money for less acceleration. With linear
+        costs on one calendar (no discrete options, no milestone deadlines) the added cost
+        is convex in the finish, so the cost of each further day only grows: the trace
+        stops at the first day that costs more than any day can save in time costs
+        (indirect cost, plus damages and bonus over the most calendar days one working day
+        can span), and ``table`` holds the finishes traced. Otherwise every finish from the
+        shortest to the current one is priced.
         """
-        points = self.curve(progress=progress)
-        table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
-                      for p in reversed(points.points))
+        if self._partial_ok:
+            table = self._total_costs_while_they_can_fall(progress)
+        else:
+            points = self.curve(progress=progress)
+            table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
+                          for p in reversed(points.points))
         best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
         plan = self.plan(best.finish)
         # Report the plan's own figures: among plans of the same least cost the tie-break may
@@ -326,6 +335,33 @@ class Planner:
         point = self.total_cost_point(plan.finish, plan.added_cost, plan.milestone_damages)
         current = next(r for r in table if r.finish == self.normal_finish)
         return BestFinish(point, current, table, plan, self.notes)
+
+    def _total_costs_while_they_can_fall(self, progress: Progress | None) -> tuple[TotalCostPoint, ...]:
+        """Total cost points from the current finish down, until one more day costs more in
+        acceleration than it can save in time costs (every earlier day then costs more)."""
+        contract = self.project.contract
+        rate = (contract.damages_per_day + contract.bonus_per_day) if contract.finish is not None else 0.0
+        days = self.clock.dates_of(range(self.normal_finish + 1))
+        spans = [1] + [max((b - a).days, 1) for a, b in zip(days, days[1:])]  # calendar days per working day
+        widest = list(spans)
+        for t in range(1, len(widest)):
+            widest[t] = max(widest[t], widest[t - 1])  # the widest span at or before each day
+        rows, previous = [], None
+        for target in range(self.normal_finish, -1, -1):
+            try:
+                sol = self._solve(target, tie_break=False)
+            except InfeasibleTargetError:
+                break
+            cost = self._checked(sol, target)[1]
+            rows.append(self.total_cost_point(target, cost))
+            if progress:
+                progress(len(rows), len(rows) + 1)
+            can_save = self.project.costs.indirect_per_day + rate * widest[target + 1] if target + 1 < len(widest) \
+                else float("inf")
+            if previous is not None and cost - previous > can_save + 1e-9 * max(1.0, abs(cost)):
+                break
+            previous = cost
+        return tuple(reversed(rows))
 
     def earliest_within(self, budget: float) -> Plan:
         """The earliest finish whose least added cost is within ``budget``, and its plan.
