@@ -155,6 +155,9 @@ def test_agrees_with_the_network_and_the_old_check(project, data):
                         claimed_damages=damages)
     assert list(got.starts) == es
     assert got.finish == finish
+    # plain Python numbers, never numpy scalars
+    assert type(got.finish) is int and all(type(x) is int for x in got.starts)
+    assert type(got.cost) is float and all(type(x) is float for x in got.added_costs)
     assert all(close(a, b) for a, b in zip(got.added_costs, costs))
     assert close(got.cost, sum(costs)) and close(got.damages, damages)
     # the network's early starts keep every link in force, the data date and not-before dates
@@ -577,3 +580,11 @@ def test_odeh_fs_lags_early_starts():
     d = [a.duration for a in project.activities]
     got = check_plan(project, d, claimed_finish=expected["project_duration"], claimed_cost=0.0)
     assert dict(zip((a.id for a in project.activities), got.starts)) == expected["ES"]
+
+
+def test_the_examples_in_the_docstrings_run():
+    import doctest
+
+    import hasten.plan_check
+
+    assert doctest.testmod(hasten.plan_check).failed == 0
