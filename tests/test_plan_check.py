@@ -137,7 +137,7 @@ def reference(project: Project, net: Network, d: list[int], choices: list[int]):
     # prices them too, so its reference project leaves their deadlines out)
     unfinished = dataclasses.replace(project, activities=tuple(
         dataclasses.replace(a, deadline=None) if fixed else a for a, fixed in zip(project.activities, net.fixed)))
-    damages = NetworkChecker(Network(unfinished)).penalty([s + x for s, x in zip(es, d)])
+    damages = NetworkChecker(Network(unfinished)).milestone_damages([s + x for s, x in zip(es, d)])
     return es, finish, costs, damages
 
 
