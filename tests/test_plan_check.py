@@ -3,9 +3,10 @@
 Sources of the checks:
 
 - agreement of two independent implementations on random projects (hypothesis): the early
-  starts and finish of hasten.network (Network.forward, finish_of, progress applied by
-  hasten.progress) and the added costs of hasten.checks.PlanChecker.added_costs, against
-  plan_check's own reading of the project; every start moved a day earlier is refused;
+  starts, finish and finish date of hasten.network (Network.forward, finish_of,
+  finish_date, progress applied by hasten.progress) and the added costs and milestone
+  damages of hasten.plan_costs (the optimiser side), against plan_check's own reading of the
+  project; every start moved a day earlier is refused;
 - hand-worked examples of our own, arithmetic written beside each (working-day offsets on
   a Mon-Fri calendar from Mon 2024-01-01: Mon 01-01 = day 0 ... Fri 01-05 = 4, Mon 01-08 = 5,
   Tue 01-09 = 6, Wed 01-10 = 7, Thu 01-11 = 8, Fri 01-12 = 9, Mon 01-15 = 10, Mon 01-22 = 15);
@@ -26,10 +27,10 @@ from hypothesis import strategies as st
 
 from conftest import (PROPERTY, TOL, load_json, make_project, project_from_example,
                       project_from_numbers)
-from hasten.checks import PlanChecker as NetworkChecker
 from hasten.errors import PlanCheckError
 from hasten.network import Network
 from hasten.plan_check import PlanChecker, check_plan
+from hasten.plan_costs import added_costs, milestone_damages
 from hasten.project import Activity, Calendar, CrashStep, Link, LinkType, Option, Project
 
 FS, SS, FF, SF = LinkType.FS, LinkType.SS, LinkType.FF, LinkType.SF
@@ -129,23 +130,19 @@ def draw_plan(net: Network, data) -> tuple[list[int], list[int]]:
 
 
 def reference(project: Project, net: Network, d: list[int], choices: list[int]):
-    """Early starts, finish, added costs and damages by hasten.network and hasten.checks."""
+    """Early starts, finish, added costs and damages by hasten.network and hasten.plan_costs."""
     es = net.forward(d)
     finish = net.finish_of(es, d)
-    costs = NetworkChecker(net).added_costs(d, choices)
-    # the damages of work not finished (finished work's dates are history; the old check
-    # prices them too, so its reference project leaves their deadlines out)
-    unfinished = dataclasses.replace(project, activities=tuple(
-        dataclasses.replace(a, deadline=None) if fixed else a for a, fixed in zip(project.activities, net.fixed)))
-    damages = NetworkChecker(Network(unfinished)).milestone_damages([s + x for s, x in zip(es, d)])
+    costs = added_costs(net, d, choices)
+    damages = milestone_damages(net, [s + x for s, x in zip(es, d)])
     return es, finish, costs, damages
 
 
 @PROPERTY
 @given(projects(), st.data())
-def test_agrees_with_the_network_and_the_old_check(project, data):
+def test_agrees_with_the_network_and_the_optimiser_costs(project, data):
     # two independent implementations: hasten.network (with hasten.progress and
-    # hasten.calendar.Timeline) and hasten.checks against plan_check's own reading
+    # hasten.calendar.Timeline) and hasten.plan_costs against plan_check's own reading
     net = Network(project)
     d, choices = draw_plan(net, data)
     es, finish, costs, damages = reference(project, net, d, choices)
@@ -154,16 +151,22 @@ def test_agrees_with_the_network_and_the_old_check(project, data):
     got = checker.check(d, choices=choices, claimed_finish=finish, claimed_cost=sum(costs),
                         claimed_damages=damages)
     assert list(got.starts) == es
-    assert got.finish == finish
+    assert got.finish == finish and got.finish_date == net.finish_date(finish)
     # plain Python numbers, never numpy scalars
     assert type(got.finish) is int and all(type(x) is int for x in got.starts)
     assert type(got.cost) is float and all(type(x) is float for x in got.added_costs)
     assert all(close(a, b) for a, b in zip(got.added_costs, costs))
     assert close(got.cost, sum(costs)) and close(got.damages, damages)
-    # the network's early starts keep every link in force, the data date and not-before dates
-    again = checker.check(d, choices=choices, starts=es, claimed_finish=finish, claimed_cost=sum(costs),
-                          claimed_damages=damages)
+    # the network's early starts keep every link in force, the data date and not-before
+    # dates, and are the check's own early starts; each figure claimed as the planner does
+    again = checker.check(d, choices=choices, starts=es, early=True, claimed_finish=finish,
+                          claimed_cost=sum(costs), claimed_costs=costs, claimed_damages=damages,
+                          claimed_finish_date=net.finish_date(finish))
     assert again == got
+    # the pass level by level (numpy, chosen for wide networks on one calendar) agrees too
+    if not checker._h_cross.any():
+        checker._vector = True
+        assert checker.forward(d) == es
 
 
 @PROPERTY
@@ -449,6 +452,116 @@ def test_damages_are_those_of_the_dates_given():
     assert close(got.damages, 10) and got.starts[-1] == 6
     with refused("the milestone damages sum to 10.00, not 0.00 as claimed"):
         check_plan(project, NORMAL + [0], starts=EARLY + [7], claimed_finish=9, claimed_cost=0.0)
+
+
+# -- milestones at a point in time (README "Method", "Milestones"; hand-worked, our own) --
+
+def test_a_notice_to_proceed_and_work_the_same_day_are_in_sequence():
+    # NTP happened on Mon 01-01: at the start of that day, day 0; SET (FS after it) started
+    # the same day, 0 >= 0 + 0: the link holds. Data date Mon 01-08 = day 5: SET's 2 days
+    # left run 5-7. (Under the old rule NTP sat at the end of its day, 1, and broke the link.)
+    project = make_project([
+        Activity("NTP", 0, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 1)),
+        Activity("SET", 5, actual_start=date(2024, 1, 1), remaining=2),
+    ], [Link("NTP", "SET")], data_date=date(2024, 1, 8))
+    checker = PlanChecker(project)
+    assert checker.dropped == frozenset()
+    got = checker.check([0, 2], starts=[0, 5], claimed_finish=7, claimed_cost=0.0)
+    assert got.starts == (0, 5) and got.finish_date == date(2024, 1, 9)  # day 6
+    with refused("finished NTP moved from its actual dates: it starts on day 1, not on day 0"):
+        checker.check([0, 2], starts=[1, 5], claimed_finish=7, claimed_cost=0.0)
+
+
+def test_a_milestone_dated_on_its_predecessors_last_day_happens_at_its_end():
+    # ROOF worked Mon 01-08 .. Wed 01-10: days 5-7, finish 8. DRY (FS after ROOF) dated
+    # 01-10 (day 7): ROOF ends after the start of that day (8 > 7), so DRY happened at its
+    # end, 8. FIT (FS after DRY) started 01-10 = 7 < 8: out of sequence, the link (index 1)
+    # no longer holds; GO (FS after DRY) started Thu 01-11 = 8 >= 8: in sequence. Data date
+    # Mon 01-15 = day 10: FIT and GO run their 3 days left 10-13.
+    project = make_project([
+        Activity("ROOF", 3, actual_start=date(2024, 1, 8), actual_finish=date(2024, 1, 10)),
+        Activity("DRY", 0, actual_start=date(2024, 1, 10), actual_finish=date(2024, 1, 10)),
+        Activity("FIT", 5, actual_start=date(2024, 1, 10), remaining=3),
+        Activity("GO", 5, actual_start=date(2024, 1, 11), remaining=3),
+    ], [Link("ROOF", "DRY"), Link("DRY", "FIT"), Link("DRY", "GO")], data_date=date(2024, 1, 15))
+    checker = PlanChecker(project)
+    assert checker.dropped == {1}
+    got = checker.check([3, 0, 3, 3], starts=[5, 8, 10, 10], claimed_finish=13, claimed_cost=0.0)
+    assert got.starts == (5, 8, 10, 10)
+
+
+def test_a_milestone_before_the_project_start_is_history():
+    # NTP dated Fri 2023-12-29, the working day before day 0: position -1; SET (FS) started
+    # Mon 01-01 = 0 >= -1. Data date Mon 01-08 = day 5: SET 5-7.
+    project = make_project([
+        Activity("NTP", 0, actual_start=date(2023, 12, 29), actual_finish=date(2023, 12, 29)),
+        Activity("SET", 5, actual_start=date(2024, 1, 1), remaining=2),
+    ], [Link("NTP", "SET")], data_date=date(2024, 1, 8))
+    got = check_plan(project, [0, 2], starts=[-1, 5], claimed_finish=7, claimed_cost=0.0)
+    assert got.starts == (-1, 5) and got.finish == 7
+
+
+def delivery(order: int, deadline: date) -> Project:
+    """ORD (``order`` days, one day of crashing at 10) -> DEL (not before Mon 01-15 =
+    day 10; deadline; 50 a calendar day) -> ERE (2 days)."""
+    return make_project([
+        Activity("ORD", order, crash_duration=order - 1, cost=0.0, crash_cost=10.0),
+        Activity("DEL", 0, not_before=date(2024, 1, 15), deadline=deadline, damages_per_day=50.0),
+        Activity("ERE", 2),
+    ], [Link("ORD", "DEL"), Link("DEL", "ERE")])
+
+
+def test_a_delivery_held_by_its_not_before_date_is_dated_on_that_day():
+    # ORD 3 days ends at 3; DEL may not happen before the start of day 10 (Mon 01-15): it is
+    # dated Mon 01-15, 3 calendar days after its deadline Fri 01-12: 150, whether or not ORD
+    # is shortened. ERE 10-12: finish 12, dated day 11 = Tue 01-16.
+    for d, cost in (([3, 0, 2], 0.0), ([2, 0, 2], 10.0)):
+        got = check_plan(delivery(3, date(2024, 1, 12)), d, claimed_finish=12, claimed_cost=cost,
+                         claimed_damages=150.0)
+        assert got.starts == (0, 10, 10) and got.finish_date == date(2024, 1, 16)
+    with refused("the milestone damages sum to 150.00, not 0.00 as claimed"):
+        check_plan(delivery(3, date(2024, 1, 12)), [3, 0, 2], claimed_finish=12, claimed_cost=0.0)
+    # with its deadline on Mon 01-15 it is on time
+    assert check_plan(delivery(3, date(2024, 1, 15)), [3, 0, 2], claimed_finish=12, claimed_cost=0.0,
+                      strict=True).damages == 0
+
+
+def test_a_delivery_driven_by_its_predecessor_is_dated_on_the_day_it_ends():
+    # ORD 13 days ends at 13 (after day 10): DEL is dated on ORD's last day, 12 = Wed 01-17,
+    # 1 calendar day after a deadline of Tue 01-16: 50; ORD at 12 days ends Tue 01-16: on time
+    project = delivery(13, date(2024, 1, 16))
+    assert close(check_plan(project, [13, 0, 2], claimed_finish=15, claimed_cost=0.0,
+                            claimed_damages=50.0).damages, 50)
+    assert check_plan(project, [12, 0, 2], claimed_finish=14, claimed_cost=10.0, strict=True).damages == 0
+
+
+def test_a_job_ending_on_a_not_before_milestone_is_dated_on_its_day():
+    # A (3 days) -> HAND (not before Mon 01-15 = day 10): finish 10; HAND happens at the
+    # start of Mon 01-15, so the finish is dated 01-15, not Fri 01-12 (day 9)
+    project = make_project([Activity("A", 3), Activity("HAND", 0, not_before=date(2024, 1, 15))],
+                           [Link("A", "HAND")])
+    assert check_plan(project, [3, 0], claimed_finish=10, claimed_cost=0.0).finish_date == date(2024, 1, 15)
+    with refused("the plan's finish is dated 2024-01-15, not 2024-01-12 as claimed"):
+        check_plan(project, [3, 0], claimed_finish=10, claimed_cost=0.0, claimed_finish_date=date(2024, 1, 12))
+
+
+# -- figures shown with a plan, each compared ---------------------------------------------
+
+def test_starts_shown_as_early_starts_must_be_the_early_starts():
+    # four_links: E may start at 3 (hand-worked); shown at 4 it keeps every link and the
+    # finish, but it is not E's early start
+    starts = EARLY[:4] + [4]
+    check_plan(four_links(), NORMAL, starts=starts, claimed_finish=9, claimed_cost=0.0)
+    with refused("E is shown starting on day 4, but its early start is day 3"):
+        check_plan(four_links(), NORMAL, starts=starts, early=True, claimed_finish=9, claimed_cost=0.0)
+
+
+def test_a_cost_per_activity_misstated_is_refused():
+    # A at 3 days adds 100 (hand-worked above); claimed on B instead, the sum still 100
+    d = [3, 3, 5, 2, 3]
+    check_plan(four_links(), d, claimed_finish=8, claimed_cost=100.0, claimed_costs=[100.0, 0, 0, 0, 0])
+    with refused("A adds 100.00, not 0.00 as claimed"):
+        check_plan(four_links(), d, claimed_finish=8, claimed_cost=100.0, claimed_costs=[0, 100.0, 0, 0, 0])
 
 
 def options_project() -> Project:

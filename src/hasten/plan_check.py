@@ -1,22 +1,29 @@
 """An independent check of an acceleration plan, recomputed from the project alone.
 
 The optimiser compiles a project into a network (progress applied, links converted between
-calendars) and plans on it. This module shares none of that code: it reads the
-:class:`~hasten.project.Project` again and works out, by its own means,
+calendars), plans on it and reports the plan's finish, cost and damages. This module shares
+none of that code: it imports only :mod:`hasten.project`,
+:class:`~hasten.calendar.CalendarClock`, :mod:`hasten.errors`, the standard library and
+numpy. It reads the :class:`~hasten.project.Project` again
+(:mod:`hasten.plan_check_progress`: calendars, progress at the data date, when milestones
+happen, the links progress broke) and works out by its own means
 
-- each activity's state at the data date from its actual dates (finished, started, not
-  started), the working days left of started work (``remaining``; else
-  ``percent_complete`` of the duration, rounded up; else the duration less the working
-  days since the actual start), the crash allowance left to it (the share of its
-  allowance for the work left, rounded down; crash steps taken in order), and the earliest
-  start of what is left (the data date and the not-before date, in its own calendar);
-- the links that progress broke (the successor's constrained event already in the past and
-  the actual dates not satisfying the link): the actual dates stand and the link no longer
-  holds the successor back;
+- each duration a whole number within its bounds (finished work at its actual span,
+  started work within the share of its crash allowance left, an option within its range);
 - its own forward pass over the plan's durations (FS/SS/FF/SF links with lags; a link
   between two calendars taken at the moment the predecessor's event happens, the lag
-  counted in the successor's calendar), and the project finish in the project calendar;
-- its own sum of the added direct cost and of the damages of interim milestones.
+  counted in the successor's calendar), the project finish in the project calendar and
+  its date (its last working day, or the day of a milestone that cannot happen before it);
+- every link in force held by the starts shown, none before the data date, a not-before
+  date or day 0, finished work at its actual dates, and, for starts shown as the early
+  starts, each equal to its own;
+- its own sum of the added direct cost (crash steps in order, or the option chosen) and of
+  the damages of unfinished work past its own deadline, per calendar day from the deadline
+  to its date: the last day worked; for a milestone the day its predecessors end, never
+  before the first day it may happen (README "Method", "Milestones").
+
+Every figure claimed for the plan must agree with the check's own, else
+:class:`~hasten.errors.PlanCheckError` names the activity, link or figure.
 
 Durations and starts are those of the part still to schedule, per activity in project
 order: the working days left of started work (and the start of that part), the actual span
@@ -28,8 +35,8 @@ Examples
 >>> from hasten.project import Activity, Link, Project
 >>> job = Project("two", date(2024, 1, 1), (Activity("A", 5, crash_duration=3, crash_cost=20.0),
 ...               Activity("B", 4)), (Link("A", "B"),))
->>> check_plan(job, [4, 4], claimed_finish=8, claimed_cost=10.0).finish
-8
+>>> check_plan(job, [4, 4], claimed_finish=8, claimed_cost=10.0).finish_date
+datetime.date(2024, 1, 10)
 >>> check_plan(job, [2, 4], claimed_finish=6, claimed_cost=30.0)
 Traceback (most recent call last):
 ...
@@ -40,21 +47,17 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from datetime import timedelta
+from datetime import date
 from typing import Sequence
 
 import numpy as np
 
-from .calendar import CalendarClock
-from .errors import CycleError, InputError, PlanCheckError
-from .project import Activity, LinkType, Project
+from .errors import PlanCheckError
+from .plan_check_progress import DONE, FROM_FINISH, ON_START, STARTED, WAITING, Reading, link_text
+from .project import LinkType, Project
 
 __all__ = ["CheckedPlan", "PlanChecker", "check_plan"]
 
-_DONE, _STARTED, _WAITING = "finished", "started", "not started"
-_ONE_DAY = timedelta(days=1)
-_FROM_FINISH = (LinkType.FS, LinkType.FF)  # the link leaves the predecessor's finish
-_ON_START = (LinkType.FS, LinkType.SS)  # it holds the successor's start
 _TOL = 1e-6  # relative tolerance for money
 
 
@@ -64,30 +67,17 @@ class CheckedPlan:
 
     ``starts`` are the early starts of the part still to schedule (each in its activity's
     own calendar; finished work at its actual start), ``finish`` the project finish in
-    project working days, ``cost`` the added direct cost (``added_costs`` per activity) and
-    ``damages`` those of unfinished work past its own deadline, at the dates checked (the
-    starts given, else the early starts).
+    project working days and ``finish_date`` its date, ``cost`` the added direct cost
+    (``added_costs`` per activity) and ``damages`` those of unfinished work past its own
+    deadline, at the dates checked (the starts given, else the early starts).
     """
 
     starts: tuple[int, ...]
     finish: int
+    finish_date: date
     cost: float
     damages: float
     added_costs: tuple[float, ...]
-
-
-@dataclass(frozen=True)
-class _State:
-    state: str
-    normal: int  # working days to schedule at the normal pace (finished: the actual span)
-    room: int  # working days the crash steps may still take off
-    earliest: int  # earliest start of what is left (finished: its actual start)
-    actual: int | None  # actual start position, if any
-
-
-def _link_text(link) -> str:
-    lag = f"{link.lag:+d}" if link.lag else ""
-    return f"{link.pred} -> {link.succ} ({link.type.value}{lag})"
 
 
 def _money(x: float, y: float) -> bool:
@@ -119,197 +109,104 @@ class PlanChecker:
 
     def __init__(self, project: Project):
         self.project = project
-        acts, links = project.activities, project.links
-        self._ids = [a.id for a in acts]
-        pos = {a: k for k, a in enumerate(self._ids)}
-        self._conversions: dict = {}
-        self._cal = self._own_calendars(project)  # index into self._clocks; 0: the project's
-        data = [None if project.data_date is None else c.offset_of(project.data_date, finish=False)
-                for c in self._clocks]
-        self._states = [self._state(a, self._clocks[c], data[c]) for a, c in zip(acts, self._cal)]
-        for k in links:
-            if k.pred not in pos or k.succ not in pos:
-                raise InputError(f"link {_link_text(k)} names an activity the project does not have",
-                                 value=k.pred if k.pred not in pos else k.succ, fix="check the activity ids")
-        self._pred = [pos[k.pred] for k in links]
-        self._succ = [pos[k.succ] for k in links]
-        self._order = self._topological_order()
-        self.dropped = frozenset(self._broken_by_progress())
-        st = self._states
+        r = self._reading = Reading(project)
+        self._ids, self.dropped, st, links = r.ids, r.dropped, r.states, project.links
+        n = len(st)
         # the links in force into events still to schedule (the others are history)
         held = [e for e in range(len(links)) if e not in self.dropped and not (
-            st[self._succ[e]].state == _DONE or st[self._succ[e]].state == _STARTED and links[e].type in _ON_START)]
-        self._into: list[list[tuple]] = [[] for _ in acts]
-        for e in held:
-            i, j, link = self._pred[e], self._succ[e], links[e]
-            cross = None if self._cal[i] == self._cal[j] else (self._cal[i], self._cal[j])
-            self._into[j].append((i, link.type in _FROM_FINISH, link.type in _ON_START, link.lag, link.type, cross))
+            st[r.succ[e]].state == DONE or st[r.succ[e]].state == STARTED and links[e].type in ON_START)]
         self._held = np.asarray(held, dtype=np.int64)
+        self._hp = np.asarray(r.pred, dtype=np.int64)[self._held]
+        self._hs = np.asarray(r.succ, dtype=np.int64)[self._held]
+        kinds = [links[e].type for e in held]
+        self._h_from_finish = np.array([k in FROM_FINISH for k in kinds], dtype=bool)
+        self._h_on_start = np.array([k in ON_START for k in kinds], dtype=bool)
+        self._h_lag = np.array([links[e].lag for e in held], dtype=np.int64)
+        cal = np.asarray(r.cal, dtype=np.int64)
+        self._cal = cal
+        self._h_cross = cal[self._hp] != cal[self._hs]
+        self._into: list[list[tuple]] = [[] for _ in range(n)]
+        for x, e in enumerate(held):
+            i, j, kind = r.pred[e], r.succ[e], kinds[x]
+            cross = (r.cal[i], r.cal[j]) if self._h_cross[x] else None
+            self._into[j].append((i, kind in FROM_FINISH, kind in ON_START, links[e].lag, kind, cross))
         self._normal = np.array([x.normal for x in st], dtype=np.int64)
-        self._shortest = np.array([x.normal if x.state == _DONE else max(x.normal - x.room, 0) for x in st],
-                                 dtype=np.int64)
+        self._shortest = np.array([x.normal if x.state == DONE else max(x.normal - x.room, 0) for x in st],
+                                  dtype=np.int64)
         self._earliest = np.array([x.earliest for x in st], dtype=np.int64)
-        self._done = np.array([x.state == _DONE for x in st], dtype=bool)
+        self._done = np.array([x.state == DONE for x in st], dtype=bool)
         self._started = np.array([x.actual is not None for x in st], dtype=bool)
         self._actual = np.array([x.actual or 0 for x in st], dtype=np.int64)
-        steps = [a.segments() for a in acts]
-        self._first_days = np.array([x[0].days if x else 0 for x in steps], dtype=np.int64)
-        self._first_rate = np.array([x[0].cost_per_day if x else 0.0 for x in steps], dtype=float)
-        self._deadlines = [k for k, a in enumerate(acts) if a.deadline is not None and st[k].state != _DONE]
+        self._steps = [a.segments() for a in project.activities]
+        self._first_days = np.array([x[0].days if x else 0 for x in self._steps], dtype=np.int64)
+        self._first_rate = np.array([x[0].cost_per_day if x else 0.0 for x in self._steps], dtype=float)
+        self._deadlines = [k for k, a in enumerate(project.activities)
+                           if a.deadline is not None and st[k].state != DONE]
+        self._levels()
 
-    # -- per project ---------------------------------------------------------------------
-    def _own_calendars(self, project: Project) -> list[int]:
-        """Each activity's clock (as an index); calendars on the same days share one."""
-        def days(cal):
-            return cal.weekmask, tuple(sorted(set(cal.holidays)))
-        self._clocks = [CalendarClock(project.calendar, project.start)]
-        same, by_name = {days(project.calendar): 0}, {}
-        for cal in project.calendars:
-            if days(cal) not in same:
-                same[days(cal)] = len(self._clocks)
-                self._clocks.append(CalendarClock(cal, project.start))
-            by_name[cal.name] = same[days(cal)]
-        out = []
-        for a in project.activities:
-            if a.calendar and a.calendar not in by_name:
-                raise InputError(f"activity {a.id} names the calendar {a.calendar!r}, which the project "
-                                 "does not define", column="calendar", value=a.calendar,
-                                 fix=f"use one of: {', '.join(by_name) or 'none defined'}")
-            out.append(by_name[a.calendar] if a.calendar else 0)
-        return out
-
-    def _state(self, act: Activity, clock: CalendarClock, data: int | None) -> _State:
-        """The activity at the data date (see the module docstring)."""
-        data_date = self.project.data_date
-        earliest = 0 if act.not_before is None else max(0, clock.offset_of(act.not_before, finish=False))
-        room = sum(s.days for s in act.segments())
-        if data is None or (act.actual_start is None and act.actual_finish is None):
-            return _State(_WAITING, act.duration, room, earliest if data is None else max(earliest, data), None)
-        if act.actual_start is None:
-            raise InputError(f"activity {act.id} has an actual finish but no actual start",
-                             column="actual_start", fix="give the date work started")
-        last = act.actual_finish or act.actual_start
-        if act.actual_start > data_date or (act.actual_finish is not None and act.actual_finish >= data_date):
-            raise InputError(f"activity {act.id} has actual dates on or after the data date {data_date}",
-                             column="actual_finish" if act.actual_finish else "actual_start",
-                             value=str(last), fix="keep actual dates before the data date")
-        if act.duration == 0:  # a milestone: at the end of the day it was reached
-            at = clock.offset_of(last, finish=True)
-            return _State(_DONE, 0, 0, at, at)
-        start = clock.offset_of(act.actual_start, finish=False)
-        if act.actual_finish is not None:
-            if act.actual_finish < act.actual_start:
-                raise InputError(f"activity {act.id} finishes before it starts", column="actual_finish",
-                                 value=str(act.actual_finish), fix="check both actual dates")
-            return _State(_DONE, max(clock.offset_of(act.actual_finish, finish=True) - start, 0), 0, start, start)
-        if act.remaining is not None:
-            left = act.remaining
-        elif act.percent_complete is not None:
-            if not 0 <= act.percent_complete <= 100:
-                raise InputError(f"activity {act.id} has percent complete outside 0-100",
-                                 column="percent_complete", value=act.percent_complete,
-                                 fix="give a percentage from 0 to 100")
-            left = math.ceil(round(act.duration * (100 - act.percent_complete) / 100, 9))
-        else:
-            left = max(act.duration - max(data - start, 0), 0)
-        if left > act.duration:
-            raise InputError(f"activity {act.id} has more work remaining ({left} days) than its duration "
-                             f"({act.duration})", column="remaining", value=left,
-                             fix="lower the remaining days or raise the duration")
-        return _State(_STARTED, left, max(room, 0) * left // act.duration, max(earliest, data), start)
-
-    def _topological_order(self) -> list[int]:
-        """Activities in an order with every predecessor first (Kahn), over every link."""
-        n = len(self._ids)
-        out = [[] for _ in range(n)]
-        need = [0] * n
-        for i, j in zip(self._pred, self._succ):
-            out[i].append(j)
-            need[j] += 1
-        order = [k for k in range(n) if need[k] == 0]
-        for i in order:  # (the list grows while it is read)
-            for j in out[i]:
-                need[j] -= 1
-                if need[j] == 0:
-                    order.append(j)
-        if len(order) < n:  # walk back along links between activities left: it closes a loop
-            back = {j: i for i, j in zip(self._pred, self._succ) if need[j] and need[i]}
-            seen, k = [], next(k for k in range(n) if need[k])
-            while k not in seen:
-                seen.append(k)
-                k = back[k]
-            raise CycleError([self._ids[x] for x in seen[seen.index(k):][::-1]])
-        return order
-
-    def _broken_by_progress(self):
-        """Links whose successor's event is already in the past at dates that break them."""
-        st = self._states
-        for e, link in enumerate(self.project.links):
-            i, j = self._pred[e], self._succ[e]
-            on_start = link.type in _ON_START
-            if on_start and st[j].actual is None or not on_start and st[j].state != _DONE:
-                continue  # the successor's event is still to come
-            later = st[j].actual if on_start else st[j].earliest + st[j].normal
-            if link.type in _FROM_FINISH:
-                earlier = st[i].earliest + st[i].normal if st[i].state == _DONE else None
-            else:
-                earlier = st[i].actual
-            if earlier is None or later < self._across(self._cal[i], self._cal[j], earlier, link.type) + link.lag:
-                yield e
-
-    # -- dates across calendars ---------------------------------------------------------
-    def _across(self, a: int, b: int, at: int, kind: LinkType) -> int:
-        """Least position of calendar ``b`` (before the lag) that a link of ``kind`` allows
-        after an event at position ``at`` of calendar ``a``, found through dates."""
-        if a == b:
-            return at
-        key = (a, b, kind, at)
-        got = self._conversions.get(key)
-        if got is None:
-            one, other = self._clocks[a], self._clocks[b]
-            # the moment: a start on the morning of its day; a finish (and the boundary an SF
-            # link leaves) on the evening of the day before, written as the next morning
-            moment = one.date_of(at) if kind is LinkType.SS else one.date_of(at - 1) + _ONE_DAY
-            if kind in _ON_START:  # b's first working day not before the moment
-                got = other.offset_of(moment, finish=False)
-            else:  # b's first day's end not before the moment
-                got = other.offset_of(moment - _ONE_DAY, finish=False) + 1
-            self._conversions[key] = got
-        return got
+    def _levels(self) -> None:
+        """Links in force grouped by the depth of their successor, for a forward pass one
+        level at a time with numpy (many activities per level, one calendar); else the
+        pass runs activity by activity."""
+        level = [0] * len(self._ids)
+        for j in self._reading.order:
+            for i, *_ in self._into[j]:
+                if level[i] + 1 > level[j]:
+                    level[j] = level[i] + 1
+        top = max(level, default=0)
+        self._vector = not self._h_cross.any() and len(self._ids) >= 20 * (top + 1)
+        at = np.asarray(level, dtype=np.int64)[self._hs]
+        by = np.argsort(at, kind="stable")
+        self._by_level = [g for g in np.split(by, np.searchsorted(at[by], np.arange(1, top + 1))) if len(g)]
 
     def _project_finish(self, finishes: np.ndarray) -> int:
         """The end of the project working day on or after the last day worked of each
         activity, in project working days (never before day 0)."""
         if not len(finishes):
             return 0
-        cal = np.asarray(self._cal)
-        return max([0] + [self._across(c, 0, int(finishes[cal == c].max()), LinkType.FF)
+        across, cal = self._reading.across, self._cal
+        return max([0] + [across(c, 0, int(finishes[cal == c].max()), LinkType.FF)
                           for c in np.unique(cal).tolist()])
 
-    # -- per plan ------------------------------------------------------------------------
+    # -- the forward pass ------------------------------------------------------------------
     def forward(self, durations: Sequence[int]) -> list[int]:
         """Early starts of what is left to schedule, for whole-day ``durations``."""
-        d = [int(x) for x in durations]
-        es, start_at = [0] * len(d), [0] * len(d)  # start_at: an actual start stands
-        earliest, done, states, across = self._earliest.tolist(), self._done.tolist(), self._states, self._across
-        for j in self._order:
-            best = earliest[j]
+        return self._forward(np.asarray(durations, dtype=np.int64)).tolist()
+
+    def _forward(self, d: np.ndarray) -> np.ndarray:
+        if self._vector:
+            es = self._earliest.copy()
+            for links in self._by_level:  # predecessors are on earlier levels: already final
+                i, j = self._hp[links], self._hs[links]
+                at = np.where(self._h_from_finish[links], es[i] + d[i],
+                              np.where(self._started[i], self._actual[i], es[i]))  # an actual start stands
+                np.maximum.at(es, j, at + self._h_lag[links] - np.where(self._h_on_start[links], 0, d[j]))
+            return es
+        dl = d.tolist()
+        es, start_at = self._earliest.tolist(), [0] * len(dl)  # start_at: an actual start stands
+        done, actual, started, across = self._done.tolist(), self._actual.tolist(), self._started.tolist(), \
+            self._reading.across
+        for j in self._reading.order:
+            best = es[j]
             if not done[j]:
-                dj = d[j]
+                dj = dl[j]
                 for i, from_finish, on_start, lag, kind, cross in self._into[j]:
-                    at = es[i] + d[i] if from_finish else start_at[i]
+                    at = es[i] + dl[i] if from_finish else start_at[i]
                     if cross is not None:
                         at = across(cross[0], cross[1], at, kind)
                     at += lag if on_start else lag - dj
                     if at > best:
                         best = at
             es[j] = best
-            start_at[j] = best if states[j].actual is None else states[j].actual
-        return es
+            start_at[j] = actual[j] if started[j] else best
+        return np.asarray(es, dtype=np.int64)
 
+    # -- one plan --------------------------------------------------------------------------
     def check(self, durations: Sequence[int], *, choices: Sequence[int] | None = None,
-              starts: Sequence[int] | None = None, target: int | None = None, claimed_finish: int,
-              claimed_cost: float, claimed_damages: float = 0.0, strict: bool = False) -> CheckedPlan:
+              starts: Sequence[int] | None = None, early: bool = False, target: int | None = None,
+              claimed_finish: int, claimed_cost: float, claimed_costs: Sequence[float] | None = None,
+              claimed_damages: float = 0.0, claimed_finish_date: date | None = None,
+              strict: bool = False) -> CheckedPlan:
         """Check one plan; see :func:`check_plan`."""
         d = self._whole(durations, "duration")
         c = np.full(len(d), -1, dtype=np.int64) if choices is None else self._whole(choices, "option index")
@@ -318,11 +215,17 @@ class PlanChecker:
         if len(bad):
             k = int(bad[0])
             self._out_of_bounds(k, int(d[k]), int(c[k]), int(lo[k]), int(hi[k]))
-        es = self.forward(d)
-        early = np.asarray(es, dtype=np.int64)
-        finish = self._project_finish(early + d)
+        early_starts = self._forward(d)
+        finish = self._project_finish(early_starts + d)
+        s = early_starts
         if starts is not None:
             s = self._whole(starts, "start")
+            if early:
+                bad = np.flatnonzero(s != early_starts)
+                if len(bad):
+                    k = int(bad[0])
+                    raise PlanCheckError(f"plan check: {self._ids[k]} is shown starting on day {s[k]}, but its "
+                                         f"early start is day {early_starts[k]}")
             self._check_starts(s, d)
             given = self._project_finish(s + d)
             if given > claimed_finish:
@@ -331,17 +234,27 @@ class PlanChecker:
         if finish != claimed_finish:
             raise PlanCheckError(f"plan check: the plan finishes on day {finish} by its forward pass, "
                                  f"not on day {claimed_finish} as claimed")
+        finish_date = self._reading.clocks[0].date_of(max(finish - 1, self._reading.finish_floor, 0))
+        if claimed_finish_date is not None and finish_date != claimed_finish_date:
+            raise PlanCheckError(f"plan check: the plan's finish is dated {finish_date}, not "
+                                 f"{claimed_finish_date} as claimed")
         if target is not None and finish > target:
             raise PlanCheckError(f"plan check: the plan finishes on day {finish}, after the target, day {target}")
         costs = self._costs(d, c)
         cost = math.fsum(costs)
         if not _money(cost, claimed_cost):
             raise PlanCheckError(f"plan check: the added cost sums to {cost:.2f}, not {claimed_cost:.2f} as claimed")
-        damages = self._damages((early if starts is None else s) + d, strict)
+        if claimed_costs is not None:
+            if len(claimed_costs) != len(costs):
+                raise PlanCheckError(f"plan check: {len(claimed_costs)} added costs for {len(costs)} activities")
+            for k, (x, y) in enumerate(zip(costs, claimed_costs)):
+                if not _money(x, y):
+                    raise PlanCheckError(f"plan check: {self._ids[k]} adds {x:.2f}, not {y:.2f} as claimed")
+        damages = self._damages(s + d, strict)
         if not _money(damages, claimed_damages):
             raise PlanCheckError(f"plan check: the milestone damages sum to {damages:.2f}, "
                                  f"not {claimed_damages:.2f} as claimed")
-        return CheckedPlan(tuple(es), finish, cost, damages, tuple(costs))
+        return CheckedPlan(tuple(early_starts.tolist()), finish, finish_date, cost, damages, tuple(costs))
 
     def _whole(self, values: Sequence, what: str) -> np.ndarray:
         x = np.asarray(values, dtype=float)
@@ -356,8 +269,8 @@ class PlanChecker:
     def _bounds(self, c: np.ndarray):
         lo, hi = self._shortest.copy(), self._normal.copy()
         for k in np.flatnonzero(c != -1).tolist():
-            act, st = self.project.activities[k], self._states[k]
-            if st.state != _WAITING:
+            act, st = self.project.activities[k], self._reading.states[k]
+            if st.state != WAITING:
                 raise PlanCheckError(f"plan check: {act.id} is {st.state}: no option can be chosen "
                                      f"for it (option index {c[k]})")
             if not 0 <= c[k] < len(act.options):
@@ -367,13 +280,13 @@ class PlanChecker:
         return lo, hi
 
     def _out_of_bounds(self, k: int, dk: int, ck: int, lo: int, hi: int):
-        act, st = self.project.activities[k], self._states[k]
+        act, st = self.project.activities[k], self._reading.states[k]
         head = f"plan check: {act.id}: {dk} working days"
-        if st.state == _DONE:
+        if st.state == DONE:
             raise PlanCheckError(f"{head}, but it is finished: its actual dates span {st.normal} days")
         if ck >= 0:
             raise PlanCheckError(f"{head} is outside its option {act.options[ck].name!r}'s range {lo}..{hi}")
-        if st.state == _STARTED:
+        if st.state == STARTED:
             if dk > hi:
                 raise PlanCheckError(f"{head} is more than the {hi} days it has left (it is started)")
             raise PlanCheckError(f"{head} is below {lo}: started with {hi} days left, it may be shortened "
@@ -391,7 +304,8 @@ class PlanChecker:
         bad = np.flatnonzero(~self._done & (s < self._earliest))
         if len(bad):
             k, sk = int(bad[0]), int(s[bad[0]])
-            clock, act, data_date = self._clocks[self._cal[k]], self.project.activities[k], self.project.data_date
+            clock = self._reading.clocks[self._cal[k]]
+            act, data_date = self.project.activities[k], self.project.data_date
             why = []
             if data_date is not None and sk < clock.offset_of(data_date, finish=False):
                 why.append(f"the data date {data_date}")
@@ -401,22 +315,20 @@ class PlanChecker:
                                  f"{' and '.join(why) or 'day 0'} (day {self._earliest[k]})")
         if not len(self._held):
             return
-        links = self.project.links
+        pred, succ, on_start = self._hp, self._hs, self._h_on_start
         shown = np.where(self._started, self._actual, s)  # an actual start stands
-        pred, succ = np.asarray(self._pred)[self._held], np.asarray(self._succ)[self._held]
-        from_finish = np.array([links[e].type in _FROM_FINISH for e in self._held.tolist()])
-        on_start = np.array([links[e].type in _ON_START for e in self._held.tolist()])
-        need = np.where(from_finish, s[pred] + d[pred], shown[pred])
-        cal = np.asarray(self._cal)
-        for x in np.flatnonzero(cal[pred] != cal[succ]).tolist():
-            need[x] = self._across(self._cal[pred[x]], self._cal[succ[x]], int(need[x]), links[self._held[x]].type)
-        need += np.array([links[e].lag for e in self._held.tolist()], dtype=np.int64)
+        need = np.where(self._h_from_finish, s[pred] + d[pred], shown[pred])
+        links = self.project.links
+        for x in np.flatnonzero(self._h_cross).tolist():
+            need[x] = self._reading.across(int(self._cal[pred[x]]), int(self._cal[succ[x]]), int(need[x]),
+                                           links[int(self._held[x])].type)
+        need += self._h_lag
         later = np.where(on_start, s[succ], s[succ] + d[succ])
         bad = np.flatnonzero(later < need)
         if len(bad):
             x = int(bad[0])
             link = links[int(self._held[x])]
-            raise PlanCheckError(f"plan check: link {_link_text(link)} is broken: {link.succ} "
+            raise PlanCheckError(f"plan check: link {link_text(link)} is broken: {link.succ} "
                                  f"{'starts' if on_start[x] else 'finishes'} at day {later[x]}, "
                                  f"the link needs day {need[x]} or later")
 
@@ -424,25 +336,28 @@ class PlanChecker:
         """Added direct cost of each activity: its option's, or its crash steps' in order."""
         cut = self._normal - d
         out = np.where((c < 0) & (cut > 0), np.minimum(cut, self._first_days) * self._first_rate, 0.0).tolist()
-        acts = self.project.activities
         for k in np.flatnonzero((c < 0) & (cut > self._first_days)).tolist():
             total, left = 0.0, int(cut[k])
-            for step in acts[k].segments():
+            for step in self._steps[k]:
                 take = min(left, step.days)
                 total += take * step.cost_per_day
                 left -= take
             out[k] = total
+        acts = self.project.activities
         for k in np.flatnonzero(c >= 0).tolist():
             o = acts[k].options[c[k]]
             out[k] = o.added_cost + o.cost_per_day * (o.duration - int(d[k]))
         return out
 
     def _damages(self, finishes: np.ndarray, strict: bool) -> float:
-        """Damages of unfinished work past its own deadline, per calendar day."""
+        """Damages of unfinished work past its own deadline, per calendar day, at its date:
+        the last day worked; a milestone's, the day its predecessors end but never before
+        the first day it may happen."""
         total = 0.0
+        r = self._reading
         for k in self._deadlines:
-            act, f = self.project.activities[k], int(finishes[k])
-            day = self._clocks[self._cal[k]].date_of(f - 1 if f > 0 else 0)  # dated as a project finish is
+            act, f, floor = self.project.activities[k], int(finishes[k]), r.states[k].floor
+            day = r.clocks[self._cal[k]].date_of(max(f - 1, 0 if floor is None else floor))
             late = (day - act.deadline).days
             if late > 0 and strict:
                 raise PlanCheckError(f"plan check: {act.id} reaches {day}, {late} calendar day(s) after "
@@ -452,8 +367,10 @@ class PlanChecker:
 
 
 def check_plan(project: Project, durations: Sequence[int], *, choices: Sequence[int] | None = None,
-               starts: Sequence[int] | None = None, target: int | None = None, claimed_finish: int,
-               claimed_cost: float, claimed_damages: float = 0.0, strict: bool = False) -> CheckedPlan:
+               starts: Sequence[int] | None = None, early: bool = False, target: int | None = None,
+               claimed_finish: int, claimed_cost: float, claimed_costs: Sequence[float] | None = None,
+               claimed_damages: float = 0.0, claimed_finish_date: date | None = None,
+               strict: bool = False) -> CheckedPlan:
     """Check a plan against the project alone and return what the check recomputed.
 
     Parameters
@@ -468,14 +385,20 @@ def check_plan(project: Project, durations: Sequence[int], *, choices: Sequence[
     starts : sequence of int, optional
         Starts of the part still to schedule, each in its activity's own calendar; every
         link still in force must hold between them.
+    early : bool
+        The ``starts`` are shown as the early starts: each must equal the check's own.
     target : int, optional
         The finish asked for, in project working days.
     claimed_finish, claimed_cost, claimed_damages
         The finish (project working days), added direct cost and damages claimed for the
         plan. The damages are those of work not yet finished that passes its own deadline,
-        per calendar day from the deadline to its date (its last day worked, dated as the
-        project finish is), at the starts given or else at the early starts; finished
-        work's damages are history and not counted.
+        per calendar day from the deadline to its date (see the module notes), at the
+        starts given or else at the early starts; finished work's damages are history and
+        not counted.
+    claimed_costs : sequence of float, optional
+        The added direct cost claimed for each activity.
+    claimed_finish_date : datetime.date, optional
+        The date claimed for the finish.
     strict : bool
         Refuse a plan in which unfinished work passes its own deadline (with or without
         damages).
@@ -488,9 +411,11 @@ def check_plan(project: Project, durations: Sequence[int], *, choices: Sequence[
     ------
     PlanCheckError
         Naming the activity or link and the figures, when a duration or option is out of
-        bounds, a given start breaks a link, the data date, a not-before date or moves
-        finished work, or the finish, cost or damages differ from what the check finds.
+        bounds, a given start breaks a link, the data date, a not-before date, moves
+        finished work or differs from the early start it is shown as, or the finish, its
+        date, the costs or damages differ from what the check finds.
     """
-    return PlanChecker(project).check(durations, choices=choices, starts=starts, target=target,
+    return PlanChecker(project).check(durations, choices=choices, starts=starts, early=early, target=target,
                                       claimed_finish=claimed_finish, claimed_cost=claimed_cost,
-                                      claimed_damages=claimed_damages, strict=strict)
+                                      claimed_costs=claimed_costs, claimed_damages=claimed_damages,
+                                      claimed_finish_date=claimed_finish_date, strict=strict)
