@@ -48,7 +48,7 @@ def refused(text: str):
 
 
 # ---------------------------------------------------------------------------------------
-# 1. Agreement with hasten.network / hasten.progress / hasten.checks on random projects
+# 1. Agreement with hasten.network / hasten.progress / hasten.plan_costs on random projects
 # ---------------------------------------------------------------------------------------
 
 @st.composite
@@ -701,3 +701,113 @@ def test_the_examples_in_the_docstrings_run():
     import hasten.plan_check
 
     assert doctest.testmod(hasten.plan_check).failed == 0
+
+
+# ---------------------------------------------------------------------------------------
+# 4. Wired into the planner: a wrong figure on the optimiser side stops the plan
+# ---------------------------------------------------------------------------------------
+# The ques10.com worked solution (verified text, above): 22 days by shortening C one day
+# for 40. Each test makes one piece of the optimiser side misreport by one day (or move one
+# day's cost) and Planner.plan must refuse with the check's own figure in the message.
+
+def ques10_planner():
+    from hasten.planner import Planner
+
+    planner = Planner(project_from_example(QUES10))
+    assert planner.normal_finish == 23
+    plan = planner.plan(22)  # the honest plan passes
+    assert plan.finish == 22 and close(plan.added_cost, 40.0)
+    return planner
+
+
+def test_the_planner_refuses_a_solver_cost_a_day_short(monkeypatch):
+    planner = ques10_planner()
+    solve = planner._solve
+
+    def short(*args, **kwargs):
+        sol = solve(*args, **kwargs)
+        return dataclasses.replace(sol, added_cost=sol.added_cost - 40.0)  # one day of C left out
+    monkeypatch.setattr(planner, "_solve", short)
+    with refused("the added cost sums to 40.00, not 0.00 as claimed"):
+        planner.plan(22)
+    # every day of the curve is checked too: the first one solved (23 days, nothing added)
+    with refused("the added cost sums to 0.00, not -40.00 as claimed"):
+        planner.curve(longest=22, shortest=22)
+
+
+def test_the_planner_refuses_a_network_finish_a_day_late(monkeypatch):
+    planner = ques10_planner()
+    finish_of = Network.finish_of
+    monkeypatch.setattr(Network, "finish_of", lambda self, es, d: finish_of(self, es, d) + 1)
+    with refused("the plan finishes on day 22 by its forward pass, not on day 23 as claimed"):
+        planner.plan(22)
+
+
+def test_the_planner_refuses_a_network_pass_that_starts_one_activity_a_day_late(monkeypatch):
+    planner = ques10_planner()
+    forward = Network.forward
+    last = len(planner.project.activities) - 1
+
+    def late(self, d):
+        es = forward(self, d)
+        es[last] += 1
+        return es
+    monkeypatch.setattr(Network, "forward", late)
+    with refused(f"{planner.project.activities[last].id} is shown starting on day"):
+        planner.plan(22)
+
+
+def test_the_planner_refuses_a_finish_date_a_day_early(monkeypatch):
+    planner = ques10_planner()
+    finish_date = Network.finish_date
+    monkeypatch.setattr(Network, "finish_date", lambda self, f: finish_date(self, f) - timedelta(days=1))
+    with refused("the plan's finish is dated"):
+        planner.plan(22)
+
+
+def test_the_planner_refuses_costs_per_activity_on_the_wrong_activity(monkeypatch):
+    import hasten.planner
+
+    planner = ques10_planner()
+    ids = [a.id for a in planner.project.activities]
+    c = ids.index("C")
+
+    def moved(net, d, choices=None):
+        out = added_costs(net, d, choices)
+        out[c - 1], out[c] = out[c], out[c - 1]  # C's 40 shown on the activity before it
+        return out
+    monkeypatch.setattr(hasten.planner, "added_costs", moved)
+    with refused("adds 0.00, not 40.00 as claimed"):
+        planner.plan(22)
+
+
+def test_the_planner_refuses_milestone_damages_misstated():
+    import hasten.planner
+
+    # late_milestone (hand-worked above): at normal durations M is 2 calendar days late, 100
+    planner = hasten.planner.Planner(late_milestone())
+    assert close(planner.plan(9).milestone_damages, 100)
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setattr(hasten.planner, "milestone_damages", lambda net, f: milestone_damages(net, f) - 50.0)
+        with refused("the milestone damages sum to 100.00, not 50.00 as claimed"):
+            planner.plan(9)
+
+
+def test_finished_work_past_its_deadline_does_not_stop_a_plan():
+    # Hand-worked of our own: F (5 days) finished Mon 01-01 .. Fri 01-05, 2 calendar days
+    # after its deadline Wed 01-03 (10 a day: history); G (5 days, down to 3 at 20 a day)
+    # after F from the data date Mon 01-08 = day 5: normal finish 10. Finishing by 9 takes
+    # a day off G for 20; the damages of work not finished are 0. (The old check priced F's
+    # history and refused every plan of such a project.)
+    from hasten.planner import Planner
+    from hasten.recovery import recovery
+
+    project = make_project([
+        Activity("F", 5, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 5),
+                 deadline=date(2024, 1, 3), damages_per_day=10.0),
+        Activity("G", 5, crash_duration=3, cost=0.0, crash_cost=40.0),
+    ], [Link("F", "G")], data_date=date(2024, 1, 8))
+    planner = Planner(project)
+    plan = planner.plan(9)
+    assert (plan.finish, plan.milestone_damages) == (9, 0.0) and close(plan.added_cost, 20)
+    assert recovery(planner).courses[0].milestone_damages == 0.0

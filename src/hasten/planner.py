@@ -2,8 +2,10 @@
 total-cost finish and the earliest finish within a budget.
 
 :class:`Planner` holds one project, its network, its calendar and one optimisation model,
-built once and re-solved for every question asked of it. Every plan passes the independent
-check (:mod:`hasten.checks`) before it is returned.
+built once and re-solved for every question asked of it. The figures shown with a plan
+come from the optimiser side (the network's CPM pass of the plan, the solver's added cost,
+:mod:`hasten.plan_costs`); the independent check (:mod:`hasten.plan_check`) recomputes each
+from the project alone and must agree before the plan is returned.
 """
 
 from __future__ import annotations
@@ -11,16 +13,17 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 from datetime import date
-from typing import Callable
+from typing import Callable, NamedTuple
 
 from .cautions import plan_cautions
-from .checks import PlanChecker
 from .cpm import Schedule, schedule
 from .crash_model import CrashModel, Solution
 from .dominated import drop_dominated
-from .errors import HastenError, InfeasibleTargetError
+from .errors import HastenError, InfeasibleTargetError, PlanCheckError
 from .network import Network
 from .partial import PartialSolver, solvable_on_part
+from .plan_check import PlanChecker
+from .plan_costs import added_costs, milestone_damages
 from .project import Project
 from .results import ActivityChange, BestFinish, Curve, CurvePoint, Plan, TotalCostPoint, TradeTotal
 from .time_costs import time_costs
@@ -29,6 +32,15 @@ __all__ = ["Planner", "Progress"]
 
 #: A progress callback: ``(done, total)`` after each solve of a long trace.
 Progress = Callable[[int, int], None]
+
+
+class _Figures(NamedTuple):
+    """What is shown with a plan, as the optimiser side has it (and the check agreed)."""
+
+    finish: int  # project working days, by the network's own CPM pass of the plan
+    cost: float  # added direct cost, the solver's
+    damages: float  # of own deadlines missed at the early dates (hasten.plan_costs)
+    costs: list[float]  # added direct cost of each activity (hasten.plan_costs)
 
 
 class Planner:
@@ -72,7 +84,7 @@ class Planner:
         self.network = Network(project)
         self.clock = self.network.clock
         self.normal_finish = self.network.forward_finish()
-        self.checker = PlanChecker(self.network)
+        self.checker = PlanChecker(project)  # independent of the network (hasten.plan_check)
         self.discrete = any(self.network.options)  # some work still to do has discrete options
         # some work still to do has its own deadline with damages
         self.penalised = any(a.deadline is not None and a.damages_per_day and not fixed
@@ -164,14 +176,33 @@ class Planner:
                                         self.network.finish_date(shortest))
         return sol
 
-    def _checked(self, sol: Solution, target: int, starts=None) -> tuple[int, float, float]:
-        """Finish, added cost and damages of own deadlines (recomputed from the activity
-        data) of a solution that has passed the independent check, on ``starts``, or else
-        on the solver's own starts, or else on the early starts of its durations."""
-        if starts is None:
-            starts = sol.starts if sol.starts is not None else self.network.forward(sol.durations)
-        return self.checker.check(sol.durations, starts, target=target, claimed_cost=sol.added_cost,
-                                  choices=sol.choices or None, claimed_damages=sol.milestone_damages)
+    def _checked(self, sol: Solution, target: int | None, starts: list[int] | None = None, *,
+                 strict: bool = False, solved: bool = True) -> _Figures:
+        """The figures shown with a solution, from the optimiser side: its finish by the
+        network's CPM pass (``starts``: the early starts shown, else computed here), the
+        solver's added cost, and each activity's added cost and the milestone damages at
+        the early dates (:mod:`hasten.plan_costs`). The independent check recomputes each
+        from the project alone (with ``strict``: no own deadline missed) and must agree,
+        else :class:`PlanCheckError`; ``solved``: the damages the solver counted must cover
+        those of the dates."""
+        net, d, choices = self.network, sol.durations, sol.choices or None
+        early = net.forward(d) if starts is None else starts
+        finish = net.finish_of(early, d)
+        costs = added_costs(net, d, choices)
+        damages = milestone_damages(net, [s + x for s, x in zip(early, d)])
+        self.checker.check(d, choices=choices, starts=early, early=True, target=target, claimed_finish=finish,
+                           claimed_cost=sol.added_cost, claimed_costs=costs, claimed_damages=damages,
+                           claimed_finish_date=net.finish_date(finish), strict=strict)
+        if solved and damages > sol.milestone_damages + 1e-6 * max(1.0, damages):
+            raise PlanCheckError(f"plan check: the solver counted {sol.milestone_damages:.2f} of milestone "
+                                 f"damages, the plan's dates give {damages:.2f}")
+        return _Figures(finish, sol.added_cost, damages, costs)
+
+    @property
+    def normal_damages(self) -> float:
+        """Milestone damages of the current schedule (every activity at its normal pace),
+        checked as a plan's are."""
+        return self._checked(Solution(tuple(self.network.durations), 0.0, 0.0), None, solved=False).damages
 
     def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
         """The least-cost plan to finish by ``target`` working days; with ``strict`` every
@@ -187,10 +218,10 @@ class Planner:
         self._reach = max(self._reach, self.normal_finish - target + 1)  # and the next day
         sol = self._solve(target, strict=strict)
         sched = schedule(self.network, sol.durations)
-        early = self.network.forward(sol.durations)
-        finish, cost, damages = self._checked(sol, target, early)  # the dates shown
+        shown = [r.ef - r.duration for r in sched.activities]  # early starts of what is left
+        figures = self._checked(sol, target, shown, strict=strict)
         next_cost = None
-        step = finish  # one day before the plan's own finish (it may be earlier than the target)
+        step = figures.finish  # one day before the plan's own finish (it may be earlier than the target)
         if next_day and step > 0:
             try:
                 nxt = self._solve(step - 1, tie_break=False, strict=strict)
@@ -198,20 +229,19 @@ class Planner:
                 pass  # this is the shortest possible finish
             else:
                 if nxt.proven:  # an unproven difference is no marginal cost
-                    _, next_added, next_damages = self._checked(nxt, step - 1)
-                    next_cost = next_added + next_damages - cost - damages
-        return self._plan(target, finish, sol, cost, damages, sched, next_cost)
+                    after = self._checked(nxt, step - 1, strict=strict)
+                    next_cost = after.cost + after.damages - figures.cost - figures.damages
+        return self._plan(target, figures, sol, sched, next_cost)
 
-    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, damages: float,
-              sched: Schedule, next_cost: float | None) -> Plan:
+    def _plan(self, target: int, figures: _Figures, sol: Solution, sched: Schedule,
+              next_cost: float | None) -> Plan:
         changes = []
         trades: dict[str, list] = {}
         choices = sol.choices or (-1,) * len(sol.durations)
-        costs = self.checker.added_costs(sol.durations, sol.choices or None)
         names = {c.name for c in self.project.calendars}
         default = self.project.calendar.name
         for act, normal, d, c, cost, options in zip(self.project.activities, self.network.durations,
-                                                    sol.durations, choices, costs, self.network.options):
+                                                    sol.durations, choices, figures.costs, self.network.options):
             cut = normal - d
             way = options[c] if c >= 0 else None
             calendar = act.calendar if act.calendar in names else default
@@ -223,12 +253,12 @@ class Planner:
                 t[1] += cost
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
-        clock, day = self.clock, self.network.finish_date
+        clock, day, finish = self.clock, self.network.finish_date, figures.finish
         cautions = plan_cautions(self.project, self.network.timeline, changes, sched)
         changes, sched = self._as_given(changes), self._as_given_schedule(sched)
-        return Plan(self.given, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
+        return Plan(self.given, target, finish, self.normal_finish, figures.cost, tuple(changes), trade_rows,
                     sched, next_cost, clock.start_date(0), day(target), day(finish), day(self.normal_finish),
-                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
+                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, figures.damages)
 
     def _as_given(self, rows: list) -> list:
         """Rows (one per activity, in the model's order) in the order the project gave them."""
@@ -259,7 +289,8 @@ class Planner:
         solved: dict[int, tuple[Solution, float, float]] = {}
         for k, target in enumerate(targets):
             sol = self._solve(target, tie_break=False)  # raises below the shortest finish
-            solved[target] = (sol, *self._checked(sol, target)[1:])
+            figures = self._checked(sol, target)
+            solved[target] = (sol, figures.cost, figures.damages)
             if progress:
                 progress(k + 1, len(targets))
         ids = self.network.ids
