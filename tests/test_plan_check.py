@@ -30,7 +30,7 @@ from conftest import (PROPERTY, TOL, load_json, make_project, project_from_examp
 from hasten.errors import PlanCheckError
 from hasten.network import Network
 from hasten.plan_check import PlanChecker, check_plan
-from hasten.plan_costs import added_costs, milestone_damages
+from hasten.plan_costs import PlanCosts
 from hasten.project import Activity, Calendar, CrashStep, Link, LinkType, Option, Project
 
 FS, SS, FF, SF = LinkType.FS, LinkType.SS, LinkType.FF, LinkType.SF
@@ -133,8 +133,8 @@ def reference(project: Project, net: Network, d: list[int], choices: list[int]):
     """Early starts, finish, added costs and damages by hasten.network and hasten.plan_costs."""
     es = net.forward(d)
     finish = net.finish_of(es, d)
-    costs = added_costs(net, d, choices)
-    damages = milestone_damages(net, [s + x for s, x in zip(es, d)])
+    costs = PlanCosts(net).added_costs(d, choices)
+    damages = PlanCosts(net).milestone_damages([s + x for s, x in zip(es, d)])
     return es, finish, costs, damages
 
 
@@ -766,31 +766,29 @@ def test_the_planner_refuses_a_finish_date_a_day_early(monkeypatch):
 
 
 def test_the_planner_refuses_costs_per_activity_on_the_wrong_activity(monkeypatch):
-    import hasten.planner
-
     planner = ques10_planner()
-    ids = [a.id for a in planner.project.activities]
-    c = ids.index("C")
+    c = [a.id for a in planner.project.activities].index("C")
+    added_costs = PlanCosts.added_costs
 
-    def moved(net, d, choices=None):
-        out = added_costs(net, d, choices)
+    def moved(self, d, choices=None):
+        out = added_costs(self, d, choices)
         out[c - 1], out[c] = out[c], out[c - 1]  # C's 40 shown on the activity before it
         return out
-    monkeypatch.setattr(hasten.planner, "added_costs", moved)
+    monkeypatch.setattr(PlanCosts, "added_costs", moved)
     with refused("adds 0.00, not 40.00 as claimed"):
         planner.plan(22)
 
 
-def test_the_planner_refuses_milestone_damages_misstated():
-    import hasten.planner
+def test_the_planner_refuses_milestone_damages_misstated(monkeypatch):
+    from hasten.planner import Planner
 
     # late_milestone (hand-worked above): at normal durations M is 2 calendar days late, 100
-    planner = hasten.planner.Planner(late_milestone())
+    planner = Planner(late_milestone())
     assert close(planner.plan(9).milestone_damages, 100)
-    with pytest.MonkeyPatch.context() as mp:
-        mp.setattr(hasten.planner, "milestone_damages", lambda net, f: milestone_damages(net, f) - 50.0)
-        with refused("the milestone damages sum to 100.00, not 50.00 as claimed"):
-            planner.plan(9)
+    damages = PlanCosts.milestone_damages
+    monkeypatch.setattr(PlanCosts, "milestone_damages", lambda self, f: damages(self, f) - 50.0)
+    with refused("the milestone damages sum to 100.00, not 50.00 as claimed"):
+        planner.plan(9)
 
 
 def test_finished_work_past_its_deadline_does_not_stop_a_plan():

@@ -111,7 +111,6 @@ class PlanChecker:
         self.project = project
         r = self._reading = Reading(project)
         self._ids, self.dropped, st, links = r.ids, r.dropped, r.states, project.links
-        n = len(st)
         # the links in force into events still to schedule (the others are history)
         held = [e for e in range(len(links)) if e not in self.dropped and not (
             st[r.succ[e]].state == DONE or st[r.succ[e]].state == STARTED and links[e].type in ON_START)]
@@ -122,14 +121,9 @@ class PlanChecker:
         self._h_from_finish = np.array([k in FROM_FINISH for k in kinds], dtype=bool)
         self._h_on_start = np.array([k in ON_START for k in kinds], dtype=bool)
         self._h_lag = np.array([links[e].lag for e in held], dtype=np.int64)
-        cal = np.asarray(r.cal, dtype=np.int64)
-        self._cal = cal
-        self._h_cross = cal[self._hp] != cal[self._hs]
-        self._into: list[list[tuple]] = [[] for _ in range(n)]
-        for x, e in enumerate(held):
-            i, j, kind = r.pred[e], r.succ[e], kinds[x]
-            cross = (r.cal[i], r.cal[j]) if self._h_cross[x] else None
-            self._into[j].append((i, kind in FROM_FINISH, kind in ON_START, links[e].lag, kind, cross))
+        self._cal = np.asarray(r.cal, dtype=np.int64)
+        self._h_cross = self._cal[self._hp] != self._cal[self._hs]
+        self._into: list[list[tuple]] | None = None  # links in force into each activity, when needed
         self._normal = np.array([x.normal for x in st], dtype=np.int64)
         self._shortest = np.array([x.normal if x.state == DONE else max(x.normal - x.room, 0) for x in st],
                                   dtype=np.int64)
@@ -137,7 +131,7 @@ class PlanChecker:
         self._done = np.array([x.state == DONE for x in st], dtype=bool)
         self._started = np.array([x.actual is not None for x in st], dtype=bool)
         self._actual = np.array([x.actual or 0 for x in st], dtype=np.int64)
-        self._steps = [a.segments() for a in project.activities]
+        self._steps = r.steps
         self._first_days = np.array([x[0].days if x else 0 for x in self._steps], dtype=np.int64)
         self._first_rate = np.array([x[0].cost_per_day if x else 0.0 for x in self._steps], dtype=float)
         self._deadlines = [k for k, a in enumerate(project.activities)
@@ -148,16 +142,31 @@ class PlanChecker:
         """Links in force grouped by the depth of their successor, for a forward pass one
         level at a time with numpy (many activities per level, one calendar); else the
         pass runs activity by activity."""
-        level = [0] * len(self._ids)
-        for j in self._reading.order:
-            for i, *_ in self._into[j]:
-                if level[i] + 1 > level[j]:
-                    level[j] = level[i] + 1
+        n = len(self._ids)
+        rank = np.empty(n, dtype=np.int64)
+        rank[self._reading.order] = np.arange(n)
+        by = np.argsort(rank[self._hs], kind="stable")  # links into earlier activities first
+        level = [0] * n
+        for i, j in zip(self._hp[by].tolist(), self._hs[by].tolist()):
+            if level[i] >= level[j]:
+                level[j] = level[i] + 1
         top = max(level, default=0)
-        self._vector = not self._h_cross.any() and len(self._ids) >= 20 * (top + 1)
+        self._vector = not self._h_cross.any() and n >= 20 * (top + 1)
         at = np.asarray(level, dtype=np.int64)[self._hs]
         by = np.argsort(at, kind="stable")
         self._by_level = [g for g in np.split(by, np.searchsorted(at[by], np.arange(1, top + 1))) if len(g)]
+
+    def _links_into(self) -> list[list[tuple]]:
+        """Per activity, the links in force into it: (predecessor, from its finish, onto
+        the start, lag, kind, (calendars) when they differ), built on first use."""
+        if self._into is None:
+            r, links = self._reading, self.project.links
+            self._into = [[] for _ in self._ids]
+            for x, e in enumerate(self._held.tolist()):
+                i, j, kind = r.pred[e], r.succ[e], links[e].type
+                cross = (r.cal[i], r.cal[j]) if self._h_cross[x] else None
+                self._into[j].append((i, kind in FROM_FINISH, kind in ON_START, links[e].lag, kind, cross))
+        return self._into
 
     def _project_finish(self, finishes: np.ndarray) -> int:
         """The end of the project working day on or after the last day worked of each
@@ -186,11 +195,12 @@ class PlanChecker:
         es, start_at = self._earliest.tolist(), [0] * len(dl)  # start_at: an actual start stands
         done, actual, started, across = self._done.tolist(), self._actual.tolist(), self._started.tolist(), \
             self._reading.across
+        into = self._links_into()
         for j in self._reading.order:
             best = es[j]
             if not done[j]:
                 dj = dl[j]
-                for i, from_finish, on_start, lag, kind, cross in self._into[j]:
+                for i, from_finish, on_start, lag, kind, cross in into[j]:
                     at = es[i] + dl[i] if from_finish else start_at[i]
                     if cross is not None:
                         at = across(cross[0], cross[1], at, kind)
@@ -247,9 +257,11 @@ class PlanChecker:
         if claimed_costs is not None:
             if len(claimed_costs) != len(costs):
                 raise PlanCheckError(f"plan check: {len(claimed_costs)} added costs for {len(costs)} activities")
-            for k, (x, y) in enumerate(zip(costs, claimed_costs)):
-                if not _money(x, y):
-                    raise PlanCheckError(f"plan check: {self._ids[k]} adds {x:.2f}, not {y:.2f} as claimed")
+            x, y = np.asarray(costs), np.asarray(claimed_costs, dtype=float)
+            bad = np.flatnonzero(~(np.abs(x - y) <= _TOL * np.maximum(1.0, np.maximum(np.abs(x), np.abs(y)))))
+            if len(bad):
+                k = int(bad[0])
+                raise PlanCheckError(f"plan check: {self._ids[k]} adds {x[k]:.2f}, not {y[k]:.2f} as claimed")
         damages = self._damages(s + d, strict)
         if not _money(damages, claimed_damages):
             raise PlanCheckError(f"plan check: the milestone damages sum to {damages:.2f}, "
@@ -257,9 +269,12 @@ class PlanChecker:
         return CheckedPlan(tuple(early_starts.tolist()), finish, finish_date, cost, damages, tuple(costs))
 
     def _whole(self, values: Sequence, what: str) -> np.ndarray:
-        x = np.asarray(values, dtype=float)
+        x = np.asarray(values)
         if x.shape != (len(self._ids),):
-            raise PlanCheckError(f"plan check: {len(x)} {what} values for {len(self._ids)} activities")
+            raise PlanCheckError(f"plan check: {x.size} {what} values for {len(self._ids)} activities")
+        if x.dtype.kind in "iu":  # whole numbers already
+            return x.astype(np.int64)
+        x = x.astype(float)
         bad = np.flatnonzero(~np.isfinite(x) | (x != np.rint(x)))
         if len(bad):
             k = int(bad[0])

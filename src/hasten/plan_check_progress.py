@@ -74,6 +74,8 @@ class Reading:
     cal : list of int
         Each activity's clock, as an index into ``clocks``.
     states : list of State
+    steps : list of tuple of CrashStep
+        Each activity's crash steps, in order of use.
     pred, succ : list of int
         Each link's activities, as positions in ``project.activities``.
     order : list of int
@@ -109,7 +111,10 @@ class Reading:
         self.order = self._topological_order()
         data = [None if project.data_date is None else c.offset_of(project.data_date, finish=False)
                 for c in self.clocks]
-        self.states = [self._state(a, self.clocks[c], data[c]) for a, c in zip(acts, self.cal)]
+        self.steps = [a.segments() for a in acts]
+        self._waiting: dict[tuple, State] = {}  # one shared state per kind of activity not started
+        self.states = [self._state(a, sum(x.days for x in steps), self.clocks[c], data[c])
+                       for a, steps, c in zip(acts, self.steps, self.cal)]
         self._settle_milestones()
         self.dropped = frozenset(self._broken_by_progress())
         project_clock, floor = self.clocks[0], 0
@@ -184,7 +189,7 @@ class Reading:
         return got
 
     # -- progress -----------------------------------------------------------------------
-    def _state(self, act: Activity, clock: CalendarClock, data: int | None) -> State:
+    def _state(self, act: Activity, room: int, clock: CalendarClock, data: int | None) -> State:
         """The activity at the data date (see the module notes).
 
         Raises InputError for an actual finish without a start, actual dates on or after
@@ -193,10 +198,14 @@ class Reading:
         data_date = self.project.data_date
         earliest = 0 if act.not_before is None else max(0, clock.offset_of(act.not_before, finish=False))
         milestone = act.duration == 0
-        room = sum(s.days for s in act.segments())
         if data is None or (act.actual_start is None and act.actual_finish is None):
             earliest = earliest if data is None else max(earliest, data)
-            return State(WAITING, act.duration, room, earliest, None, earliest if milestone else None)
+            key = (act.duration, room, earliest)
+            got = self._waiting.get(key)
+            if got is None:
+                got = self._waiting[key] = State(WAITING, act.duration, room, earliest, None,
+                                                 earliest if milestone else None)
+            return got
         if act.actual_start is None:
             raise InputError(f"activity {act.id} has an actual finish but no actual start",
                              column="actual_start", fix="give the date work started")

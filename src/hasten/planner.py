@@ -23,7 +23,7 @@ from .errors import HastenError, InfeasibleTargetError, PlanCheckError
 from .network import Network
 from .partial import PartialSolver, solvable_on_part
 from .plan_check import PlanChecker
-from .plan_costs import added_costs, milestone_damages
+from .plan_costs import PlanCosts
 from .project import Project
 from .results import ActivityChange, BestFinish, Curve, CurvePoint, Plan, TotalCostPoint, TradeTotal
 from .time_costs import time_costs
@@ -40,7 +40,7 @@ class _Figures(NamedTuple):
     finish: int  # project working days, by the network's own CPM pass of the plan
     cost: float  # added direct cost, the solver's
     damages: float  # of own deadlines missed at the early dates (hasten.plan_costs)
-    costs: list[float]  # added direct cost of each activity (hasten.plan_costs)
+    costs: list[float] | None  # added direct cost of each activity, for a plan shown (hasten.plan_costs)
 
 
 class Planner:
@@ -84,6 +84,7 @@ class Planner:
         self.network = Network(project)
         self.clock = self.network.clock
         self.normal_finish = self.network.forward_finish()
+        self.costs = PlanCosts(self.network)  # the figures shown, on the optimiser side
         self.checker = PlanChecker(project)  # independent of the network (hasten.plan_check)
         self.discrete = any(self.network.options)  # some work still to do has discrete options
         # some work still to do has its own deadline with damages
@@ -176,21 +177,21 @@ class Planner:
                                         self.network.finish_date(shortest))
         return sol
 
-    def _checked(self, sol: Solution, target: int | None, starts: list[int] | None = None, *,
+    def _checked(self, sol: Solution, target: int | None, shown: list[int] | None = None, *,
                  strict: bool = False, solved: bool = True) -> _Figures:
-        """The figures shown with a solution, from the optimiser side: its finish by the
-        network's CPM pass (``starts``: the early starts shown, else computed here), the
-        solver's added cost, and each activity's added cost and the milestone damages at
-        the early dates (:mod:`hasten.plan_costs`). The independent check recomputes each
-        from the project alone (with ``strict``: no own deadline missed) and must agree,
-        else :class:`PlanCheckError`; ``solved``: the damages the solver counted must cover
-        those of the dates."""
+        """The figures of a solution, from the optimiser side: its finish (and the finish
+        date) by the network's CPM pass, the solver's added cost, the milestone damages at
+        the early dates and, for a plan shown (``shown``: the early starts its schedule
+        shows), each activity's added cost (:mod:`hasten.plan_costs`). The independent
+        check recomputes each from the project alone, and the starts shown, and must
+        agree (with ``strict``: no own deadline missed), else :class:`PlanCheckError`.
+        ``solved``: the damages the solver counted must cover those of the dates too."""
         net, d, choices = self.network, sol.durations, sol.choices or None
-        early = net.forward(d) if starts is None else starts
+        early = net.forward(d) if shown is None else shown
         finish = net.finish_of(early, d)
-        costs = added_costs(net, d, choices)
-        damages = milestone_damages(net, [s + x for s, x in zip(early, d)])
-        self.checker.check(d, choices=choices, starts=early, early=True, target=target, claimed_finish=finish,
+        costs = None if shown is None else self.costs.added_costs(d, choices)
+        damages = self.costs.milestone_damages([s + x for s, x in zip(early, d)])
+        self.checker.check(d, choices=choices, starts=shown, early=True, target=target, claimed_finish=finish,
                            claimed_cost=sol.added_cost, claimed_costs=costs, claimed_damages=damages,
                            claimed_finish_date=net.finish_date(finish), strict=strict)
         if solved and damages > sol.milestone_damages + 1e-6 * max(1.0, damages):
