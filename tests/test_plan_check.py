@@ -809,3 +809,23 @@ def test_finished_work_past_its_deadline_does_not_stop_a_plan():
     plan = planner.plan(9)
     assert (plan.finish, plan.milestone_damages) == (9, 0.0) and close(plan.added_cost, 20)
     assert recovery(planner).courses[0].milestone_damages == 0.0
+
+
+def test_a_plan_stopped_by_a_time_limit_is_checked_the_same_way(monkeypatch):
+    # a plan the solver could not prove optimal (a MILP stopped by its time limit) is shown
+    # as not proven, with its figures checked as any plan's; a wrong figure still stops it
+    planner = ques10_planner()
+    solve = planner._solve
+
+    def unproven(*args, **kwargs):
+        return dataclasses.replace(solve(*args, **kwargs), proven=False, bound=0.0, gap=1.0)
+    monkeypatch.setattr(planner, "_solve", unproven)
+    plan = planner.plan(22)
+    assert not plan.proven and plan.next_day_cost is None and close(plan.added_cost, 40.0)
+
+    def unproven_and_wrong(*args, **kwargs):
+        sol = unproven(*args, **kwargs)
+        return dataclasses.replace(sol, added_cost=sol.added_cost + 40.0)
+    monkeypatch.setattr(planner, "_solve", unproven_and_wrong)
+    with refused("the added cost sums to 40.00, not 80.00 as claimed"):
+        planner.plan(22)
