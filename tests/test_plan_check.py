@@ -18,6 +18,7 @@ Sources of the checks:
 from __future__ import annotations
 
 import dataclasses
+import random
 import re
 from datetime import date, timedelta
 
@@ -167,6 +168,38 @@ def test_agrees_with_the_network_and_the_optimiser_costs(project, data):
     if not checker._h_cross.any():
         checker._vector = True
         assert checker.forward(d) == es
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_a_wide_network_is_passed_level_by_level_and_agrees(seed):
+    # test data of our own: 8 layers of 60 activities, each linked to 1-3 activities of the
+    # layer before (all four types, lags -2..4), some finished or started at a data date;
+    # reference: hasten.network's forward pass (an independent implementation)
+    rng = random.Random(seed)
+    start, data_date = date(2025, 3, 3), date(2025, 3, 24)
+    acts, links = [], []
+    for layer in range(8):
+        for k in range(60):
+            d = rng.randint(0, 9)
+            kw = {}
+            if layer == 0 and rng.random() < 0.5:
+                first = start + timedelta(days=rng.randint(0, 10))
+                kw = dict(actual_start=first, actual_finish=first + timedelta(days=rng.randint(0, 7))) \
+                    if rng.random() < 0.5 else dict(actual_start=first, remaining=rng.randint(0, d))
+            acts.append(Activity(f"L{layer}-{k}", d, crash_duration=d // 2, cost=0.0, crash_cost=10.0 * d, **kw))
+            if layer:
+                for p in rng.sample(range(60), rng.randint(1, 3)):
+                    links.append(Link(f"L{layer - 1}-{p}", f"L{layer}-{k}", rng.choice([FS, SS, FF, SF]),
+                                      rng.randint(-2, 4)))
+    project = Project("wide", start, tuple(acts), tuple(links), data_date=data_date)
+    net = Network(project)
+    checker = PlanChecker(project)
+    assert checker._vector  # 480 activities on 8 levels: one numpy step per level
+    for d in (net.durations, net.shortest):
+        es = net.forward(d)
+        assert checker.forward(d) == es
+        checker.check(d, starts=es, early=True, claimed_finish=net.finish_of(es, d),
+                      claimed_cost=sum(PlanCosts(net).added_costs(d)))
 
 
 @PROPERTY
