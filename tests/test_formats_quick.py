@@ -142,7 +142,7 @@ def test_a_grid_of_text_reads_as_cell_by_cell(grid):
             if tables._is_blank(cells):
                 continue
             if header is None:
-                header, names = line, tables._header("t.csv", line, cells)
+                header, names = line, tables.column_names("t.csv", line, cells)
             else:
                 rows.append(tables._row("t.csv", line, names, cells, all(names)))
         full = Table("t.csv", tuple(n for n in names if n), tuple(rows), header)
@@ -204,3 +204,33 @@ def test_the_latest_finish_bound_is_the_longest_path(data, six_days):
     for k, lag in zip(project.links, lags):
         graph.add_edge(("f", k.pred), ("s", k.succ), weight=lag)
     assert bound == nx.dag_longest_path_length(graph, weight="weight")
+
+
+_CSV_CELL = st.one_of(st.sampled_from(["", "A", "12", "Pour slab", "x y", "'=1", "it's", " a",
+                                       "b ", "\t", "\xa0c", "é", "d\x85"]),
+                      st.text(alphabet=" ,ab'\t\n\"\r\x0b", max_size=3))
+
+
+@settings(max_examples=400, deadline=None)
+@given(st.lists(st.lists(_CSV_CELL, min_size=1, max_size=3), min_size=0, max_size=5),
+       st.booleans())
+def test_a_plain_csv_text_reads_as_the_csv_module_reads_it(lines, last_break):
+    """folder._plain_table (split on line breaks and commas) gives the table the csv
+    module's records give (folder._Records through table_from_grid), or steps aside."""
+    from hasten.formats.folder import _plain_table, _Records
+
+    text = "\n".join(",".join(cells) for cells in lines) + ("\n" if last_break else "")
+    try:
+        quick = _plain_table("t.csv", text)
+    except InputError as error:
+        quick = error
+    try:
+        full = table_from_grid("t.csv", _Records(text))
+    except InputError as error:
+        full = error
+    if quick is None:
+        return
+    if isinstance(full, InputError):
+        assert isinstance(quick, InputError) and str(quick) == str(full)
+    else:
+        assert quick == full

@@ -97,11 +97,10 @@ def quick_activities(table: Table) -> list[Activity] | None:
         cheaper = any(map(lt, crash_costs, costs))
     if longer or cheaper:
         return None
-    made = []
-    for values in zip(ids, durations, names, trades, crash_durations, costs, crash_costs):
-        fields = _ACTIVITY.copy()  # a copy of a dictionary of the same keys: the quickest
-        fields.update(zip(_GIVEN, values))
-        made.append(fields)
+    made = [dict(_ACTIVITY, id=i, duration=d, name=n, trade=t, crash_duration=c, cost=m,
+                 crash_cost=k)
+            for i, d, n, t, c, m, k in zip(ids, durations, names, trades, crash_durations,
+                                           costs, crash_costs)]
     return instances(Activity, made)
 
 

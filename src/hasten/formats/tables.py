@@ -13,8 +13,8 @@ from dataclasses import dataclass, field
 
 from hasten.formats.cells import CellRef, cell_text, clean_text
 
-__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "table_from_grid",
-           "table_from_records"]
+__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "column_names",
+           "table_from_grid", "table_from_records"]
 
 
 @dataclass(frozen=True)
@@ -87,7 +87,7 @@ def _is_blank(cells: Sequence[object]) -> bool:
     return not any(map(_has_text, cells))
 
 
-def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
+def column_names(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
     """Normalised column names; duplicates are refused."""
     names = tuple(cell_text(c).strip().lower() for c in cells)
     for i, name in enumerate(names):
@@ -149,7 +149,7 @@ def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) 
         if (not joined.strip()) if joined is not None else _is_blank(cells):
             continue
         if header_line is None:
-            header_line, names = line, _header(source, line, cells)
+            header_line, names = line, column_names(source, line, cells)
             all_named = all(names)
             width = len(names) if all_named else -1
         else:
