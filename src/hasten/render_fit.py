@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import re
 import textwrap
+from itertools import zip_longest
 from typing import Sequence
 
 __all__ = ["WIDTH", "table", "cut", "wrap_lines"]
@@ -26,6 +27,7 @@ WIDTH = 100
 _ELLIPSIS = "…"
 _GAP = 2  # two spaces between columns
 _NUMBER = re.compile(r"^-?[\d,]+(\.\d+)?$")
+_NUMBERS = re.compile(r"-?[\d,]+(?:\.\d+)?(?:\n-?[\d,]+(?:\.\d+)?)*")  # one a line
 
 
 def cut(text: str, width: int) -> str:
@@ -36,11 +38,19 @@ def cut(text: str, width: int) -> str:
     return text[: max(width - 1, 0)].rstrip() + _ELLIPSIS
 
 
+def _longest_line(text: str) -> int:
+    return max(map(len, text.split("\n")))
+
+
 def _widths(rows: list[list[str]], headers: Sequence[str]) -> list[int]:
-    out = [max((len(x) for x in str(h).split("\n")), default=0) for h in headers]
-    for r in rows:
-        for k, cell in enumerate(r):
-            out[k] = max(out[k], max((len(x) for x in str(cell).split("\n")), default=0))
+    """The widest line of each column, its title included (column by column: a column
+    without line breaks is measured in one call)."""
+    out = [_longest_line(str(h)) for h in headers]
+    for k, column in enumerate(zip_longest(*rows, fillvalue="")):
+        texts = list(map(str, column))
+        widest = (max(map(len, texts)) if "\n" not in "".join(texts)
+                  else max(map(_longest_line, texts)))
+        out[k] = max(out[k], widest)
     return out
 
 
@@ -63,7 +73,8 @@ def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: 
         Columns left out, in this order, while the table is too wide with the texts cut to
         ``comfort`` characters (a line under the table names them).
     """
-    text_rows = [["" if c is None else str(c) for c in r] for r in rows]
+    text_rows = [["" if c is None else str(c) for c in r] if None in r else list(map(str, r))
+                 for r in rows]
     headers = [str(h) for h in headers]
     dropped: list[str] = []
     if not wide:
@@ -106,8 +117,7 @@ def _render(rows: list[list[str]], headers: list[str]) -> str:
     """Columns two spaces apart, titles over a dashed rule (titles of several lines sit on
     the rule), numbers aligned right, other texts left; cells may hold several lines."""
     widths = _widths(rows, headers)
-    right = [bool(rows) and all(_NUMBER.match(r[k]) for r in rows if r[k]) and any(r[k] for r in rows)
-             for k in range(len(headers))]
+    right = [bool(rows) and _numbers([r[k] for r in rows]) for k in range(len(headers))]
 
     def block(cells: list[str], top: bool) -> list[str]:
         parts = [c.split("\n") for c in cells]
@@ -117,9 +127,27 @@ def _render(rows: list[list[str]], headers: list[str]) -> str:
                 for line in zip(*parts)]
 
     out = block(headers, True) + [(" " * _GAP).join("-" * w for w in widths)]
+    # a row of one line each: its cells put in place by one format string (what block
+    # does, without splitting each cell)
+    line = (" " * _GAP).join(f"{{:{'>' if r else '<'}{w}}}" if w else "{}"
+                             for w, r in zip(widths, right))
     for r in rows:
-        out += block(r, False)
+        if "\n" in "".join(r):
+            out += block(r, False)
+        else:
+            out.append(line.format(*r).rstrip())
     return "\n".join(out)
+
+
+def _numbers(column: list[str]) -> bool:
+    """Every non-empty cell a number (:data:`_NUMBER`), and one at least; a column of
+    one-line cells is matched whole."""
+    given = [text for text in column if text]
+    if not given:
+        return False
+    if "\n" in "".join(given):
+        return all(_NUMBER.match(text) for text in given)
+    return _NUMBERS.fullmatch("\n".join(given)) is not None
 
 
 def wrap_lines(text: str, width: int) -> str:
