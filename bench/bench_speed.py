@@ -19,6 +19,9 @@ compression at 10,000 activities touch about 58 % of the activities) and ``gener
   and solve of the whole LP), wall time in this process, median, interleaved.
   **Target: at most 1.5x.** The least costs must agree.
 
+Both sides run with Python's cycle collector off, as the command line runs them
+(``hasten.cli.main`` turns it off); ``--gc`` keeps it on (a program using the library).
+
 While HiGHS runs, the BLAS threads numpy may have started must not spin: the table shows
 the threads each BLAS library has (threadpoolctl) and the process's CPU time over its wall
 time during the curve (about 1.0: one core; near 2.0 on two: something spins beside HiGHS).
@@ -27,6 +30,7 @@ time during the curve (about 1.0: one core; near 2.0 on two: something spins bes
 from __future__ import annotations
 
 import argparse
+import gc
 import os
 import statistics
 import sys
@@ -131,9 +135,13 @@ def main(argv=None) -> int:
     parser.add_argument("--n", type=int, action="append", help="activities (repeatable)")
     parser.add_argument("--net", choices=["layered", "generated", "both"], default="both")
     parser.add_argument("--repeat", type=int, default=3)
+    parser.add_argument("--gc", action="store_true", help="keep the cycle collector on")
     args = parser.parse_args(argv)
+    if not args.gc:
+        gc.disable()
     print(f"load average {' '.join(f'{x:.2f}' for x in os.getloadavg())}; {os.cpu_count()} CPUs; "
-          f"BLAS threads: {blas_threads()}", flush=True)
+          f"BLAS threads: {blas_threads()}; cycle collector {'on' if args.gc else 'off'}",
+          flush=True)
     sizes = args.n or ([2000, 10000] if args.what != "plan" else [10000])
     nets = ["layered", "generated"] if args.net == "both" else [args.net]
     ok = True
