@@ -7,31 +7,56 @@ purpose becomes a one-line message on standard error and exit code 2.
 from __future__ import annotations
 
 import gc
-import json
 import math
 import os
 import re
-import shutil
 import sys
 from contextlib import contextmanager
 from datetime import date
-from importlib import resources
+from importlib import import_module
 from pathlib import Path
 from typing import Annotated, Optional
 
 import typer
 
-from . import render, render_json
-from .cpm import schedule as cpm
 from .errors import HastenError, InfeasibleTargetError, InputError, TimeLimitError
-from .formats import check_output_folder, check_output_target, import_research, read_project_with_notes
-from .formats import convert as convert_project
-from .formats import read_project, write_project, write_table
-from .formats.output import TABLE_SUFFIXES
-from .formats.files import write_file
-from .questions import Earlier
 
 __all__ = ["app", "main"]
+
+
+# Start-up imports only typer and what every command needs: the library (numpy, the
+# readers, the optimiser, the renderers) is imported by the command that uses it, when it
+# first uses it. `hasten --help` and a command's checks of its options start at once.
+class _Later:
+    """A module of hasten imported on first use of one of its names."""
+
+    def __init__(self, name: str):
+        self._name = name
+
+    def __getattr__(self, attr: str):
+        return getattr(import_module(self._name, __package__), attr)
+
+
+def _later(module: str, name: str):
+    """The function ``name`` of ``module``, imported when first called."""
+    def call(*args, **kwargs):
+        return getattr(import_module(module, __package__), name)(*args, **kwargs)
+    call.__name__ = name
+    return call
+
+
+render = _Later(".render")
+render_json = _Later(".render_json")
+cpm = _later(".cpm", "schedule")
+check_output_folder = _later(".formats", "check_output_folder")
+check_output_target = _later(".formats", "check_output_target")
+import_research = _later(".formats", "import_research")
+read_project_with_notes = _later(".formats", "read_project_with_notes")
+convert_project = _later(".formats", "convert")
+read_project = _later(".formats", "read_project")
+write_project = _later(".formats", "write_project")
+write_table = _later(".formats", "write_table")
+write_file = _later(".formats.files", "write_file")
 
 app = typer.Typer(
     add_completion=False,
@@ -62,6 +87,8 @@ def _echo(text: str) -> None:
 def _json(obj) -> None:
     """One JSON object on one line: compact, and fast for big schedules (an indented dump
     uses the slow pure-Python encoder). Pipe it to ``python -m json.tool`` to read it."""
+    import json
+
     typer.echo(json.dumps(obj, ensure_ascii=False))
 
 
@@ -96,6 +123,8 @@ def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path
     """Check every output path before any work: never an input, never an existing file
     without --force (a saved project: never an existing one), a folder that exists and can
     be written, and the form a table, a chart or a saved project is told by its suffix."""
+    from .formats.output import TABLE_SUFFIXES
+
     for path in tables:
         if path is not None and path.suffix.lower() not in TABLE_SUFFIXES:
             raise InputError(f"cannot write a table to a {path.suffix or 'suffix-less'!r} file", file=str(path),
@@ -257,6 +286,8 @@ _EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
 
 def _earlier(text: str) -> Earlier:
     """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks."""
+    from .questions import Earlier
+
     m = _EARLIER.match(text)
     if not m:
         raise InputError("--earlier is not understood", value=text,
@@ -582,6 +613,9 @@ def demo(
                 k += 1
         check_output_folder(folder)
         folder.mkdir(parents=True, exist_ok=True)
+        import shutil
+        from importlib import resources
+
         source = resources.files("hasten") / "demo"
         for item in source.iterdir():
             if item.is_file() and not item.name.startswith((".", "_")):

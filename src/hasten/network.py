@@ -10,6 +10,8 @@ Loops in the links are refused (:mod:`hasten.graph`).
 
 from __future__ import annotations
 
+from operator import attrgetter
+
 import numpy as np
 
 from .calendar import Timeline
@@ -71,8 +73,10 @@ class Network(CpmPasses):
         self.finish_release: list[int] = [0] * n  # earliest finish, from links to fixed events
         self.shown_start: list[int | None] = [s.start for s in states]  # actual start, if any
         links = project.links
-        every_pred = np.fromiter((idx[k.pred] for k in links), dtype=np.int64, count=len(links))
-        every_succ = np.fromiter((idx[k.succ] for k in links), dtype=np.int64, count=len(links))
+        every_pred = np.array(list(map(idx.__getitem__, map(attrgetter("pred"), links))),
+                              dtype=np.int64).reshape(len(links))
+        every_succ = np.array(list(map(idx.__getitem__, map(attrgetter("succ"), links))),
+                              dtype=np.int64).reshape(len(links))
         levels = self._cycle_check(every_pred, every_succ)
         if self.progress.progressed:
             kept = [e for e, k in enumerate(links) if e not in self.progress.dropped
@@ -84,8 +88,9 @@ class Network(CpmPasses):
             kept = range(len(links))
             self.pred, self.succ = every_pred.tolist(), every_succ.tolist()
         self.link_index: list[int] = list(kept)  # position of each link in project.links
-        self.kind: list[int] = [_KIND[links[e].type] for e in kept]
-        self.lag: list[int] = [links[e].lag for e in kept]
+        kept_links = links if len(kept) == len(links) else [links[e] for e in kept]
+        self.kind: list[int] = list(map(_KIND.__getitem__, map(attrgetter("type"), kept_links)))
+        self.lag: list[int] = list(map(attrgetter("lag"), kept_links))
         self._arrays(levels)
         self._in_links: list[list[int]] | None = None
         self._out_links: list[list[int]] | None = None

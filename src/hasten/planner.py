@@ -310,22 +310,26 @@ class Planner:
             solved[target] = (sol, figures.cost, figures.damages)
             if progress:
                 progress(k + 1, len(targets))
+        import numpy as np  # (loaded with the network already)
+
         ids = self.network.ids
         normal = self.network.durations
         points: list[CurvePoint] = []
         for target in range(hi, lo - 1, -1):
             sol, cost, damages = solved[target]
             choices = sol.choices or (-1,) * len(sol.durations)
-            plan = tuple((ids[i], n - d, self._way(i, c)) for i, (d, n, c) in
-                         enumerate(zip(sol.durations, normal, choices)) if d != n or c >= 0)
+            changed = np.flatnonzero((np.asarray(sol.durations) != np.asarray(normal))
+                                     | (np.asarray(choices) >= 0)).tolist()  # few of them
+            plan = tuple((ids[i], normal[i] - sol.durations[i], self._way(i, choices[i]))
+                         for i in changed)
             date_ = self.network.finish_date(target)
             before = solved.get(target + 1)
             if before is None:
                 points.append(CurvePoint(target, date_, cost, 0.0, plan, (), (), sol.proven, sol.gap, damages))
                 continue
             prev, prev_cost, prev_damages = before
-            changes = tuple((ids[i], d - p) for i, (d, p) in enumerate(zip(sol.durations, prev.durations))
-                            if d != p)
+            changes = tuple((ids[i], sol.durations[i] - prev.durations[i]) for i in
+                            np.flatnonzero(np.asarray(sol.durations) != np.asarray(prev.durations)).tolist())
             switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
                              enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
             points.append(CurvePoint(target, date_, cost, cost + damages - prev_cost - prev_damages, plan,

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import textwrap
 from datetime import date
+from operator import itemgetter
 from typing import TYPE_CHECKING
 
 from .cpm import Schedule
@@ -68,11 +69,12 @@ def schedule_text(project: Project, sched: Schedule, *, wide: bool = False) -> s
     progress = project.data_date is not None
     own = any(a.calendar for a in project.activities)  # some activities have their own calendar
     head = ["id", "name", "trade"] + (["calendar"] if own else []) + (["status"] if progress else [])
+    first = itemgetter("id", "name", "trade", *(["calendar"] if own else []))
+    dates = itemgetter("duration", "early_start", "early_finish", "late_start", "late_finish",
+                       "total_float", "free_float")
     body = table(
-        [[r["id"], r["name"], r["trade"]] + ([r["calendar"]] if own else [])
-         + ([_STATE.get(r["state"], r["state"])] if progress else [])
-         + [r["duration"], r["early_start"], r["early_finish"], r["late_start"], r["late_finish"],
-            r["total_float"], r["free_float"], "yes" if r["critical"] else ""] for r in rows],
+        [[*first(r), *([_STATE.get(r["state"], r["state"])] if progress else []), *dates(r),
+          "yes" if r["critical"] else ""] for r in rows],
         head + [("days\nleft" if progress else "days"), "early\nstart", "early\nfinish", "late\nstart",
                 "late\nfinish", "total\nfloat", "free\nfloat", "crit-\nical"],
         shorten=list(range(1, len(head))), optional=[2], wide=wide)

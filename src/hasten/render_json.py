@@ -5,6 +5,8 @@ computes a schedule or solves: every figure comes from the result objects.
 from __future__ import annotations
 
 from datetime import date
+from itertools import repeat
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -99,18 +101,17 @@ def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
     states = sched.states or None
     es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
     ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
-    rows = []
-    for k, r in enumerate(rs):
-        a = acts[r.id]
-        rows.append({
-            "id": r.id, "name": a.name, "trade": a.trade, "calendar": a.calendar or project.calendar.name,
-            "duration": r.duration, "state": r.state,
-            "es": r.es, "ef": r.ef, "ls": r.ls, "lf": r.lf,
-            "early_start": es[k], "early_finish": ef[k], "late_start": ls[k], "late_finish": lf[k],
-            "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
-            "driving": list(r.driving),
-        })
-    return rows
+    own = list(map(acts.__getitem__, map(attrgetter("id"), rs)))
+    default = project.calendar.name
+    # column by column, then one dictionary per row (keys in SCHEDULE_COLUMNS order)
+    columns = (
+        map(attrgetter("id"), rs), map(attrgetter("name"), own), map(attrgetter("trade"), own),
+        [a.calendar or default for a in own], map(attrgetter("duration"), rs),
+        map(attrgetter("state"), rs), map(attrgetter("es"), rs), map(attrgetter("ef"), rs),
+        map(attrgetter("ls"), rs), map(attrgetter("lf"), rs), es, ef, ls, lf,
+        map(attrgetter("total_float"), rs), map(attrgetter("free_float"), rs),
+        map(attrgetter("critical"), rs), map(list, map(attrgetter("driving"), rs)))
+    return list(map(dict, map(zip, repeat(SCHEDULE_COLUMNS), zip(*columns))))
 
 
 def schedule_json(project: Project, sched: Schedule) -> dict:

@@ -41,7 +41,10 @@ from __future__ import annotations
 import difflib
 import re
 from collections.abc import Sequence
-from dataclasses import dataclass, replace
+from itertools import repeat
+from operator import attrgetter
+from typing import NamedTuple
+from dataclasses import replace
 from datetime import date
 
 from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
@@ -49,6 +52,8 @@ from hasten.formats.cells import (CellRef, date_value, id_value, number_value, t
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
                                     LABOUR_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref,
                                     check_columns, optional, required)
+from hasten.formats.instances import instance, plain_defaults
+from hasten.formats.quick import quick_activities
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
 from hasten.labour import CrewData
@@ -59,12 +64,19 @@ __all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars", 
 _ID_FORBIDDEN = re.compile(r"[\s;:,]")  # \s is exactly what str.isspace() calls a space
 
 
-@dataclass(frozen=True)
-class ActivityRow:
-    """An activity as read from one row, before crash steps are attached."""
+class ActivityRow(NamedTuple):
+    """An activity as read from one row, before crash steps are attached: the activity, the
+    table's source and the row's number (a named tuple, as one is made per row; its place
+    is built when asked for, which is mostly for a message)."""
 
     activity: Activity
-    where: CellRef
+    source: str
+    line: int
+
+    @property
+    def where(self) -> CellRef:
+        """The row's place."""
+        return CellRef(self.source, self.line)
 
 
 def _activity_id(text: str, where: CellRef) -> str:
@@ -79,6 +91,23 @@ def _activity_id(text: str, where: CellRef) -> str:
 _PLAIN_ID = re.compile(r"[A-Za-z0-9_.\-]+")
 _PLAIN_DAYS = re.compile(r"[0-9]{1,6}")  # at most 999,999: within WHOLE_LIMIT
 _PLAIN_MONEY = re.compile(r"[0-9]{1,15}(?:\.[0-9]{1,15})?")
+
+
+#: An activity's fields at their defaults, for :func:`_new_activity` (None: use Activity())
+_DEFAULTS = plain_defaults(Activity, ("id", "duration"))
+
+
+def _new_activity(ident: str, duration: int, name: str, trade: str, crash_duration: int | None,
+                  cost: float, crash_cost: float | None) -> Activity:
+    """``Activity(id=ident, duration=duration, ...)`` with the other fields at their
+    defaults, three times faster than the constructor (see :mod:`hasten.formats.instances`)."""
+    if _DEFAULTS is None:  # pragma: no cover - Activity as it is today takes the dictionary
+        return Activity(id=ident, duration=duration, name=name, trade=trade,
+                        crash_duration=crash_duration, cost=cost, crash_cost=crash_cost)
+    values = _DEFAULTS.copy()
+    values.update(id=ident, duration=duration, name=name, trade=trade,
+                  crash_duration=crash_duration, cost=cost, crash_cost=crash_cost)
+    return instance(Activity, values)
 
 
 def _plain_activity(cells) -> Activity | None:
@@ -106,8 +135,7 @@ def _plain_activity(cells) -> Activity | None:
     crash_money = float(crash_cost) if crash_cost else None
     if (c is not None and c > d) or (crash_money is not None and crash_money < money):
         return None
-    return Activity(id=ident, duration=d, name=name, trade=trade, crash_duration=c, cost=money,
-                    crash_cost=crash_money)
+    return _new_activity(ident, d, name, trade, c, money, crash_money)
 
 
 def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
@@ -308,11 +336,18 @@ def activity_rows(table: Table) -> list[ActivityRow]:
             f"add a header row ({', '.join(PLAN_COLUMNS)}) and one row per activity")
     check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
     with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
-    rows = [ActivityRow(_activity(r, table, with_progress), CellRef(table.source, r.line))
-            for r in table.rows]
+    source = table.source
+    quick = None if with_progress else quick_activities(table)
+    if quick is not None:
+        rows = list(map(ActivityRow, quick, repeat(source), map(attrgetter("line"), table.rows)))
+    else:
+        rows = [ActivityRow(_activity(r, table, with_progress), source, r.line)
+                for r in table.rows]
     if any(column in table.columns for column in LABOUR_COLUMNS):
-        rows = [ActivityRow(_labour(r, table, row.activity), row.where)
+        rows = [ActivityRow(_labour(r, table, row.activity), source, row.line)
                 for r, row in zip(table.rows, rows)]
+    if len({row.activity.id for row in rows}) == len(rows):
+        return rows
     first: dict[str, ActivityRow] = {}
     for row in rows:
         ident = row.activity.id
