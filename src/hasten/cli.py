@@ -284,8 +284,8 @@ def _write_outputs(plan, *, out: Path | None = None, save_as: Path | None = None
 _EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
 
 
-def _earlier(text: str) -> Earlier:
-    """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks."""
+def _earlier(text: str):
+    """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks (a questions.Earlier)."""
     from .questions import Earlier
 
     m = _EARLIER.match(text)
