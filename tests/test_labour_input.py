@@ -312,7 +312,7 @@ def test_steps_and_options_built_in_code_are_cut_at_the_minimum():
 
 def test_the_optimiser_and_the_plan_check_keep_the_minimum():
     from hasten import plan
-    from hasten.checks import PlanChecker
+    from hasten.plan_check import PlanChecker
     from hasten.errors import InfeasibleTargetError, PlanCheckError
     from hasten.network import Network
 
@@ -329,12 +329,13 @@ def test_the_optimiser_and_the_plan_check_keep_the_minimum():
     with pytest.raises(InfeasibleTargetError) as caught:
         plan(project, 9)
     assert caught.value.shortest == 10
-    checker = PlanChecker(Network(project))
+    checker = PlanChecker(project)  # the independent check, from the project alone
+    # claims as the plan would give them: finish, added cost (A: 100 a day; 'fast' 300 + 50 a day)
     with pytest.raises(PlanCheckError):
-        checker.check([6, 4], [0, 6], choices=[-1, 0])  # A below its minimum
+        checker.check([6, 4], choices=[-1, 0], claimed_finish=10, claimed_cost=700.0)  # A below its minimum
     with pytest.raises(PlanCheckError):
-        checker.check([7, 2], [0, 7], choices=[-1, 0])  # 'fast' below B's minimum
-    assert checker.check([7, 3], [0, 7], choices=[-1, 0])[0] == 10
+        checker.check([7, 2], choices=[-1, 0], claimed_finish=9, claimed_cost=700.0)  # 'fast' below B's minimum
+    assert checker.check([7, 3], choices=[-1, 0], claimed_finish=10, claimed_cost=650.0).finish == 10
     # an option shorter than the minimum, built in code, is refused by name
     shorter = replace(project, activities=(project.activities[0], replace(
         project.activities[1], options=(Option("fast", 2, 300.0),))))

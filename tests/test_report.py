@@ -117,7 +117,8 @@ def test_best_report_and_the_curve_data(ques10: Path, tmp_path: Path):
     curve = json.loads(raw.replace("<\\/", "</"))
     assert curve["chosen"] == 18
     totals = {r["finish"]: r["total_cost"] for r in data["table"]}
-    assert {p["finish"]: p["total_cost"] for p in curve["points"]} == totals
+    # the report traces every finish; best's table stops where no earlier day can pay off
+    assert totals.items() <= {p["finish"]: p["total_cost"] for p in curve["points"]}.items()
     plans = {p["finish"]: {i: d for i, d, _ in p["plan"]} for p in curve["points"]}
     assert plans[18] == {"C": 1, "F": 4}  # ques10: crash C by 1 and F by 4 for 18 days (verified text)
 

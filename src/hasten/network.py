@@ -94,13 +94,15 @@ class Network(CpmPasses):
         self._arrays(levels)
         self._in_links: list[list[int]] | None = None
         self._out_links: list[list[int]] | None = None
-        # the project finish is dated no earlier than a milestone's first day (hasten.progress)
+        # the project finish is dated no earlier than a milestone's first day (hasten.progress;
+        # day 0 of another calendar may come after the project's day 0)
         self.finish_floor = 0
         for k, (a, st) in enumerate(zip(acts, states)):
-            if a.duration == 0 and st.floor > self.finish_floor:
-                c = self.timeline.clock_of(k)
-                day = st.floor if c is self.clock else self.clock.offset_of(c.date_of(st.floor), finish=False)
-                self.finish_floor = max(self.finish_floor, day)
+            if a.duration:
+                continue
+            c = self.timeline.clock_of(k)
+            day = st.floor if c is self.clock else self.clock.offset_of(c.date_of(st.floor), finish=False)
+            self.finish_floor = max(self.finish_floor, day)
 
     def finish_date(self, finish: int):
         """The date of a project finish of ``finish`` working days: its last working day,

@@ -296,8 +296,7 @@ def price_proposal(project: Project, lines: Sequence[ProposalLine], source: str 
     for line, (i, d, c) in zip(lines, resolved):
         without, ways = list(durations), list(choices)
         without[i], ways[i] = net.durations[i], -1
-        finish_without = raw.checker.check(without, net.forward(without),
-                                           choices=ways if any(w >= 0 for w in ways) else None)[0]
+        finish_without = net.finish_of(net.forward(without), without)  # by scheduling
         a = changes[line.id]
         priced.append(LinePrice(a.id, a.name, a.trade, a.shortened_by, a.option, a.option_note, a.added_cost,
                                 line.cost, finish_without))
