@@ -21,6 +21,7 @@ __all__ = [
     "Costs",
     "Contract",
     "Project",
+    "Risk",
     "WEEKDAY_NAMES",
 ]
 
@@ -113,6 +114,10 @@ class Activity:
     deadline: date | None = None  # an interim milestone's own deadline (last day allowed)
     damages_per_day: float = 0.0  # damages per calendar day the milestone is late
     calendar: str = ""  # name of one of Project.calendars; "" = the project calendar
+    # duration uncertainty (see hasten.uncertainty): the shortest and longest working days the
+    # activity may take; the duration is the most likely. None: from Project.risk, or none
+    optimistic: int | None = None
+    pessimistic: int | None = None
 
     @property
     def shortest_normal(self) -> int:
@@ -183,6 +188,21 @@ class Contract:
 
 
 @dataclass(frozen=True)
+class Risk:
+    """The ``[risk]`` settings: ranges of durations for activities without their own
+    ``optimistic`` / ``pessimistic`` days (see :mod:`hasten.uncertainty`).
+
+    ``default`` and each trade's range are written as text such as ``"-10%, +25%"``;
+    ``correlation`` gives a trade the weight of one shared factor (0 to 1).
+    """
+
+    default: str | None = None
+    distribution: str = "pert"  # "pert" or "triangular"
+    trades: tuple[tuple[str, str], ...] = ()  # (trade, range text), in the order given
+    correlation: tuple[tuple[str, float], ...] = ()  # (trade, weight), in the order given
+
+
+@dataclass(frozen=True)
 class Project:
     name: str
     start: date
@@ -195,6 +215,7 @@ class Project:
     data_date: date | None = None  # [status] data_date: progress is reported up to this date
     # further calendars activities may name (Activity.calendar), each under its own name
     calendars: tuple[Calendar, ...] = ()
+    risk: Risk = field(default_factory=Risk)  # [risk]: duration ranges by default and by trade
 
     def activity(self, activity_id: str) -> Activity:
         for a in self.activities:

@@ -22,6 +22,9 @@ Progress and date columns (all optional):
 ``calendar`` (optional column): the name of one of the calendars defined in the settings
 (``[calendars.NAME]``), on whose working days the activity is worked. An empty cell means
 the project calendar; an undefined name is refused.
+
+``optimistic`` and ``pessimistic`` (optional columns, whole working days): the activity's
+own range of durations (see :mod:`hasten.formats.risk`).
 """
 
 from __future__ import annotations
@@ -35,8 +38,9 @@ from datetime import date
 from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
                                   whole_value)
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
-                                    PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref, check_columns,
-                                    optional, required)
+                                    PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS, cell_ref,
+                                    check_columns, optional, required)
+from hasten.formats.risk import range_cells
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
 from hasten.project import Activity
@@ -75,7 +79,7 @@ def _plain_activity(cells) -> Activity | None:
     large project spends most of its time here, so the common case is kept short. A row
     naming a calendar is not plain."""
     get = cells.get
-    if get(CALENDAR_COLUMN):
+    if get(CALENDAR_COLUMN) or any(get(c) for c in RISK_COLUMNS):
         return None
     ident, duration, crash_duration = get("id", ""), get("duration", ""), get("crash_duration", "")
     cost, crash_cost = get("cost", ""), get("crash_cost", "")
@@ -129,6 +133,7 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
         crash_cost=crash_cost,
         calendar=optional(row, table, CALENDAR_COLUMN, text_value, ""),
         **(_progress(row, table, duration) if with_progress else {}),
+        **range_cells(row, table, duration),
     )
 
 

@@ -21,6 +21,7 @@ __all__ = [
     "PLAN_COLUMNS",
     "PROGRESS_COLUMNS",
     "CALENDAR_COLUMN",
+    "RISK_COLUMNS",
     "ACTIVITY_COLUMNS",
     "ACTIVITY_REQUIRED",
     "LINK_COLUMNS",
@@ -42,7 +43,8 @@ PLAN_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "cr
 PROGRESS_COLUMNS = ("actual_start", "actual_finish", "remaining", "percent_complete",
                     "not_before", "deadline", "damages_per_day")
 CALENDAR_COLUMN = "calendar"
-ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,)
+RISK_COLUMNS = ("optimistic", "pessimistic")  # duration ranges (hasten.formats.risk)
+ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + RISK_COLUMNS
 ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")

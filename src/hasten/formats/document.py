@@ -13,6 +13,9 @@ Canonical choices:
   (always written, ``[]`` for none, so that reading back does not give the project's
   holidays), in the project's order; the ``calendar`` column is written after the progress
   columns only when some activity names a calendar, empty for the project calendar;
+* the ``optimistic`` and ``pessimistic`` columns come last, each only when some activity
+  has a value in it; the ``[risk]`` section (``risk.*`` keys) is written when given, with
+  its distribution whenever some range is given;
 * links go into the ``predecessors`` column (``Link.text()``, joined with ``"; "``) when the
   project's link order is the order reading gives back (grouped by successor in activity
   order); otherwise all links go into the links table, in order, and the column stays empty;
@@ -30,7 +33,7 @@ from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
 from hasten.formats.columns import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS,
-                                  PROGRESS_COLUMNS, STEP_COLUMNS)
+                                  PROGRESS_COLUMNS, RISK_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
 from hasten.project import Activity, Link, Option, Project
@@ -58,7 +61,8 @@ class Document:
         """The columns to write: the plan columns, then the progress columns and the calendar
         column in use."""
         used = {key for record in self.activities for key in record}
-        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS + (CALENDAR_COLUMN,) if c in used)
+        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + RISK_COLUMNS
+                                    if c in used)
 
 
 def _in_reading_order(project: Project) -> bool:
@@ -127,10 +131,12 @@ def to_document(project: Project) -> Document:
     progress = [_progress_cells(a) for a in project.activities]
     used = [c for c in PROGRESS_COLUMNS if any(cells[c] is not None for cells in progress)]
     calendars = any(a.calendar for a in project.activities)
+    ranges = [c for c in RISK_COLUMNS if any(getattr(a, c) is not None for a in project.activities)]
     return Document(
         settings=settings,
         activities=[_activity_row(a, incoming.get(a.id, [])) | {c: cells[c] for c in used}
                     | ({CALENDAR_COLUMN: a.calendar or None} if calendars else {})
+                    | {c: getattr(a, c) for c in ranges}
                     for a, cells in zip(project.activities, progress)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}

@@ -18,6 +18,7 @@ from hasten.formats.activities import (activity_rows, check_calendars, check_pro
 from hasten.formats.cells import one_line_errors
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.reach import check_reach
+from hasten.formats.risk import check_risk_trades
 from hasten.formats.settings import parse_settings
 from hasten.formats.shortening import option_rows, step_rows, with_options, with_steps
 from hasten.formats.tables import Tables
@@ -42,6 +43,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     check_progress(rows, tables.activities, settings.start, settings.data_date,
                    tables.settings.source)
     check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
+    check_risk_trades([r.activity.trade for r in rows], settings.risk, tables.settings)
     by_id = {r.activity.id: r for r in rows}
     ids = list(by_id)
     links = resolve_links(column_links(tables.activities) + table_links(tables.links), ids)
@@ -62,6 +64,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
         contract=settings.contract,
         data_date=settings.data_date,
         calendars=settings.calendars,
+        risk=settings.risk,
     )
     check_reach(project, {r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],

@@ -17,6 +17,9 @@ Further named calendars, which activities name in their ``calendar`` column, go 
 ``workdays`` is required; ``holidays`` given as ``[]`` (or the text ``none``, the workbook's
 spelling of an empty list) means no holidays. A calendar's name is its key: letters, digits,
 ``-`` or ``_``. Calendars keep the order they are given in.
+
+Duration ranges go under ``[risk]`` (``risk.default``, ``risk.distribution``,
+``risk.trades.NAME``, ``risk.correlation.NAME``; see :mod:`hasten.formats.risk`).
 """
 
 from __future__ import annotations
@@ -28,8 +31,10 @@ from dataclasses import dataclass
 from datetime import date
 
 from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
+from hasten.formats.risk import (RISK, check_risk_key, flatten_risk, is_risk_key, nest_key, parse_risk,
+                                 risk_values)
 from hasten.formats.tables import Settings
-from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
+from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project, Risk
 
 __all__ = [
     "SETTING_KEYS",
@@ -79,6 +84,7 @@ class ProjectSettings:
     contract: Contract
     data_date: date | None = None
     calendars: tuple[Calendar, ...] = ()
+    risk: Risk = Risk()
 
 
 def _flatten_calendars(value: object, where: CellRef) -> dict[str, object]:
@@ -111,6 +117,8 @@ def flatten(nested: Mapping[str, object], where: CellRef) -> dict[str, object]:
     for key, value in nested.items():
         if key == CALENDARS:
             flat.update(_flatten_calendars(value, where))
+        elif key == RISK:
+            flat.update(flatten_risk(value, where))
         elif key in SECTIONS:
             if not isinstance(value, Mapping):
                 raise where.at(key).error(f"'{key}' must be a section of keys", value,
@@ -126,7 +134,7 @@ def nest(flat: Mapping[str, object]) -> dict[str, object]:
     keys into its table within ``calendars``)."""
     nested: dict[str, object] = {}
     for key, value in flat.items():
-        *sections, inner = key.split(".")
+        *sections, inner = nest_key(key) or key.split(".")
         table = nested
         for section in sections:
             table = table.setdefault(section, {})
@@ -169,6 +177,9 @@ def _check_keys(settings: Settings) -> None:
             continue
         if _calendar_parts(key) is not None:
             _check_calendar_key(settings, key)
+            continue
+        if is_risk_key(key):
+            check_risk_key(settings, key)
             continue
         close = difflib.get_close_matches(key, SETTING_KEYS, n=1)
         hint = f"did you mean '{close[0]}'? " if close else ""
@@ -292,6 +303,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
         ),
         data_date=data_date,
         calendars=parse_calendars(settings, holidays),
+        risk=parse_risk(settings),
     )
 
 
@@ -339,4 +351,5 @@ def settings_values(project: Project) -> dict[str, object]:
         "contract.bonus_cap_days": project.contract.bonus_cap_days,
         "status.data_date": project.data_date,
     }
-    return {k: v for k, v in values.items() if v is not None} | _calendars_values(project.calendars)
+    return ({k: v for k, v in values.items() if v is not None} | _calendars_values(project.calendars)
+            | risk_values(project))
