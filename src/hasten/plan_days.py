@@ -18,8 +18,10 @@ from typing import Mapping, Sequence
 
 from .errors import InputError
 from .network import Network
+from .results import ActivityChange
 
-__all__ = ["PlanDays", "plan_days", "plan_days_from_json", "added_cost", "activity_added_cost"]
+__all__ = ["PlanDays", "plan_days", "plan_days_from_json", "added_cost", "activity_added_cost", "plan_changes",
+           "plan_cautions_of"]
 
 _REMAKE = "make the plan again for the project as it stands now (hasten plan ... --json > plan.json)"
 
@@ -59,6 +61,30 @@ def added_cost(network: Network, durations: Sequence[int], choices: Sequence[int
     """The direct cost a plan adds, from the activity data (:func:`activity_added_cost`)."""
     return sum(activity_added_cost(*row) for row in zip(network.durations, durations, choices, network.steps,
                                                          network.options))
+
+
+def plan_changes(network: Network, durations: Sequence[int], choices: Sequence[int]) -> list[ActivityChange]:
+    """One row per activity (network order) of the plan ``durations`` / ``choices``."""
+    project = network.project
+    names = {c.name for c in project.calendars}
+    rows = []
+    for act, normal, d, c, steps, options in zip(project.activities, network.durations, durations, choices,
+                                                 network.steps, network.options):
+        way = options[c] if c >= 0 else None
+        rows.append(ActivityChange(act.id, act.name, act.trade,
+                                   act.calendar if act.calendar in names else project.calendar.name,
+                                   normal, d, normal - d, activity_added_cost(normal, d, c, steps, options),
+                                   way.name if way else "", way.note if way else ""))
+    return rows
+
+
+def plan_cautions_of(network: Network, durations: Sequence[int], choices: Sequence[int]) -> tuple[str, ...]:
+    """The cautions of a plan (:func:`hasten.cautions.plan_cautions`, on its own schedule)."""
+    from .cautions import plan_cautions
+    from .cpm import schedule
+
+    changes = plan_changes(network, durations, choices)
+    return tuple(plan_cautions(network.project, network.timeline, changes, schedule(network, list(durations))))
 
 
 def plan_days(network: Network, durations: Mapping[str, int], options: Mapping[str, str] | None = None, *,
@@ -125,7 +151,10 @@ def plan_days_from_json(network: Network, data: object, source: str) -> PlanDays
         plan = courses[-1]["plan"]
         note = f"the course '{courses[-1].get('course', 'least total cost')}' of the recovery in {source}"
     elif isinstance(data, dict) and isinstance(data.get("plan"), dict):
-        plan = data["plan"]
+        plan = data["plan"]  # best
+    elif isinstance(data, dict) and isinstance(data.get("chosen"), dict):
+        plan = dict(data["chosen"], target=data.get("target"))  # plan --confidence, best --expected
+        note = f"the plan {data['chosen'].get('label', 'chosen for risk')} in {source}"
     if not isinstance(plan, dict) or not isinstance(plan.get("activities"), list):
         raise InputError("this is not a plan: no list of activities", file=source, column="activities",
                          fix="give the --json output of hasten plan, best, budget or recover")

@@ -29,16 +29,14 @@ from datetime import date
 
 import numpy as np
 
-from .cautions import plan_cautions
-from .cpm import schedule
 from .errors import HastenError, InputError
 from .planner import Planner, Progress
-from .plan_days import activity_added_cost
+from .plan_days import plan_cautions_of, plan_changes
 from .progress import end_day
 from .project import Project
 from .questions import Target, target_offset
 from .results import ActivityChange
-from .scenario_model import ScenarioModel, fewest_changes
+from .scenario_model import EXACT_SECONDS, ScenarioModel, fewest_changes
 from .simulation import BLOCK, RiskModel, RiskResult, run_chunk, simulate
 from .time_costs import time_costs
 from .uncertainty import project_ranges
@@ -83,6 +81,7 @@ class PlanUnderRisk:
     interval: tuple[float, float] | None  # Wilson 95 % interval of meets / runs
     expected_total: float  # added cost + time costs + milestone damages, averaged on the fresh runs
     proven: bool = True
+    gap: float | None = None  # when not proven: how far above the least it may be, as a share
 
     @property
     def p_meet(self) -> float | None:
@@ -156,21 +155,6 @@ class _Evaluator:
         return finish, total
 
 
-def _changes(planner: Planner, durations, choices) -> list[ActivityChange]:
-    """One row per activity (model order) of the plan ``durations`` / ``choices``."""
-    net, project = planner.network, planner.project
-    names = {c.name for c in project.calendars}
-    rows = []
-    for act, normal, d, c, steps, options in zip(project.activities, net.durations, durations, choices,
-                                                 net.steps, net.options):
-        way = options[c] if c >= 0 else None
-        rows.append(ActivityChange(act.id, act.name, act.trade,
-                                   act.calendar if act.calendar in names else project.calendar.name,
-                                   normal, d, normal - d, activity_added_cost(normal, d, c, steps, options),
-                                   way.name if way else "", way.note if way else ""))
-    return rows
-
-
 def risk_plans(project: Project, *, target: Target | None = None, confidence: float | None = None,
                expected: bool = False, scenarios: int = SCENARIOS, seed: int | None = None,
                runs: int = 5000, time_limit: float | None = None,
@@ -226,7 +210,7 @@ def risk_plans(project: Project, *, target: Target | None = None, confidence: fl
     det_fin, det_tot = inside.totals(normal - np.asarray(det_d), det.added_cost)
     model = ScenarioModel(net, drawn, target=meet_by if confidence is not None else None,
                           confidence=confidence, expected=expected, time_limit=time_limit)
-    sol = model.solve()
+    sol = model.solve(seconds=EXACT_SECONDS if time_limit is None else time_limit)
     if sol is None:
         raise HastenError(f"no plan finishes by {meet_by} working days ({net.finish_date(meet_by).isoformat()}) "
                           f"in at least {confidence:.0%} of the {len(drawn)} scenarios: even the shortest "
@@ -252,20 +236,20 @@ def risk_plans(project: Project, *, target: Target | None = None, confidence: fl
     outside = [_expected_total(planner, r, cost) for r, cost in zip(sims, (det.added_cost, sol_cost))]
     label = f"chosen for {confidence:.0%} confidence" if confidence is not None else "least expected cost"
     plans = []
-    for name, d, c, cost, fin, tot, sim, total, proven in (
+    for name, d, c, cost, fin, tot, sim, total, proven, gap in (
             ("least-cost plan" if confidence is not None else "least total cost plan", det_d, det_c,
-             det.added_cost, det_fin, det_tot, sims[0], outside[0], det.proven),
-            (label, sol_d, sol_c, sol_cost, sol_fin, sol_tot, sims[1], outside[1], sol.proven or same)):
-        changes = _changes(planner, d, c)
+             det.added_cost, det_fin, det_tot, sims[0], outside[0], det.proven, det.gap),
+            (label, sol_d, sol_c, sol_cost, sol_fin, sol_tot, sims[1], outside[1], sol.proven or same,
+             None if same else sol.gap)):
+        changes = plan_changes(net, d, c)
         finish = net.forward_finish(list(d))
-        sched = schedule(net, list(d))
-        cautions = tuple(plan_cautions(planner.project, net.timeline, changes, sched))
+        cautions = plan_cautions_of(net, d, c)
         meets = None if meet_by is None else sum(n for f, n in sim.finish_counts if f <= meet_by)
         order = {a.id: a for a in changes}
         plans.append(PlanUnderRisk(
             name, cost, finish, net.finish_date(finish), tuple(order[a.id] for a in planner.given.activities),
             cautions, None if meet_by is None else float(np.mean(fin <= meet_by)), float(tot.mean()), sim, meets,
-            None if meets is None else wilson_interval(meets, runs), total, proven))
+            None if meets is None else wilson_interval(meets, runs), total, proven, gap))
     notes = planner.notes + (() if len(base.sampler.uncertain) else (
         "no activity has a range of durations (optimistic, pessimistic or [risk]): every scenario is the "
         "planned schedule",))

@@ -39,8 +39,8 @@ Starting from the longest paths of the normal plan, each solve's plan is schedul
 scenario with the CPM passes; a scenario whose finish breaks its rows gets the path that
 made it late, and the model is solved again, first with the integer columns relaxed, then
 exact (Kelley's cutting planes, *J. SIAM* 8(4), 1960; the paths as Benders cuts, Benders,
-*Numerische Mathematik* 4, 1962). Step columns whose order is not convex are made 0/1 only
-for the scenarios whose relaxed cost falls below the true one at the solution. When no
+*Numerische Mathematik* 4, 1962; both from memory). Step columns whose order is not convex
+are made 0/1 only where the relaxed cost falls below the true one at the solution. When no
 scenario breaks a row and every cost is true, the plan is optimal for the whole model: the
 rows kept are a relaxation, and its optimum is feasible for all of them.
 
@@ -51,7 +51,8 @@ functions of each scenario): such a project is refused.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+import time
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -61,13 +62,17 @@ from .progress import end_day
 from .solver_model import INF, LinearModel
 from .time_costs import time_costs
 
-__all__ = ["ScenarioModel", "ScenarioSolution", "finish_bounds", "fewest_changes", "TIE_BREAK_NODES"]
+__all__ = ["ScenarioModel", "ScenarioSolution", "finish_bounds", "fewest_changes", "TIE_BREAK_NODES",
+           "EXACT_SECONDS"]
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _TOL = 1e-6
 _ROUNDS = 400  # solves of one question at most (each adds the paths that bind)
 #: Branch-and-bound nodes the tie-break may search (as hasten.crash_ties).
 TIE_BREAK_NODES = 2000
+#: Seconds the exact search of non-convex step costs may take before the better plan found
+#: is returned with its gap (see ScenarioModel.solve).
+EXACT_SECONDS = 30.0
 
 
 @dataclass(frozen=True)
@@ -162,12 +167,20 @@ class _Paths:
 
 @dataclass
 class _Steps:
-    """Step columns "at least j days past ``limit``" of one event of one scenario."""
+    """Step columns "at least j days past ``limit``" of one event of one scenario; ``gates``:
+    a column per convex run of steps after the first, "this run is begun"."""
 
     cols: np.ndarray
     costs: np.ndarray
     limit: int
+    gates: np.ndarray
+    scenario: int
+    activity: int  # whose end it is; -1: the project finish
     integer: bool = False
+
+    def cost(self, event: float) -> float:
+        """The true cost of the event at ``event`` (a whole day), above the cost at ``limit``."""
+        return float(self.costs[: max(0, int(round(event)) - self.limit)].sum())
 
 
 class ScenarioModel:
@@ -309,7 +322,7 @@ class ScenarioModel:
                 lo, hi = int(least[k]), int(greatest[k])
                 values = [time_costs(project, clock, t, floor=floor).net for t in range(lo, hi + 1)]
                 self.time_base += values[0] / runs
-                self._add_steps(int(self.finish[k]), lo, values)
+                self._add_steps(int(self.finish[k]), lo, values, k, -1)
         self.watched: list[tuple[int, np.ndarray]] = []  # (activity, its end column per scenario)
         for i, act in enumerate(net.project.activities):
             if act.deadline is None or not act.damages_per_day or net.fixed[i]:
@@ -324,22 +337,36 @@ class ScenarioModel:
                 if top > limit:
                     values = [act.damages_per_day * max(0, (clock.date_of(end_day(state, f)) - act.deadline).days)
                               if f >= state.floor else 0.0 for f in range(limit, top + 1)]
-                    self._add_steps(int(cols[k]), limit, values)
+                    self._add_steps(int(cols[k]), limit, values, k, i)
 
-    def _add_steps(self, col: int, limit: int, values: list[float]) -> None:
+    def _add_steps(self, col: int, limit: int, values: list[float], scenario: int, activity: int) -> None:
         """Columns "at least j days past ``limit``" for the event column ``col``, whose cost at
-        ``limit + j`` is ``values[j]``, taken in order; the row ``col - sum b <= limit``."""
+        ``limit + j`` is ``values[j]``; the row ``col - sum b <= limit``.
+
+        Steps that never get cheaper are taken in order by the LP itself. Otherwise the steps
+        are cut into runs that never get cheaper (a week, say), and each run after the first
+        has a gate column: its steps only when the gate is open, the gate only when the last
+        (dearest) step of the run before is taken (the incremental formulation of a piecewise
+        linear cost, Dantzig, *Econometrica* 28(1), 1960, from memory; locally ideal: Padberg,
+        *Operations Research Letters* 27(1), 2000, from memory). Gates are made 0/1 only where
+        the relaxed cost falls below the true one (see :meth:`_separate`)."""
         lm = self.lp
         costs = np.diff(np.asarray(values, dtype=float))
         if not len(costs):
             return
         b = lm.add_columns(np.zeros(len(costs)), 1.0)
         lm.add_row(np.concatenate([[col], b]), np.concatenate([[1.0], -np.ones(len(b))]), -INF, float(limit))
-        if len(costs) > 1 and np.any(np.diff(costs) < -_TOL):  # not convex: later made 0/1 if needed
-            index = np.empty(2 * (len(b) - 1), dtype=np.int64)
-            index[0::2], index[1::2] = b[1:], b[:-1]
-            lm.add_rows(np.arange(0, len(index), 2), index, np.tile([1.0, -1.0], len(b) - 1), -INF, 0.0)
-        self.steps.append(_Steps(b, costs, limit))
+        cheaper = np.flatnonzero(np.diff(costs) < -_TOL) + 1  # where a new run begins
+        gates = lm.add_columns(np.zeros(len(cheaper)), 1.0)
+        bounds = np.concatenate([[0], cheaper, [len(costs)]])
+        for g, (z, c) in enumerate(zip(bounds[1:-1], bounds[2:])):
+            gate = int(gates[g])
+            run = b[z:c]
+            index = np.empty(2 * len(run), dtype=np.int64)
+            index[0::2], index[1::2] = run, gate
+            lm.add_rows(np.arange(0, len(index), 2), index, np.tile([1.0, -1.0], len(run)), -INF, 0.0)
+            lm.add_row([gate, int(b[z - 1])], [1.0, -1.0], -INF, 0.0)  # the run before taken whole
+        self.steps.append(_Steps(b, costs, limit, gates, scenario, activity, not len(gates)))
         self._objective.append((b, costs / self.runs))
 
     # -- the paths that bind -----------------------------------------------------------
@@ -364,11 +391,13 @@ class ScenarioModel:
         return True
 
     def _separate(self, values: np.ndarray) -> int:
-        """Rows for the paths the solution ``values`` breaks; how many were added."""
+        """Rows for the paths the solution ``values`` breaks; how many were added. With
+        ``self.exact`` also the gates that must be 0/1 (see :meth:`_add_steps`)."""
         d = self.drawn.T - self.shortening(values)[:, None]
         es, why = self.paths.forward(d)
         ef = es + d
         end = ef.max(axis=0)
+        self._ends = (ef, end)
         last = ef.argmax(axis=0)
         added = 0
         for k in range(self.runs):
@@ -384,24 +413,47 @@ class ScenarioModel:
                 if ef[i, k] > values[cols[k]] + _TOL:
                     a, const = self.paths.path(why, k, i)
                     added += self._cut(k, a, const, int(cols[k]), 1.0, 0.0)
-        if added or not self.lp.is_mip:
+        if added or not self.exact:
             return added
-        for group in self.steps:  # a relaxed cost below the true one: take those steps in order
+        for group in self.steps:  # a relaxed cost below the true one: the gates left open by half
             if group.integer:
                 continue
-            b = values[group.cols]
-            taken = int(round(float(b.sum())))
-            if float(np.dot(b, group.costs)) < float(group.costs[:taken].sum()) - _TOL * max(1.0, group.costs.sum()):
-                self.lp.set_integer(group.cols, True)
-                group.integer = True
+            event = end[group.scenario] if group.activity < 0 else ef[group.activity, group.scenario]
+            if float(np.dot(values[group.cols], group.costs)) < group.cost(event) - _TOL * max(1.0, group.costs.sum()):
+                gate = values[group.gates]
+                split = group.gates[(gate > _TOL) & (gate < 1 - _TOL)]
+                self.lp.set_integer(split if len(split) else group.gates, True)
+                group.integer = bool(np.all(np.asarray(self.lp.col_integer)[group.gates]))
                 added += 1
         return added
 
-    def _loop(self):
-        """Solve, add the rows broken, and again, until none is broken; the last result."""
+    def true_objective(self, values: np.ndarray) -> float:
+        """The objective of the plan in ``values`` with every step cost taken at its true value
+        (after :meth:`_separate` has scheduled it)."""
+        ef, end = self._ends
+        total = float(np.dot(np.rint(values[self.cost_cols]), self.cost_coef)) + self.time_base
+        for group in self.steps:
+            event = end[group.scenario] if group.activity < 0 else ef[group.activity, group.scenario]
+            total += group.cost(event) / self.runs
+        return total
+
+    def _feasible(self) -> bool:
+        """The plan last scheduled (:meth:`_separate`) meets the confidence asked for."""
+        if self.confidence is None:
+            return True
+        return int(np.sum(self._ends[1] > self.target + _TOL)) <= self.may_miss
+
+    def _loop(self, deadline: float | None = None):
+        """Solve, add the rows broken, and again, until none is broken; the last result
+        (``stopped`` when the time limit or ``deadline`` ended the search first)."""
         lm = self.lp
+        own = lm.time_limit
         for _ in range(_ROUNDS):
-            result = (lm.copy() if lm.is_mip else lm).solve()  # (a MILP is solved fresh, see crash_model)
+            solver = lm.copy() if lm.is_mip else lm  # (a MILP is solved fresh, see crash_model)
+            if deadline is not None:
+                left = max(1.0, deadline - time.monotonic())
+                solver.time_limit = left if own is None else min(own, left)
+            result = solver.solve()
             if result.status == "infeasible":
                 return None
             if result.values is None:
@@ -409,12 +461,36 @@ class ScenarioModel:
                                      "was found")
             if not self._separate(result.values):
                 return result
+            if deadline is not None and time.monotonic() > deadline:
+                return replace(result, status="stopped")
         raise SolverError(f"the plan for risk did not settle within {_ROUNDS} solves")  # pragma: no cover
 
-    def _relaxed_first(self):
-        """The rows found with every integer column relaxed (cheap solves), then exact."""
+    def solution(self, values: np.ndarray, result, objective: float | None = None,
+                 bound: float | None = None) -> ScenarioSolution:
+        durations = np.asarray(self.net.durations, dtype=np.int64) - np.rint(self.shortening(values)).astype(np.int64)
+        choices = np.full(self.n, -1, dtype=np.int64)
+        chosen = np.flatnonzero(np.rint(values[self.opt_x]) > 0.5)
+        choices[self.opt_owner[chosen]] = self.opt_index[chosen]
+        added = float(np.dot(np.rint(values[self.cost_cols]), self.cost_coef))
+        if objective is None:
+            objective = float(result.objective) + self.time_base
+        proven = result.status == "optimal"
+        gap = None
+        if not proven:
+            gap = result.gap if bound is None else max(0.0, objective - bound) / max(abs(objective), 1e-9)
+        return ScenarioSolution(tuple(durations.tolist()), tuple(choices.tolist()), added, objective, proven, gap)
+
+    def solve(self, *, seconds: float = EXACT_SECONDS) -> ScenarioSolution | None:
+        """The plan, or ``None`` when no plan satisfies the model (e.g. the confidence).
+
+        First every integer column relaxed, then the plan's columns whole with the step
+        costs at their convex envelope (a lower bound), then, if the plan found there costs
+        more than that bound, exact; the exact search stops after ``seconds`` (or the
+        model's time limit per solve), and the better plan found is returned with the gap to
+        the bound."""
         lm = self.lp
         integer = np.flatnonzero(lm.col_integer)
+        self.exact = False
         if len(integer):
             lm.set_integer(integer, False)
             try:
@@ -422,22 +498,27 @@ class ScenarioModel:
                     return None
             finally:
                 lm.set_integer(integer, True)
-        return self._loop()
-
-    def solution(self, values: np.ndarray, result) -> ScenarioSolution:
-        durations = np.asarray(self.net.durations, dtype=np.int64) - np.rint(self.shortening(values)).astype(np.int64)
-        choices = np.full(self.n, -1, dtype=np.int64)
-        chosen = np.flatnonzero(np.rint(values[self.opt_x]) > 0.5)
-        choices[self.opt_owner[chosen]] = self.opt_index[chosen]
-        added = float(np.dot(np.rint(values[self.cost_cols]), self.cost_coef))
-        proven = result.status == "optimal"
-        return ScenarioSolution(tuple(durations.tolist()), tuple(choices.tolist()), added,
-                                float(result.objective) + self.time_base, proven, None if proven else result.gap)
-
-    def solve(self) -> ScenarioSolution | None:
-        """The plan, or ``None`` when no plan satisfies the model (e.g. the confidence)."""
-        result = self._relaxed_first()
-        return None if result is None else self.solution(result.values, result)
+        envelope = self._loop()
+        if envelope is None:
+            return None
+        bound = float(envelope.objective) + self.time_base
+        true = self.true_objective(envelope.values)
+        first = self.solution(envelope.values, envelope, true)
+        if envelope.status == "optimal" and true <= bound + 1e-6 * max(1.0, abs(bound)):
+            return first  # the envelope is the true cost at its optimum: optimal
+        self.exact = True
+        exact = self._loop(deadline=time.monotonic() + seconds)
+        if exact is not None and exact.status == "optimal":
+            return self.solution(exact.values, exact)
+        candidates = [first] if envelope.status == "optimal" else []
+        if exact is not None and exact.values is not None and self._feasible():
+            candidates.append(self.solution(exact.values, exact, self.true_objective(exact.values)))
+        if not candidates:
+            raise TimeLimitError(f"the solver's time limit ran out before a plan for risk was proven")
+        best = min(candidates, key=lambda c: c.objective)
+        low = max(bound, (exact.bound + self.time_base) if exact is not None and exact.bound is not None else bound)
+        gap = max(0.0, best.objective - low) / max(abs(best.objective), 1e-9)
+        return replace(best, proven=False, gap=gap)
 
 
 def fewest_changes(model: ScenarioModel, best: ScenarioSolution) -> ScenarioSolution | None:
@@ -477,6 +558,8 @@ def fewest_changes(model: ScenarioModel, best: ScenarioSolution) -> ScenarioSolu
         return None
     if out is None or out.status != "optimal":
         return None
+    if model.true_objective(out.values) > best.objective + 1e-6 * max(1.0, abs(best.objective)):
+        return None  # (step costs at their envelope can look cheaper than they are)
     sol = model.solution(out.values, out)
     fewer = sum(1 for d, n, c in zip(sol.durations, normal, sol.choices) if d != n or c >= 0)
     days = sum(n - d for d, n in zip(sol.durations, normal))
