@@ -36,7 +36,7 @@ from .progress import end_day
 from .project import Project
 from .questions import Target, target_offset
 from .results import ActivityChange
-from .scenario_model import EXACT_SECONDS, ScenarioModel, fewest_changes
+from .scenario_model import EXACT_SECONDS, ONE_CALENDAR, ScenarioModel, fewest_changes
 from .simulation import BLOCK, RiskModel, RiskResult, run_chunk, simulate
 from .time_costs import time_costs
 from .uncertainty import project_ranges
@@ -186,6 +186,8 @@ def risk_plans(project: Project, *, target: Target | None = None, confidence: fl
     _whole(seed, "seed", 0, "7")
     planner = Planner(project, time_limit=time_limit)
     net = planner.network
+    if net.several:
+        raise HastenError(ONE_CALENDAR)
     if confidence is not None:
         if target is None:
             raise HastenError("a confidence needs a target: --finish N, --by DATE or --earlier 10d")

@@ -73,6 +73,9 @@ TIE_BREAK_NODES = 2000
 #: Seconds the exact search of non-convex step costs may take before the better plan found
 #: is returned with its gap (see ScenarioModel.solve).
 EXACT_SECONDS = 30.0
+ONE_CALENDAR = ("plans chosen for risk (--confidence, --expected) need one calendar for all the work; this "
+                "project has activities on calendars of their own. Simulate a plan instead: hasten risk "
+                "PROJECT --plan plan.json")
 
 
 @dataclass(frozen=True)
@@ -196,9 +199,7 @@ class ScenarioModel:
                  confidence: float | None = None, expected: bool = False, solver: str | None = None,
                  time_limit: float | None = None):
         if network.several:
-            raise HastenError("plans chosen for risk (--confidence, --expected) need one calendar for all "
-                              "the work; this project has activities on calendars of their own. Simulate a "
-                              "plan instead: hasten risk PROJECT --plan plan.json")
+            raise HastenError(ONE_CALENDAR)
         if confidence is not None and target is None:
             raise HastenError("a confidence needs a target")
         self.net = net = network
