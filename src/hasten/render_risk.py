@@ -189,9 +189,9 @@ def risk_plans_text(rp: RiskPlans) -> str:
     lines.append("")
     if changed:
         lines.append(f"The {ch.label}: {len(changed)} activities changed")
-        lines.append(tabulate([[a.id, _cut(a.name, 40), a.trade, a.normal, a.duration, a.shortened_by,
-                                a.option or "", money(a.added_cost, cur)] for a in changed],
-                              headers=["id", "name", "trade", "normal", "new", "shortened", "option", "added cost"],
+        lines.append(tabulate([[a.id, _cut(a.name, 34), _cut(a.trade, 14), a.normal, a.duration, _cut(a.option, 14),
+                                money(a.added_cost, cur)] for a in changed],
+                              headers=["id", "name", "trade", "days", "new", "option", "added cost"],
                               tablefmt="simple", disable_numparse=True))
     else:
         lines.append(f"The {ch.label} changes no activity.")
