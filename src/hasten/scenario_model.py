@@ -33,7 +33,10 @@ its event graph: a sum of durations (some with a minus sign: an FF or SF link co
 from the successor's finish) and lags. So the scenario rows are projected out and only the
 paths that bind are kept, as rows on the first-stage columns::
 
-    sum_i a_i (D_ik - S_i) + lags <= t + M_k z_k      (confidence)     ... <= T_k  (expected)
+    sum_i a_i (D_ik - S_i) + lags <= t + M z_k      (confidence)     ... <= T_k  (expected)
+
+with ``M`` the path's own greatest value over all plans less ``t`` (a tighter big M than the
+scenario's, so a stronger relaxation).
 
 Starting from the longest paths of the normal plan, each solve's plan is scheduled in every
 scenario with the CPM passes; a scenario whose finish breaks its rows gets the path that
@@ -218,6 +221,8 @@ class ScenarioModel:
             if room[i] < 0:
                 raise HastenError(f"activity {net.ids[i]} is drawn shorter than it may take in some scenario")
             self.lp.add_row(cols, coefs, -INF, float(room[i]))
+        self.s_least = np.minimum(normal - longest, 0).astype(float)  # a slower option: negative days
+        self.s_most = np.minimum(normal - shortest, np.maximum(room, 0)).astype(float)
         low = np.maximum(self.drawn.T - (normal - shortest)[:, None], floor[:, None])
         high = self.drawn.T + np.maximum(longest - normal, 0)[:, None]
         self.least_end, self.greatest_end = finish_bounds(net, low, high)
@@ -308,7 +313,6 @@ class ScenarioModel:
         greatest = self.greatest_end.max(axis=0, initial=0)
         self.greatest = greatest
         self.z = np.full(runs, -1, dtype=np.int64)  # "scenario k may miss" (confidence)
-        self.big = (greatest - (self.target or 0)).astype(float)
         if self.confidence is not None:
             self.may_miss = math.floor((1.0 - self.confidence) * runs + 1e-9)
             late = np.flatnonzero(greatest > self.target)  # the others meet it whatever the plan
@@ -391,6 +395,14 @@ class ScenarioModel:
         self.lp.add_row(cols, vals, -INF, rhs - fixed)
         return True
 
+    def _longest(self, k: int, a: dict[int, int], const: float) -> float:
+        """The greatest value the path ``a`` of scenario ``k`` takes over all plans: each
+        duration at its longest where it counts forward, at its shortest where backward."""
+        total = const
+        for i, ai in a.items():
+            total += ai * (float(self.drawn[k, i]) - (self.s_least[i] if ai > 0 else self.s_most[i]))
+        return total
+
     def _separate(self, values: np.ndarray) -> int:
         """Rows for the paths the solution ``values`` breaks; how many were added. With
         ``self.exact`` also the gates that must be 0/1 (see :meth:`_add_steps`)."""
@@ -402,11 +414,11 @@ class ScenarioModel:
         last = ef.argmax(axis=0)
         added = 0
         for k in range(self.runs):
-            if self.z[k] >= 0:
-                z = values[self.z[k]]
-                if end[k] > self.target + self.big[k] * z + _TOL:
-                    a, const = self.paths.path(why, k, int(last[k]))
-                    added += self._cut(k, a, const, int(self.z[k]), self.big[k], float(self.target))
+            if self.z[k] >= 0 and end[k] > self.target + _TOL:
+                a, const = self.paths.path(why, k, int(last[k]))
+                big = self._longest(k, a, const) - self.target  # the path's own M
+                if not self.lp.is_mip or end[k] > self.target + big * values[self.z[k]] + _TOL:
+                    added += self._cut(k, a, const, int(self.z[k]), big, float(self.target))
             if self.finish[k] >= 0 and end[k] > values[self.finish[k]] + _TOL:
                 a, const = self.paths.path(why, k, int(last[k]))
                 added += self._cut(k, a, const, int(self.finish[k]), 1.0, 0.0)
