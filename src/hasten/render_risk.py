@@ -18,9 +18,9 @@ if TYPE_CHECKING:
 __all__ = ["risk_text", "risk_json", "risk_plans_text", "risk_plans_json"]
 
 _WIDTH = 100
-_METHOD = ("Durations are drawn from each activity's range ({dist}), rounded up to whole working days "
-           "(part of a day occupies the day), so each uncertain activity takes longer on average than its "
-           "most likely duration.")
+_METHOD = ("Durations are drawn from each activity's range ({dist}) and rounded up to whole working days "
+           "(part of a day occupies the day), which makes each uncertain activity about half a day longer on "
+           "average.")
 
 
 def _pct(p: float | None) -> str:
@@ -188,13 +188,13 @@ def risk_plans_text(rp: RiskPlans) -> str:
     changed = ch.changed
     lines.append("")
     if changed:
-        lines.append(f"The {ch.label}: {len(changed)} activities changed")
+        lines.append(f"The plan {ch.label}: {len(changed)} activities changed")
         lines.append(tabulate([[a.id, _cut(a.name, 34), _cut(a.trade, 14), a.normal, a.duration, _cut(a.option, 14),
                                 money(a.added_cost, cur)] for a in changed],
                               headers=["id", "name", "trade", "days", "new", "option", "added cost"],
                               tablefmt="simple", disable_numparse=True))
     else:
-        lines.append(f"The {ch.label} changes no activity.")
+        lines.append(f"The plan {ch.label} changes no activity.")
     if ch.cautions:
         lines += ["", "Cautions:"]
         for c in ch.cautions:

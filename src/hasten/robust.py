@@ -236,7 +236,7 @@ def risk_plans(project: Project, *, target: Target | None = None, confidence: fl
         sims.append(simulate(net, ranges, runs, check_seed, target=meet_by, shortening=cut.tolist(),
                              progress=tick))
     outside = [_expected_total(planner, r, cost) for r, cost in zip(sims, (det.added_cost, sol_cost))]
-    label = f"chosen for {confidence:.0%} confidence" if confidence is not None else "least expected cost"
+    label = f"chosen for {confidence:.0%} confidence" if confidence is not None else "with the least expected cost"
     plans = []
     for name, d, c, cost, fin, tot, sim, total, proven, gap in (
             ("least-cost plan" if confidence is not None else "least total cost plan", det_d, det_c,
