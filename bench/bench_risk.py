@@ -126,7 +126,8 @@ def plans(n: int, scenarios: int) -> list[tuple[str, str, str]]:
 
     from hasten.planner import Planner
     from hasten.robust import risk_plans
-    from hasten.scenario_model import ScenarioModel, fewest_changes
+    from hasten.robust import fewest_changes
+    from hasten.scenario_model import ScenarioModel
     from hasten.simulation import BLOCK, RiskModel
     from hasten.uncertainty import project_ranges
 

@@ -13,7 +13,7 @@ CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions", "labour", "productivity", "premium", "crew_options", "quality",
-        "uncertainty", "simulation", "cluster", "plan_days", "risk", "scenario_model", "robust"]
+        "uncertainty", "simulation", "cluster", "plan_days", "risk", "scenario_model", "scenario_paths", "robust"]
 EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "charts", "render_risk"]  # and formats/
 EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 

@@ -197,3 +197,10 @@ def test_best_expected(tmp_path):
 ])
 def test_bad_risk_plan_input_is_one_line_and_exit_2(args, words):
     assert words in refused(*args)
+
+
+def test_local_workers_give_the_same_figures():
+    pytest.importorskip("dask.distributed")
+    here = ok_json("risk", PUMP, "--runs", 700, "--seed", 4)
+    there = ok_json("risk", PUMP, "--runs", 700, "--seed", 4, "--workers", 2)
+    assert here == there

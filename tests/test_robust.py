@@ -38,8 +38,8 @@ from hasten.formats import read_project
 from hasten.network import Network
 from hasten.planner import Planner
 from hasten.project import Activity, Calendar, Contract, Costs, Link, LinkType, Project, Risk
-from hasten.robust import risk_plans, wilson_interval
-from hasten.scenario_model import ScenarioModel, fewest_changes
+from hasten.robust import fewest_changes, risk_plans, wilson_interval
+from hasten.scenario_model import ScenarioModel
 
 ALL_DAYS = Calendar((0, 1, 2, 3, 4, 5, 6), (), "all-days")
 FS, SS, FF = LinkType.FS, LinkType.SS, LinkType.FF

@@ -29,19 +29,21 @@ from datetime import date
 
 import numpy as np
 
-from .errors import HastenError, InputError
+from .errors import HastenError, InputError, SolverError, TimeLimitError
 from .planner import Planner, Progress
 from .plan_days import plan_cautions_of, plan_changes
 from .progress import end_day
 from .project import Project
 from .questions import Target, target_offset
 from .results import ActivityChange
-from .scenario_model import EXACT_SECONDS, ONE_CALENDAR, ScenarioModel, fewest_changes
+from .scenario_model import EXACT_SECONDS, ONE_CALENDAR, ScenarioModel, ScenarioSolution
 from .simulation import BLOCK, RiskModel, RiskResult, run_chunk, simulate
+from .solver_model import INF
 from .time_costs import time_costs
 from .uncertainty import project_ranges
 
-__all__ = ["PlanUnderRisk", "RiskPlans", "risk_plans", "wilson_interval", "SCENARIOS"]
+__all__ = ["PlanUnderRisk", "RiskPlans", "risk_plans", "wilson_interval", "fewest_changes", "SCENARIOS",
+           "TIE_BREAK_NODES"]
 
 #: Scenarios sampled by default.
 SCENARIOS = 200
@@ -270,3 +272,54 @@ def _expected_total(planner: Planner, result: RiskResult, added: float) -> float
     net = planner.network
     time = sum(n * time_costs(net.project, net.clock, f, floor=net.finish_floor).net for f, n in result.finish_counts)
     return added + time / result.runs + sum(m.expected_damages for m in result.milestones)
+
+
+#: Branch-and-bound nodes the tie-break may search (as hasten.crash_ties).
+TIE_BREAK_NODES = 2000
+
+
+def fewest_changes(model: ScenarioModel, best: ScenarioSolution) -> ScenarioSolution | None:
+    """Among plans whose objective is no more than ``best``'s, the one that changes the
+    fewest activities, then takes the fewest days off (the rule of the deterministic plans,
+    :mod:`hasten.crash_ties`): the model solved again with its objective held by a row, within
+    a node limit so that the same input gives the same plan. ``None`` when it finds nothing
+    better or is not proven. Changes the model (solve it no more afterwards)."""
+    normal = model.net.durations
+    changed = [i for i, (d, n, c) in enumerate(zip(best.durations, normal, best.choices)) if d != n or c >= 0]
+    if not best.proven or not changed:
+        return None
+    lm = model.lp
+    cols, coefs = lm.objectives["risk"]
+    bound = best.objective - model.time_base
+    lm.add_row(cols, coefs, -INF, bound + 1e-6 * max(1.0, abs(bound)))
+    owners = [i for i, (c, _) in enumerate(model.shortening_terms) if c]
+    u = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
+    upper = np.asarray(lm.col_upper)
+    day_cols, day_coef, weight = [], [], 1.0
+    for col_u, i in zip(u.tolist(), owners):
+        mine, signs = model.shortening_terms[i]
+        for col, coef in zip(mine, signs):  # a day or an option only if the activity counts as changed
+            room = float(upper[col])
+            lm.add_row([col, col_u], [1.0, -room], -INF, 0.0)
+            day_cols.append(col)
+            day_coef.append(coef)
+            weight += abs(coef) * room
+    lm.define_objective("fewest", np.concatenate([u, day_cols]), np.concatenate([np.full(len(u), weight), day_coef]))
+    lm.use_objective("fewest")
+    lm.node_limit = TIE_BREAK_NODES
+    if lm.time_limit is None:
+        lm.time_limit = 30.0
+    try:
+        out = model.rounds()
+    except (TimeLimitError, SolverError):
+        return None
+    if out is None or out.status != "optimal":
+        return None
+    if model.true_objective(out.values) > best.objective + 1e-6 * max(1.0, abs(best.objective)):
+        return None  # (step costs at their envelope can look cheaper than they are)
+    sol = model.solution(out.values, out)
+    fewer = sum(1 for d, n, c in zip(sol.durations, normal, sol.choices) if d != n or c >= 0)
+    days = sum(n - d for d, n in zip(sol.durations, normal))
+    if (fewer, days) >= (len(changed), sum(n - d for d, n in zip(best.durations, normal))):
+        return None
+    return ScenarioSolution(sol.durations, sol.choices, sol.added_cost, best.objective, True, None)

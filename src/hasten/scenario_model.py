@@ -62,17 +62,14 @@ import numpy as np
 from .errors import HastenError, SolverError, TimeLimitError
 from .network import Network
 from .progress import end_day
+from .scenario_paths import ScenarioPaths, finish_bounds
 from .solver_model import INF, LinearModel
 from .time_costs import time_costs
 
-__all__ = ["ScenarioModel", "ScenarioSolution", "finish_bounds", "fewest_changes", "TIE_BREAK_NODES",
-           "EXACT_SECONDS"]
+__all__ = ["ScenarioModel", "ScenarioSolution", "EXACT_SECONDS", "ONE_CALENDAR"]
 
-_FS, _SS, _FF, _SF = 0, 1, 2, 3
 _TOL = 1e-6
 _ROUNDS = 400  # solves of one question at most (each adds the paths that bind)
-#: Branch-and-bound nodes the tie-break may search (as hasten.crash_ties).
-TIE_BREAK_NODES = 2000
 #: Seconds the exact search of non-convex step costs may take before the better plan found
 #: is returned with its gap (see ScenarioModel.solve).
 EXACT_SECONDS = 30.0
@@ -93,82 +90,6 @@ class ScenarioSolution:
     objective: float
     proven: bool = True
     gap: float | None = None
-
-
-def finish_bounds(net: Network, low: np.ndarray, high: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Least and greatest end of every activity (activities x scenarios) over all durations
-    between ``low`` and ``high``: each link term taken at its least (greatest) value, so
-    the early schedule of any such durations lies between the two."""
-    rel = np.asarray(net.release, dtype=np.int64)[:, None]
-    frel = np.asarray(net.finish_release, dtype=np.int64)[:, None]
-    lo_es = np.maximum(rel, frel - high).astype(np.int64)
-    hi_es = np.maximum(rel, frel - low).astype(np.int64)
-    fixed = np.asarray(net.fixed, dtype=bool)
-    lo_es[fixed], hi_es[fixed] = np.broadcast_to(rel[fixed], lo_es[fixed].shape), \
-        np.broadcast_to(rel[fixed], hi_es[fixed].shape)
-    pred, kind, lag = net.pred, net.kind, net.lag
-    for j in net.order:
-        for e in net.in_links[j]:
-            i, k = pred[e], kind[e]
-            from_finish, to_finish = k in (_FS, _FF), k in (_FF, _SF)
-            lo = lo_es[i] + (low[i] if from_finish else 0) + lag[e] - (high[j] if to_finish else 0)
-            hi = hi_es[i] + (high[i] if from_finish else 0) + lag[e] - (low[j] if to_finish else 0)
-            np.maximum(lo_es[j], lo, out=lo_es[j])
-            np.maximum(hi_es[j], hi, out=hi_es[j])
-    return lo_es + low, hi_es + high
-
-
-class _Paths:
-    """Early starts of every scenario (activities x scenarios) with the reason of each: -1 its
-    release, -2 its earliest finish, or the link that drives it; and the path behind an end."""
-
-    def __init__(self, net: Network):
-        self.net = net
-        self.release = np.asarray(net.release, dtype=float)
-        self.finish_release = np.asarray(net.finish_release, dtype=float)
-        self.fixed = np.asarray(net.fixed, dtype=bool)
-        self.kind = np.asarray(net.kind, dtype=np.int64)
-        self.from_finish = (self.kind == _FS) | (self.kind == _FF)
-        self.to_finish = (self.kind == _FF) | (self.kind == _SF)
-
-    def forward(self, d: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        net = self.net
-        es = np.maximum(self.release[:, None], self.finish_release[:, None] - d)
-        why = np.where(self.release[:, None] >= self.finish_release[:, None] - d, -1, -2)
-        es[self.fixed], why[self.fixed] = self.release[self.fixed][:, None], -1
-        pred, lag = net.pred, net.lag
-        for j in net.order:
-            for e in net.in_links[j]:
-                i = pred[e]
-                at = es[i] + (d[i] if self.from_finish[e] else 0.0) + lag[e] - (d[j] if self.to_finish[e] else 0.0)
-                more = at > es[j] + _TOL
-                if more.any():
-                    es[j] = np.where(more, at, es[j])
-                    why[j] = np.where(more, e, why[j])
-        return es, why
-
-    def path(self, why: np.ndarray, k: int, last: int) -> tuple[dict[int, int], float]:
-        """The coefficients ``a_i`` of the durations and the constant (lags, releases) of the
-        path that sets the end of ``last`` in scenario ``k``."""
-        net = self.net
-        a: dict[int, int] = {last: 1}
-        const = 0.0
-        cur = last
-        for _ in range(len(net.ids) + 1):
-            w = int(why[cur, k])
-            if w == -1:
-                return a, const + self.release[cur]
-            if w == -2:
-                a[cur] = a.get(cur, 0) - 1
-                return a, const + self.finish_release[cur]
-            i = net.pred[w]
-            const += net.lag[w]
-            if self.from_finish[w]:
-                a[i] = a.get(i, 0) + 1
-            if self.to_finish[w]:
-                a[cur] = a.get(cur, 0) - 1
-            cur = i
-        raise SolverError("a path of the schedule does not end")  # pragma: no cover - the links are acyclic
 
 
 @dataclass
@@ -226,7 +147,7 @@ class ScenarioModel:
         low = np.maximum(self.drawn.T - (normal - shortest)[:, None], floor[:, None])
         high = self.drawn.T + np.maximum(longest - normal, 0)[:, None]
         self.least_end, self.greatest_end = finish_bounds(net, low, high)
-        self.paths = _Paths(net)
+        self.paths = ScenarioPaths(net)
         self.steps: list[_Steps] = []
         self.cost_cols = np.concatenate([self.cuts, self.opt_x, self.opt_w])
         self.cost_coef = np.concatenate([self.cut_cost, self.opt_cost, self.w_cost])
@@ -456,7 +377,7 @@ class ScenarioModel:
             return True
         return int(np.sum(self._ends[1] > self.target + _TOL)) <= self.may_miss
 
-    def _loop(self, deadline: float | None = None):
+    def rounds(self, deadline: float | None = None):
         """Solve, add the rows broken, and again, until none is broken; the last result
         (``stopped`` when the time limit or ``deadline`` ended the search first)."""
         lm = self.lp
@@ -507,11 +428,11 @@ class ScenarioModel:
         if len(integer):
             lm.set_integer(integer, False)
             try:
-                if self._loop() is None:
+                if self.rounds() is None:
                     return None
             finally:
                 lm.set_integer(integer, True)
-        envelope = self._loop()
+        envelope = self.rounds()
         if envelope is None:
             return None
         bound = float(envelope.objective) + self.time_base
@@ -520,7 +441,7 @@ class ScenarioModel:
         if envelope.status == "optimal" and true <= bound + 1e-6 * max(1.0, abs(bound)):
             return first  # the envelope is the true cost at its optimum: optimal
         self.exact = True
-        exact = self._loop(deadline=time.monotonic() + seconds)
+        exact = self.rounds(deadline=time.monotonic() + seconds)
         if exact is not None and exact.status == "optimal":
             return self.solution(exact.values, exact)
         candidates = [first] if envelope.status == "optimal" else []
@@ -532,50 +453,3 @@ class ScenarioModel:
         low = max(bound, (exact.bound + self.time_base) if exact is not None and exact.bound is not None else bound)
         gap = max(0.0, best.objective - low) / max(abs(best.objective), 1e-9)
         return replace(best, proven=False, gap=gap)
-
-
-def fewest_changes(model: ScenarioModel, best: ScenarioSolution) -> ScenarioSolution | None:
-    """Among plans whose objective is no more than ``best``'s, the one that changes the
-    fewest activities, then takes the fewest days off (the rule of the deterministic plans,
-    :mod:`hasten.crash_ties`): the model solved again with its objective held by a row, within
-    a node limit so that the same input gives the same plan. ``None`` when it finds nothing
-    better or is not proven. Changes the model (solve it no more afterwards)."""
-    normal = model.net.durations
-    changed = [i for i, (d, n, c) in enumerate(zip(best.durations, normal, best.choices)) if d != n or c >= 0]
-    if not best.proven or not changed:
-        return None
-    lm = model.lp
-    cols, coefs = lm.objectives["risk"]
-    bound = best.objective - model.time_base
-    lm.add_row(cols, coefs, -INF, bound + 1e-6 * max(1.0, abs(bound)))
-    owners = [i for i, (c, _) in enumerate(model.shortening_terms) if c]
-    u = lm.add_columns(np.zeros(len(owners)), 1.0, integer=True)
-    upper = np.asarray(lm.col_upper)
-    day_cols, day_coef, weight = [], [], 1.0
-    for col_u, i in zip(u.tolist(), owners):
-        mine, signs = model.shortening_terms[i]
-        for col, coef in zip(mine, signs):  # a day or an option only if the activity counts as changed
-            room = float(upper[col])
-            lm.add_row([col, col_u], [1.0, -room], -INF, 0.0)
-            day_cols.append(col)
-            day_coef.append(coef)
-            weight += abs(coef) * room
-    lm.define_objective("fewest", np.concatenate([u, day_cols]), np.concatenate([np.full(len(u), weight), day_coef]))
-    lm.use_objective("fewest")
-    lm.node_limit = TIE_BREAK_NODES
-    if lm.time_limit is None:
-        lm.time_limit = 30.0
-    try:
-        out = model._loop()
-    except (TimeLimitError, SolverError):
-        return None
-    if out is None or out.status != "optimal":
-        return None
-    if model.true_objective(out.values) > best.objective + 1e-6 * max(1.0, abs(best.objective)):
-        return None  # (step costs at their envelope can look cheaper than they are)
-    sol = model.solution(out.values, out)
-    fewer = sum(1 for d, n, c in zip(sol.durations, normal, sol.choices) if d != n or c >= 0)
-    days = sum(n - d for d, n in zip(sol.durations, normal))
-    if (fewer, days) >= (len(changed), sum(n - d for d, n in zip(best.durations, normal))):
-        return None
-    return ScenarioSolution(sol.durations, sol.choices, sol.added_cost, best.objective, True, None)
