@@ -2,7 +2,7 @@
 calculations (networkx, scipy linprog, a plain forward pass, brute force) and hypothesis
 strategies for small random projects.
 
-Everything here is written apart from src/hasten (network.py, optimise.py, checks.py): the
+Everything here is written apart from src/hasten (network.py, crash_model.py, plan_check.py): the
 references must not share code with what they check. Only the dataclasses of
 hasten.project are used, to build projects.
 """

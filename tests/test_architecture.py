@@ -11,11 +11,14 @@ SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
 # "Architecture"); a new module must be placed before the tests pass.
 CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes", "cpm",
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
-        "partial", "checks", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
+        "partial", "plan_costs", "plan_check", "plan_check_progress", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions", "labour", "productivity", "premium", "crew_options", "quality",
-        "uncertainty", "simulation", "cluster", "plan_days", "risk", "scenario_model", "scenario_paths", "robust"]
-EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "charts", "render_risk"]  # and formats/
-EDGE = {"cli", "formats", "render", "charts", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
+        "uncertainty", "simulation", "cluster", "accelerated", "price", "crew_project", "plan_days", "risk",
+        "scenario_model", "scenario_paths", "robust"]
+EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "render_fit", "charts", "report",
+         "report_html", "report_md", "report_xlsx", "report_files", "render_crews", "render_risk"]  # and formats/
+EDGE = {"cli", "formats", "render", "render_json", "render_fit", "render_crews", "render_risk", "charts", "report", "report_html",
+        "report_md", "report_xlsx", "report_files", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 
 def _imports(path: Path) -> set[str]:
@@ -70,3 +73,19 @@ def test_modules_declare_all():
                                              and path.parent.name != "formats"):
             continue
         assert "__all__" in path.read_text(encoding="utf-8"), f"{path.relative_to(SRC)} has no __all__"
+
+
+def test_the_plan_check_is_independent_in_code():
+    # the rule (DEVELOPERS.md, "Exactness"): the plan check recomputes each plan from the
+    # Project alone; it never imports the network, progress, passes, model or costs it checks
+    allowed = {"__future__", "math", "dataclasses", "datetime", "typing", "numpy",
+               "project", "calendar", "errors", "plan_check_progress"}
+    for name in ("plan_check", "plan_check_progress"):
+        found = _imports(SRC / f"{name}.py") - allowed
+        assert not found, f"{name}.py imports {sorted(found)}"
+    calendar_names = set()
+    for name in ("plan_check", "plan_check_progress"):
+        for node in ast.walk(ast.parse((SRC / f"{name}.py").read_text(encoding="utf-8"))):
+            if isinstance(node, ast.ImportFrom) and node.module == "calendar" and node.level:
+                calendar_names |= {a.name for a in node.names}
+    assert calendar_names <= {"CalendarClock"}  # dates only, never the Timeline's conversions

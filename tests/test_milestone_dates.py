@@ -239,3 +239,23 @@ def test_the_reader_accepts_a_milestone_before_the_start_but_not_work(tmp_path):
     with pytest.raises(InputError) as err:  # (the writer reads back what it wrote)
         write_project(bad, tmp_path / "bad")
     assert "before the project start" in str(err.value)
+
+
+def test_a_start_milestone_on_a_later_calendar_dates_the_finish():
+    # Hand-worked of our own: from Mon 2025-03-03, A (Mon-Fri, 2 days) Mon 3 - Tue 4 Mar;
+    # M (no predecessors) works to a Mondays-only calendar whose Mon 3 Mar is a holiday:
+    # its day 0 is Mon 10 Mar, where it happens (at the start of the day). The job is not
+    # over before M: the finish is dated 10 Mar, not Tue 4 Mar (project day 1). Found by the
+    # independent plan check (hasten.plan_check), which dates the finish by its own means.
+    from hasten.calendar import CalendarClock
+    from hasten.plan_check import check_plan
+    from hasten.project import Calendar, Project
+
+    mondays = Calendar((0,), (date(2025, 3, 3),), "mondays")
+    project = Project("later", date(2025, 3, 3), (Activity("A", 2), Activity("M", 0, calendar="mondays")),
+                      calendars=(mondays,))
+    sched = schedule(project)
+    assert CalendarClock(mondays, project.start).date_of(0) == date(2025, 3, 10)
+    assert sched.finish_date == date(2025, 3, 10)
+    assert check_plan(project, [2, 0], claimed_finish=sched.finish, claimed_cost=0.0,
+                      claimed_finish_date=sched.finish_date).finish_date == date(2025, 3, 10)

@@ -23,8 +23,9 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 import hasten.partial as focus
-from conftest import PROPERTY, TOL, brute_force_curve, linprog_least_cost, make_project, projects
-from hasten.checks import check_plan
+from conftest import (PROPERTY, TOL, brute_force_curve, link_holds, linprog_least_cost, make_project,
+                      own_finish, projects)
+from hasten.plan_check import check_plan
 from hasten.planner import Planner
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
@@ -68,10 +69,16 @@ def _focused_matches_linprog(project):
             assert sol is None, target
             continue
         assert sol is not None and close(sol.added_cost, expected), target
-        # the plan holds on the whole network (hasten's independent check raises if not)
-        finish, cost, _ = check_plan(project, list(sol.durations), list(sol.starts), target=target,
-                                     claimed_cost=sol.added_cost)
-        assert finish <= target and close(cost, expected)
+        # the plan holds on the whole network: its finish by our own pass (conftest.own_finish)
+        # and the scipy cost, as the independent check (hasten.plan_check) finds them, and
+        # the solver's own starts keep every link
+        durations = dict(zip((x.id for x in project.activities), sol.durations))
+        check_plan(project, list(sol.durations), target=target, claimed_finish=own_finish(project, durations),
+                   claimed_cost=expected)
+        starts = dict(zip((x.id for x in project.activities), sol.starts))
+        assert all(link_holds(k, starts[k.pred], durations[k.pred], starts[k.succ], durations[k.succ])
+                   for k in project.links)
+        assert close(sol.added_cost, expected)
         # the same tie-break as the whole model
         full = whole.least_cost(target)
         assert _crashed(sol.durations, net.durations) == _crashed(full.durations, net.durations)
@@ -125,7 +132,8 @@ def test_a_plan_on_a_larger_network_is_solved_on_a_part_and_matches_linprog(seed
                  linprog_least_cost(project, target - 1) - linprog_least_cost(project, target))
     durations = [a.duration for a in plan.activities]
     starts = [a.es for a in plan.schedule.activities]
-    assert check_plan(project, durations, starts, target=target)[0] == plan.finish <= target
+    assert check_plan(project, durations, starts=starts, early=True, target=target, claimed_finish=plan.finish,
+                      claimed_cost=linprog_least_cost(project, target)).finish == plan.finish <= target
     # same tie-break result as the whole model
     whole = CrashModel(Network(project)).least_cost(target)
     normal = [a.duration for a in project.activities]

@@ -25,7 +25,8 @@ from conftest import PROPERTY, START, TOL, make_project
 from hasten.calendar import CalendarClock
 from hasten.planner import Planner
 from hasten.errors import InfeasibleTargetError, InputError
-from hasten.project import Activity, CrashStep, Link, LinkType
+from hasten.plan_check import PlanChecker
+from hasten.project import Activity, Calendar, CrashStep, Link, LinkType
 from hasten.cpm import schedule
 from hasten.network import Network
 
@@ -359,6 +360,38 @@ def test_out_of_sequence_ss_link_is_named_with_its_type_and_lag():
     assert rows["R"].es == 1 and rows["R"].ef == 7
     assert rows["Q"].es == 5 and rows["Q"].ef == 10
 
+
+
+def test_work_with_no_working_day_between_its_actual_dates_stays_at_its_actual_start():
+    # source: progress.py docstring (a milestone, duration 0, with an actual date may move to
+    # the end of its day; work keeps its actual dates; out-of-sequence links are dropped) and
+    # README "Method", "Calendars of their own"; hand-worked of our own:
+    # project mon-fri from Mon 2024-01-01; calendar "mondays" works Mondays only, with a
+    # holiday on Mon 01-01, so its day 0 is Mon 01-08 and its day 1 Mon 01-15.
+    # N: milestone with no predecessor, happened Mon 01-01: at the start of project day 0.
+    # W (1 d, "mondays") actually started and finished Mon 01-01, its holiday. Read as a
+    #   start, 01-01 is the first Monday worked on or after it, Mon 01-08 = its day 0; read
+    #   as the last day worked, no working day of "mondays" up to 01-01: finish 0. W is
+    #   work (duration 1) that spans 0 working days, fixed at day 0; it is not a milestone.
+    # N -> W FS+1: N happens at the boundary before Mon 01-01; the first "mondays" day not
+    #   before it is day 0 (01-01 is a holiday), + 1 = day 1 (Mon 01-15). W started at 0 < 1:
+    #   out of sequence, the link is dropped and W stays at day 0 (were W settled as a
+    #   milestone it would move to day 1 and keep the link).
+    mondays = Calendar((0,), (date(2024, 1, 1),), "mondays")
+    project = make_project([
+        Activity("N", 0, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 1)),
+        Activity("W", 1, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 1),
+                 calendar="mondays"),
+    ], [Link("N", "W", FS, 1)], data_date=date(2024, 1, 2), calendars=(mondays,))
+    net = Network(project)
+    w = net.progress.activities[1]
+    assert (w.duration, w.release, w.start) == (0, 0, 0)
+    assert net.progress.dropped == {0}
+    assert len(net.progress.warnings) == 1 and "N -> W" in net.progress.warnings[0]
+    assert net.forward([0, 0]) == [0, 0]
+    # the independent plan check reads the project the same way
+    checker = PlanChecker(project)
+    assert checker.dropped == net.progress.dropped and checker.forward([0, 0]) == [0, 0]
 
 # ---------------------------------------------------------------------------------------
 # 4. Only remaining work can be accelerated

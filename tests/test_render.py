@@ -8,10 +8,16 @@ from pathlib import Path
 
 import pytest
 
-from hasten import render, render_json
+from hasten import charts, render, render_json
 from hasten.formats import read_project
 from hasten.planner import Planner
+from hasten.price import ProposalLine, price_proposal
+from hasten.questions import handover
 from hasten.recovery import recovery
+from hasten.report import report_content
+from hasten.report_html import html_report
+from hasten.report_md import markdown_report
+from hasten.report_xlsx import report_sheets
 from hasten.solver_model import LinearModel
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -33,6 +39,9 @@ def results():
         "best": clinic.best_finish(),
         "budget": clinic.earliest_within(20000),
         "recovery": recovery(late),
+        "price": price_proposal(clinic.project, [ProposalLine("A320", 1), ProposalLine("A030", 1)]),
+        "report": handover(read_project(ROOT / "cases" / "clinic-fitout"), best=True),
+        "recovery report": handover(read_project(ROOT / "cases" / "harbour-depot-late"), recover=True),
     }
 
 
@@ -48,6 +57,17 @@ def test_rendering_never_solves(results, monkeypatch):
     assert render.best_text(results["best"]) and render_json.best_json(results["best"])
     assert render.plan_text(results["budget"]) and render_json.plan_json(results["budget"])
     assert render.recovery_text(results["recovery"]) and render_json.recovery_json(results["recovery"])
+    priced = results["price"]
+    assert render.price_text(priced) and render_json.price_json(priced)["finish"] == priced.finish
+    assert render_json.revised_rows(plan) and render_json.revised_course_rows(results["recovery"])
+    assert charts.svg_markup(charts.schedule_chart(plan)).startswith("<svg")
+    assert charts.svg_markup(charts.curve_chart(curve)).startswith("<svg")
+    assert charts.svg_markup(charts.curve_chart(results["best"])).startswith("<svg")
+    for name in ("report", "recovery report"):
+        h = results[name]
+        content = report_content(h)
+        assert html_report(h, content, {"chart": "<svg></svg>"}).startswith("<!DOCTYPE html>")
+        assert markdown_report(h, content, {"chart": "chart.svg"}) and report_sheets(h, content)
 
 
 def test_a_ranged_curve_does_not_ask_for_the_shortest_finish(results):

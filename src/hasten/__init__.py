@@ -15,6 +15,9 @@ Functions: :func:`read_project`, :func:`schedule`, :func:`plan`, :func:`curve`,
 :func:`best_finish`, :func:`earliest_within`, :func:`recover`; :class:`Planner` keeps one
 project's model warm for many questions; :class:`Earlier` states a target before the current
 finish. Errors derive from :class:`HastenError`; bad input raises :class:`InputError`.
+Pricing a proposal and the bundle a report is written from are
+:func:`hasten.questions.price` and :func:`hasten.questions.handover` (kept out of the top
+level so that it stays small).
 The names load on first use, so ``import hasten`` stays quick.
 """
 

@@ -7,31 +7,56 @@ purpose becomes a one-line message on standard error and exit code 2.
 from __future__ import annotations
 
 import gc
-import json
 import math
 import os
 import re
-import shutil
 import sys
 from contextlib import contextmanager
 from datetime import date
-from importlib import resources
+from importlib import import_module
 from pathlib import Path
 from typing import Annotated, Optional
 
 import typer
 
-from . import render, render_json
-from .cpm import schedule as cpm
 from .errors import HastenError, InfeasibleTargetError, InputError, TimeLimitError
-from .formats import check_output_folder, check_output_target, import_research, read_project_with_notes
-from .formats import convert as convert_project
-from .formats import read_project, write_table
-from .formats.output import TABLE_SUFFIXES
-from .formats.files import write_file
-from .questions import Earlier
 
 __all__ = ["app", "main"]
+
+
+# Start-up imports only typer and what every command needs: the library (numpy, the
+# readers, the optimiser, the renderers) is imported by the command that uses it, when it
+# first uses it. `hasten --help` and a command's checks of its options start at once.
+class _Later:
+    """A module of hasten imported on first use of one of its names."""
+
+    def __init__(self, name: str):
+        self._name = name
+
+    def __getattr__(self, attr: str):
+        return getattr(import_module(self._name, __package__), attr)
+
+
+def _later(module: str, name: str):
+    """The function ``name`` of ``module``, imported when first called."""
+    def call(*args, **kwargs):
+        return getattr(import_module(module, __package__), name)(*args, **kwargs)
+    call.__name__ = name
+    return call
+
+
+render = _Later(".render")
+render_json = _Later(".render_json")
+cpm = _later(".cpm", "schedule")
+check_output_folder = _later(".formats", "check_output_folder")
+check_output_target = _later(".formats", "check_output_target")
+import_research = _later(".formats", "import_research")
+read_project_with_notes = _later(".formats", "read_project_with_notes")
+convert_project = _later(".formats", "convert")
+read_project = _later(".formats", "read_project")
+write_project = _later(".formats", "write_project")
+write_table = _later(".formats", "write_table")
+write_file = _later(".formats.files", "write_file")
 
 app = typer.Typer(
     add_completion=False,
@@ -47,6 +72,12 @@ ProjectArg = Annotated[Path, typer.Argument(help="Project folder, .xlsx workbook
 JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object instead of tables.")]
 ForceOpt = Annotated[bool, typer.Option("--force", help="Replace an existing output file (never an input).")]
 LimitOpt = Annotated[Optional[float], typer.Option("--time-limit", help="Seconds each mixed-integer solve may use.")]
+WideOpt = Annotated[bool, typer.Option("--wide", help="Show long names whole (tables may pass 100 columns).")]
+OutOpt = Annotated[Optional[Path], typer.Option("--out", help="Also write the revised schedule to FILE.csv or FILE.xlsx.")]
+SaveOpt = Annotated[Optional[Path], typer.Option("--save-as", help="Also write the accelerated project to a new folder, .xlsx or .json.")]
+PlotOpt = Annotated[Optional[Path], typer.Option("--plot", help="Also draw the schedule before and after to FILE.png, .svg or .pdf.")]
+CrewsOpt = Annotated[Optional[str], typer.Option("--crews", help="Also offer options built from the activities' crew data: measures such as 5x10,6x10,2-shifts,+1-crew (see hasten options).")]
+ProductivityOpt = Annotated[Optional[Path], typer.Option("--productivity", help="Your own overtime productivity table (CSV: schedule,week,loss) in place of the built-in one.")]
 ScenariosOpt = Annotated[Optional[int], typer.Option("--scenarios", help="Scenarios sampled to choose a plan for risk (default 200).")]
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", help="Seed of the random draws (the same seed gives the same figures).")]
 
@@ -58,6 +89,8 @@ def _echo(text: str) -> None:
 def _json(obj) -> None:
     """One JSON object on one line: compact, and fast for big schedules (an indented dump
     uses the slow pure-Python encoder). Pipe it to ``python -m json.tool`` to read it."""
+    import json
+
     typer.echo(json.dumps(obj, ensure_ascii=False))
 
 
@@ -83,23 +116,60 @@ def _emit(as_json: bool, as_dict, as_text, notes=()) -> None:
         _json(as_dict() | {"notes": list(notes)})
         return
     for note in notes:
-        _echo(f"Note: {note}")
+        _echo(render.para(f"Note: {note}"))
     _echo(as_text())
 
 
-def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path | None, ...] = ()) -> None:
+def _outputs(project: Path, force: bool, *paths: Path | None, tables: tuple[Path | None, ...] = (),
+             charts: tuple[Path | None, ...] = (), save_as: Path | None = None) -> None:
     """Check every output path before any work: never an input, never an existing file
-    without --force, a folder that exists and can be written, and a table's suffix."""
+    without --force (a saved project: never an existing one), a folder that exists and can
+    be written, and the form a table, a chart or a saved project is told by its suffix."""
+    from .formats.output import TABLE_SUFFIXES
+
     for path in tables:
         if path is not None and path.suffix.lower() not in TABLE_SUFFIXES:
             raise InputError(f"cannot write a table to a {path.suffix or 'suffix-less'!r} file", file=str(path),
                              fix=f"name the file {path.stem}.csv or {path.stem}.xlsx")
-    for path in paths + tables:
+    for path in charts:
+        if path is not None:
+            from .charts import chart_format
+
+            chart_format(path)
+    if save_as is not None:
+        if save_as.suffix.lower() not in ("", ".xlsx", ".json"):
+            raise InputError("cannot save a project in this form", column="--save-as", value=str(save_as),
+                             fix="give a new folder, a FILE.xlsx or a FILE.json")
+        if save_as.exists() and (save_as.is_file() or any(save_as.iterdir())):
+            raise InputError("already exists; nothing is overwritten", column="--save-as", value=str(save_as),
+                             fix="give a new path (or an empty folder)")
+        check_output_target(save_as, inputs=[project], force=False)
+    for path in paths + tables + charts:
         if path is not None:
             check_output_target(path, inputs=[project], force=force)
 
 
-_SCHEDULE_DATES = ("early_start", "early_finish", "late_start", "late_finish")
+def _crews(project: Path, crews: str | None, productivity: Path | None):
+    """The project and its reading notes, with the options built from crews added when
+    ``--crews`` is given (after the project's own options; a name used twice is refused);
+    the notes then also say what was built, what the options rest on and the cautions."""
+    p, notes = read_project_with_notes(project)
+    if crews is None:
+        if productivity is not None:
+            raise InputError("--productivity replaces the overtime table of options built from "
+                             "crews, and no --crews was given", value=str(productivity),
+                             fix="add --crews 6x10 (or other measures), or leave out "
+                                 "--productivity")
+        return p, notes
+    from .crew_project import crew_notes, crew_options, with_crew_options
+    from .formats.productivity import read_productivity
+
+    table = None if productivity is None else read_productivity(productivity)
+    build = crew_options(p, crews, table)
+    try:
+        return with_crew_options(p, build), tuple(notes) + tuple(crew_notes(build))
+    except InputError as exc:
+        raise exc.located(str(project)) from None
 
 
 def _with_check(obj: dict, check: tuple[str, ...]) -> dict:
@@ -180,6 +250,7 @@ def schedule(
     out: Annotated[Optional[Path], typer.Option("--out", help="Also write the table to FILE.csv or FILE.xlsx.")] = None,
     deadline: Annotated[Optional[str], typer.Option("--deadline", help="Backward pass from this date (YYYY-MM-DD) instead of the early finish; float may go negative.")] = None,
     force: ForceOpt = False,
+    wide: WideOpt = False,
 ) -> None:
     """Forward and backward pass: dates, floats, critical paths."""
     with _errors():
@@ -188,16 +259,37 @@ def schedule(
         sched = cpm(p, deadline=None if deadline is None else _date(deadline, "--deadline"))
         if out is not None:
             rows = render_json.schedule_rows(p, sched)
-            write_table(out, list(rows[0]) if rows else ["id"], rows, sheet_name="schedule",
-                        date_columns=_SCHEDULE_DATES)
-        _emit(as_json, lambda: render_json.schedule_json(p, sched), lambda: render.schedule_text(p, sched), notes)
+            write_table(out, render_json.SCHEDULE_COLUMNS, rows, sheet_name="schedule",
+                        date_columns=render_json.DATE_COLUMNS)
+        _emit(as_json, lambda: render_json.schedule_json(p, sched),
+              lambda: render.schedule_text(p, sched, wide=wide), notes)
+
+
+def _write_outputs(plan, *, out: Path | None = None, save_as: Path | None = None,
+                   plot: Path | None = None, original=None) -> None:
+    """The files a plan command was asked for: the revised schedule, the accelerated project,
+    the chart of the schedule before and after."""
+    if out is not None:
+        write_table(out, render_json.REVISED_COLUMNS, render_json.revised_rows(plan),
+                    sheet_name="revised schedule", date_columns=render_json.DATE_COLUMNS,
+                    money_columns=("added_cost",), currency=plan.project.currency)
+    if save_as is not None:
+        from .accelerated import accelerated
+
+        write_project(accelerated(original if original is not None else plan.project, plan), save_as)
+    if plot is not None:
+        from .charts import schedule_chart
+
+        write_file(plot.resolve(), lambda tmp: schedule_chart(plan, tmp))
 
 
 _EARLIER = re.compile(r"^\s*(\d+)\s*([dw])\s*$", re.IGNORECASE)
 
 
-def _earlier(text: str) -> Earlier:
-    """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks."""
+def _earlier(text: str):
+    """``'10d'`` -> 10 working days; ``'2w'`` -> 2 calendar weeks (a questions.Earlier)."""
+    from .questions import Earlier
+
     m = _EARLIER.match(text)
     if not m:
         raise InputError("--earlier is not understood", value=text,
@@ -227,6 +319,13 @@ def plan(
     earlier: Annotated[Optional[str], typer.Option("--earlier", help="Finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
+    force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
     confidence: Annotated[Optional[float], typer.Option("--confidence", help="Least-cost plan meeting the target in at least this share of sampled scenarios, e.g. 0.8.")] = None,
     scenarios: ScenariosOpt = None,
     seed: SeedOpt = None,
@@ -236,13 +335,16 @@ def plan(
         from .questions import plan as least_cost_plan
 
         target = _target(finish, by, earlier)
-        if _risk_plan(project, as_json, time_limit, scenarios, seed, target=target, confidence=confidence):
+        _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
+        p, notes = _crews(project, crews, productivity)
+        if _risk_plan(p, notes, as_json, time_limit, scenarios, seed, target=target, confidence=confidence,
+                      outputs=(out, save_as, plot)):
             return
-        p, notes = read_project_with_notes(project)
         result = least_cost_plan(p, target, time_limit=time_limit)
+        _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
         check = _quality_notice(p)
-        _emit(as_json, lambda: _with_check(render_json.plan_json(result), check), lambda: render.plan_text(result),
-              notes + check + result.notes)
+        _emit(as_json, lambda: _with_check(render_json.plan_json(result), check),
+              lambda: render.plan_text(result, wide=wide), notes + check + result.notes)
 
 
 @app.command()
@@ -252,17 +354,18 @@ def curve(
     shortest: Annotated[Optional[int], typer.Option("--to", help="Shortest finish to trace to (default: the shortest possible).")] = None,
     as_json: JsonOpt = False,
     csv: Annotated[Optional[Path], typer.Option("--csv", help="Also write the points to FILE.csv.")] = None,
-    plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the curve to FILE.png.")] = None,
+    plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish to FILE.png, .svg or .pdf.")] = None,
     time_limit: LimitOpt = None,
     force: ForceOpt = False,
+    wide: WideOpt = False,
 ) -> None:
     """The least-cost curve: added cost at every working day of compression."""
     with _errors():
         from .questions import curve as least_cost_curve
 
-        _outputs(project, force, csv, plot)
         if csv is not None and csv.suffix.lower() != ".csv":
             raise InputError("--csv writes a .csv file", value=str(csv), fix="name the output FILE.csv")
+        _outputs(project, force, tables=(csv,), charts=(plot,))
         for flag, value in (("--to", shortest), ("--from", longest)):
             if value is not None and value < 0:
                 raise InputError(f"{flag} is a finish in working days from the start, 0 or more",
@@ -272,39 +375,43 @@ def curve(
             result = least_cost_curve(p, longest, shortest, time_limit=time_limit, progress=tick)
         if csv is not None:
             rows = render_json.curve_rows(result)
-            write_table(csv, ["finish", "finish_date", "added_cost", "milestone_damages", "day_cost", "changes"],
-                        rows, sheet_name="cost curve", date_columns=("finish_date",),
-                        money_columns=("added_cost", "milestone_damages", "day_cost"), currency=p.currency)
+            write_table(csv, list(rows[0]) if rows else ["finish"], rows, sheet_name="cost curve",
+                        date_columns=("finish_date",), money_columns=("added_cost", "milestone_damages", "day_cost"),
+                        currency=p.currency)
         if plot is not None:
             from .charts import curve_chart
 
             write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
-        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result),
+        _emit(as_json, lambda: render_json.curve_json(result), lambda: render.curve_text(result, wide=wide),
               notes + result.notes)
 
 
 @app.command()
-def best(
-    project: ProjectArg,
-    as_json: JsonOpt = False,
-    time_limit: LimitOpt = None,
-    expected: Annotated[bool, typer.Option("--expected", help="The plan with the least expected total cost over sampled scenarios.")] = False,
-    scenarios: ScenariosOpt = None,
-    seed: SeedOpt = None,
-) -> None:
+def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None, wide: WideOpt = False,
+         out: OutOpt = None, save_as: SaveOpt = None,
+         plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish, the best one marked, to FILE.png, .svg or .pdf.")] = None,
+         force: ForceOpt = False, crews: CrewsOpt = None, productivity: ProductivityOpt = None,
+         expected: Annotated[bool, typer.Option("--expected", help="The plan with the least expected total cost over sampled scenarios.")] = False,
+         scenarios: ScenariosOpt = None, seed: SeedOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         from .questions import best_finish
 
-        if _risk_plan(project, as_json, time_limit, scenarios, seed, expected=expected):
+        _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
+        p, notes = _crews(project, crews, productivity)
+        if _risk_plan(p, notes, as_json, time_limit, scenarios, seed, expected=expected,
+                      outputs=(out, save_as, plot)):
             return
-
-        p, notes = read_project_with_notes(project)
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
+        _write_outputs(result.plan, out=out, save_as=save_as, original=p)
+        if plot is not None:
+            from .charts import curve_chart
+
+            write_file(plot.resolve(), lambda tmp: curve_chart(result, tmp))
         check = _quality_notice(p)
-        _emit(as_json, lambda: _with_check(render_json.best_json(result), check), lambda: render.best_text(result),
-              notes + check + result.notes)
+        _emit(as_json, lambda: _with_check(render_json.best_json(result), check),
+              lambda: render.best_text(result, wide=wide), notes + check + result.notes)
 
 
 @app.command()
@@ -313,33 +420,166 @@ def budget(
     spend: Annotated[float, typer.Option("--spend", help="Most added direct cost you will spend.")],
     as_json: JsonOpt = False,
     time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
+    force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
 ) -> None:
     """The earliest finish whose least added cost is within a budget."""
     with _errors():
         from .questions import earliest_within
 
-        p, notes = read_project_with_notes(project)
+        _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
+        p, notes = _crews(project, crews, productivity)
         if not math.isfinite(spend) or spend < 0:
             raise InputError("--spend must be a number 0 or more", value=spend,
                              fix="give the most you would add to the direct cost, e.g. --spend 50000")
         result = earliest_within(p, spend, time_limit=time_limit)
+        _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
         title = f"Earliest finish within {render.money(spend, p.currency)}"
-        _emit(as_json, lambda: render_json.plan_json(result), lambda: render.plan_text(result, title=title),
-              notes + result.notes)
+        _emit(as_json, lambda: render_json.plan_json(result),
+              lambda: render.plan_text(result, title=title, wide=wide), notes + result.notes)
 
 
 @app.command()
-def recover(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None) -> None:
+def recover(
+    project: ProjectArg,
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: Annotated[Optional[Path], typer.Option("--out", help="Also write the revised schedule of each course to FILE.csv or FILE.xlsx.")] = None,
+    save_as: SaveOpt = None,
+    plot: PlotOpt = None,
+    course: Annotated[str, typer.Option("--course", help="The course --save-as and --plot use: 'least' (least total cost) or 'full' (recover fully).")] = "least",
+    force: ForceOpt = False,
+    crews: CrewsOpt = None,
+    productivity: ProductivityOpt = None,
+) -> None:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     with _errors():
         from .questions import recover as recovery
 
-        p, notes = read_project_with_notes(project)
+        if course not in ("least", "full"):
+            raise InputError("--course is not understood", value=course,
+                             fix="write --course least (least total cost) or --course full (recover fully)")
+        _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
+        p, notes = _crews(project, crews, productivity)
         with _progress(not as_json) as tick:
             result = recovery(p, time_limit=time_limit, progress=tick)
+        label = "least total cost" if course == "least" else "recover fully"
+        chosen = next((c.plan for c in result.courses if c.label == label), None)
+        if chosen is None and (save_as is not None or plot is not None):
+            raise HastenError(f"the course '{label}' has no plan to save or draw; try the other --course")
+        if out is not None:
+            write_table(out, ("course",) + render_json.REVISED_COLUMNS, render_json.revised_course_rows(result),
+                        sheet_name="revised schedules", date_columns=render_json.DATE_COLUMNS,
+                        money_columns=("added_cost",), currency=p.currency)
+        if chosen is not None:
+            _write_outputs(chosen, save_as=save_as, plot=plot, original=p)
         check = _quality_notice(p)
         _emit(as_json, lambda: _with_check(render_json.recovery_json(result), check),
-              lambda: render.recovery_text(result), notes + check + result.notes)
+              lambda: render.recovery_text(result, wide=wide), notes + check + result.notes)
+
+
+@app.command()
+def price(
+    project: ProjectArg,
+    proposal: Annotated[Path, typer.Option("--proposal", help="The proposal: a CSV with columns id, shortened_by (working days) or option, and cost (optional).")],
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+    wide: WideOpt = False,
+    out: OutOpt = None,
+    save_as: Annotated[Optional[Path], typer.Option("--save-as", help="Also write the project with the proposal applied to a new folder, .xlsx or .json.")] = None,
+    plot: PlotOpt = None,
+    force: ForceOpt = False,
+) -> None:
+    """Price a proposal: the finish it achieves, its cost, the least cost for that finish,
+    the lines that buy no time, its leanest part and the cheaper activities it missed."""
+    with _errors():
+        from .questions import price as price_proposal
+
+        _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
+        p, notes = read_project_with_notes(project)
+        result = price_proposal(p, proposal, time_limit=time_limit)
+        _write_outputs(result.plan, out=out, save_as=save_as, plot=plot, original=p)
+        _emit(as_json, lambda: render_json.price_json(result), lambda: render.price_text(result, wide=wide),
+              notes + result.notes)
+
+
+@app.command()
+def report(
+    project: ProjectArg,
+    output: Annotated[Path, typer.Option("-o", "--output", help="The report: FILE.html (one self-contained page), FILE.md (charts beside it) or FILE.xlsx.")],
+    finish: Annotated[Optional[int], typer.Option("--finish", help="Plan to finish in N working days from the start.")] = None,
+    by: Annotated[Optional[str], typer.Option("--by", help="Plan to finish by this date (last day worked), YYYY-MM-DD.")] = None,
+    earlier: Annotated[Optional[str], typer.Option("--earlier", help="Plan to finish earlier than now: 10d = working days, 2w = calendar weeks.")] = None,
+    best_: Annotated[bool, typer.Option("--best", help="The finish with the least total cost.")] = False,
+    budget_: Annotated[Optional[float], typer.Option("--budget", help="The earliest finish for at most this added direct cost.")] = None,
+    recover_: Annotated[bool, typer.Option("--recover", help="The courses of recovery after a delay.")] = False,
+    proposal: Annotated[Optional[Path], typer.Option("--proposal", help="A proposal to price (CSV: id, shortened_by or option, cost).")] = None,
+    time_limit: LimitOpt = None,
+) -> None:
+    """Write a report for the owner: the question, the answer, the plan, the charts, an
+    interactive curve (HTML), the assumptions, the cautions and how the answer was checked."""
+    with _errors():
+        from .questions import handover
+        from .report import REPORT_SUFFIXES, write_report
+
+        targets = [x is not None for x in (finish, by, earlier)]
+        if sum(targets) + best_ + (budget_ is not None) + recover_ + (proposal is not None) != 1:
+            raise HastenError("ask exactly one question: --finish N, --by DATE, --earlier 10d/2w, --best, "
+                              "--budget AMOUNT, --recover or --proposal FILE.csv")
+        if output.suffix.lower() not in REPORT_SUFFIXES:
+            raise InputError(f"cannot write a report to {output.name!r}", column="-o", value=str(output),
+                             fix="name the report FILE.html, FILE.md or FILE.xlsx")
+        if budget_ is not None and not (math.isfinite(budget_) and budget_ >= 0):
+            raise InputError("--budget must be a number 0 or more", value=budget_,
+                             fix="give the most you would add to the direct cost, e.g. --budget 50000")
+        target = _target(finish, by, earlier) if any(targets) else None
+        p = read_project(project)
+        with _progress(True) as tick:
+            result = handover(p, target=target, best=best_, budget=budget_, recover=recover_, proposal=proposal,
+                              time_limit=time_limit, progress=tick)
+        written = write_report(result, output)
+        for note in result.notes:
+            _echo(f"Note: {note}")
+        _echo("wrote " + ", ".join(str(w) for w in written))
+
+
+@app.command()
+def options(
+    project: ProjectArg,
+    out: Annotated[Optional[Path], typer.Option("--out", "-o", help="Write the options to FILE.csv (or .xlsx) in the layout of a project's options.csv.")] = None,
+    schedules: Annotated[Optional[str], typer.Option("--schedules", help="Measures to price, separated by commas: DAYSxHOURS (6x10), 2-shifts, +N-crew. Default: 5x10,6x10,2-shifts,+1-crew.")] = None,
+    productivity: ProductivityOpt = None,
+    force: ForceOpt = False,
+) -> None:
+    """Acceleration options built from crew data (labour hours, crew, wage, [labour] rules):
+    extended hours, a second shift, extra crews, each priced against normal working."""
+    with _errors():
+        from .crew_project import DEFAULT_SCHEDULES, crew_options
+        from .formats.productivity import read_productivity
+        from .render_crews import OPTIONS_TABLE_COLUMNS, options_rows, options_text
+
+        _outputs(project, force, tables=(out,))
+        if out is not None and productivity is not None:
+            check_output_target(out, inputs=[productivity], force=force)
+        p, notes = read_project_with_notes(project)
+        table = None if productivity is None else read_productivity(productivity)
+        build = crew_options(p, DEFAULT_SCHEDULES if schedules is None else schedules, table,
+                             column="--schedules")
+        if out is not None:
+            write_table(out, OPTIONS_TABLE_COLUMNS, options_rows(build), sheet_name="options",
+                        money_columns=("added_cost",), currency=p.currency)
+        for note in notes:
+            _echo(f"Note: {note}")
+        _echo(options_text(p, build))
+        if out is not None:
+            _echo(f"\nWrote {out}: {build.options} options (copy it into a project folder as "
+                  "options.csv, or use --crews on plan, best, budget and recover)")
 
 
 @app.command()
@@ -386,6 +626,9 @@ def demo(
                 k += 1
         check_output_folder(folder)
         folder.mkdir(parents=True, exist_ok=True)
+        import shutil
+        from importlib import resources
+
         source = resources.files("hasten") / "demo"
         for item in source.iterdir():
             if item.is_file() and not item.name.startswith((".", "_")):
@@ -410,8 +653,8 @@ def demo(
 
 
 # -- risk --------------------------------------------------------------------------------
-def _risk_plan(project: Path, as_json: bool, time_limit, scenarios, seed, *, target=None,
-               confidence: float | None = None, expected: bool = False) -> bool:
+def _risk_plan(p, notes, as_json: bool, time_limit, scenarios, seed, *, target=None,
+               confidence: float | None = None, expected: bool = False, outputs=()) -> bool:
     """``plan --confidence`` and ``best --expected``: the plan chosen for risk beside the
     deterministic one. False (nothing done) when neither was asked for."""
     if confidence is None and not expected:
@@ -419,16 +662,18 @@ def _risk_plan(project: Path, as_json: bool, time_limit, scenarios, seed, *, tar
             raise InputError("--scenarios and --seed choose a plan for risk", value=scenarios if seed is None else seed,
                              fix="add --confidence 0.8 to plan, or --expected to best")
         return False
+    if any(path is not None for path in outputs):
+        raise InputError("--out, --save-as and --plot write the deterministic plan, not a plan chosen for risk",
+                         fix="leave them out with --confidence or --expected, or run without these options")
     from . import render_risk
     from .robust import SCENARIOS, risk_plans
 
-    p, notes = read_project_with_notes(project)
     with _progress(not as_json, "checking the plans on fresh runs") as tick:
         result = risk_plans(p, target=target, confidence=confidence, expected=expected,
                             scenarios=SCENARIOS if scenarios is None else scenarios, seed=seed, time_limit=time_limit,
                             progress=tick)
     _emit(as_json, lambda: render_risk.risk_plans_json(result), lambda: render_risk.risk_plans_text(result),
-          notes + result.notes)
+          tuple(notes) + result.notes)
     return True
 
 
@@ -482,6 +727,8 @@ def risk(
 
 def _plan_data(path: Path):
     """The JSON a plan was saved in (the --json output of a command)."""
+    import json
+
     try:
         text = path.read_text(encoding="utf-8-sig")
     except OSError as exc:

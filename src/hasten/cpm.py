@@ -10,6 +10,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from datetime import date
+from itertools import repeat
+from operator import add, attrgetter, sub
 from typing import NamedTuple, Sequence
 
 import numpy as np
@@ -112,7 +114,7 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     finish = net.finish_of(es, d)
     horizon = finish if deadline is None else deadline
     ls = net.backward(d, horizon)
-    tf = [ls[i] - es[i] for i in range(n)]
+    tf = list(map(sub, ls, es))
     live = [not f for f in net.fixed]  # finished work has no float and is never critical
     least = min((t for t, a in zip(tf, live) if a), default=0)
 
@@ -130,6 +132,15 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
     longest = _longest_paths(net, driving, es, d, finish) if net.several else ()
     states = net.progress.activities
+    if not any(net.fixed) and list(net.shown_start).count(None) == n:
+        # nothing started or finished: every row from the passes, made without a loop
+        ids = net.ids
+        drives = [tuple(map(ids.__getitem__, p)) if p else () for p in driving]
+        rows = tuple(map(tuple.__new__, repeat(ActivityDates), zip(
+            ids, d, es, map(add, es, d), ls, map(add, ls, d), tf, free, critical, drives,
+            map(attrgetter("state"), states))))
+        return Schedule(finish, rows, paths, deadline, truncated, longest, net.progress.warnings,
+                        net.clock.start_date(0), net.finish_date(finish), states, deadline_date)
     rows = []
     for i in range(n):
         shown = net.shown_start[i]

@@ -30,6 +30,7 @@ with :func:`drop_dominated` before optimising and show its notes.
 from __future__ import annotations
 
 from dataclasses import replace
+from operator import attrgetter
 
 from .project import Activity, LinkType, Option, Project
 
@@ -98,6 +99,8 @@ def drop_dominated(project: Project) -> tuple[Project, list[str]]:
     are. Notes read like
     ``A120: option 'night shift' (12 days, 9,000) dropped: 'second crew' is as fast and cheaper``.
     """
+    if not any(map(attrgetter("options"), project.activities)):
+        return project, []  # no option to drop (the same project: it is frozen)
     reverse_risk = {k.succ for k in project.links if k.type in (LinkType.FF, LinkType.SF)}
     notes: list[str] = []
     activities = []

@@ -10,19 +10,38 @@ Loops in the links are refused (:mod:`hasten.graph`).
 
 from __future__ import annotations
 
+from operator import attrgetter
+
 import numpy as np
 
 from .calendar import Timeline
-from .errors import CycleError
+from .errors import CycleError, InputError
 from .graph import find_cycle, levels
 from .passes import CpmPasses
 from .progress import DONE, STARTED, WAITING, apply_progress
-from .project import LinkType, Project
+from .project import Activity, LinkType, Option, Project
 
 __all__ = ["Network"]
 
 _FS, _SS, _FF, _SF = 0, 1, 2, 3
 _KIND = {LinkType.FS: _FS, LinkType.SS: _SS, LinkType.FF: _FF, LinkType.SF: _SF}
+
+
+def _floored(activity: Activity) -> tuple[Option, ...]:
+    """The options of ``activity``, their own shortening stopped at its physical minimum;
+    an option shorter than the minimum is refused (the formats refuse it when reading)."""
+    floor, out = activity.min_duration, []
+    for option in activity.options:
+        if option.duration < floor:
+            raise InputError(f"activity '{activity.id}': the option '{option.name}' takes "
+                             f"{option.duration} working days, below the physical minimum of "
+                             f"{floor}", column="duration", value=option.duration,
+                             fix=f"give the option at least {floor} days, or lower min_duration")
+        if option.shortest < floor:
+            option = Option(option.name, option.duration, option.added_cost, option.note,
+                            floor, option.cost_per_day)
+        out.append(option)
+    return tuple(out)
 
 
 class Network(CpmPasses):
@@ -45,7 +64,8 @@ class Network(CpmPasses):
         idx = self.index
         # what is left to schedule: durations at normal pace, crash steps, options
         self.durations: list[int] = [s.duration for s in states]
-        self.options = [a.options if s.state == WAITING else () for a, s in zip(acts, states)]
+        self.options = [(_floored(a) if a.min_duration else a.options) if s.state == WAITING else ()
+                        for a, s in zip(acts, states)]
         self._steps: list | None = None
         self._shortest: list[int] | None = None
         self.release: list[int] = [s.release for s in states]  # earliest start
@@ -53,8 +73,10 @@ class Network(CpmPasses):
         self.finish_release: list[int] = [0] * n  # earliest finish, from links to fixed events
         self.shown_start: list[int | None] = [s.start for s in states]  # actual start, if any
         links = project.links
-        every_pred = np.fromiter((idx[k.pred] for k in links), dtype=np.int64, count=len(links))
-        every_succ = np.fromiter((idx[k.succ] for k in links), dtype=np.int64, count=len(links))
+        every_pred = np.array(list(map(idx.__getitem__, map(attrgetter("pred"), links))),
+                              dtype=np.int64).reshape(len(links))
+        every_succ = np.array(list(map(idx.__getitem__, map(attrgetter("succ"), links))),
+                              dtype=np.int64).reshape(len(links))
         levels = self._cycle_check(every_pred, every_succ)
         if self.progress.progressed:
             kept = [e for e, k in enumerate(links) if e not in self.progress.dropped
@@ -66,18 +88,21 @@ class Network(CpmPasses):
             kept = range(len(links))
             self.pred, self.succ = every_pred.tolist(), every_succ.tolist()
         self.link_index: list[int] = list(kept)  # position of each link in project.links
-        self.kind: list[int] = [_KIND[links[e].type] for e in kept]
-        self.lag: list[int] = [links[e].lag for e in kept]
+        kept_links = links if len(kept) == len(links) else [links[e] for e in kept]
+        self.kind: list[int] = list(map(_KIND.__getitem__, map(attrgetter("type"), kept_links)))
+        self.lag: list[int] = list(map(attrgetter("lag"), kept_links))
         self._arrays(levels)
         self._in_links: list[list[int]] | None = None
         self._out_links: list[list[int]] | None = None
-        # the project finish is dated no earlier than a milestone's first day (hasten.progress)
+        # the project finish is dated no earlier than a milestone's first day (hasten.progress;
+        # day 0 of another calendar may come after the project's day 0)
         self.finish_floor = 0
         for k, (a, st) in enumerate(zip(acts, states)):
-            if a.duration == 0 and st.floor > self.finish_floor:
-                c = self.timeline.clock_of(k)
-                day = st.floor if c is self.clock else self.clock.offset_of(c.date_of(st.floor), finish=False)
-                self.finish_floor = max(self.finish_floor, day)
+            if a.duration:
+                continue
+            c = self.timeline.clock_of(k)
+            day = st.floor if c is self.clock else self.clock.offset_of(c.date_of(st.floor), finish=False)
+            self.finish_floor = max(self.finish_floor, day)
 
     def finish_date(self, finish: int):
         """The date of a project finish of ``finish`` working days: its last working day,

@@ -17,6 +17,7 @@ reads the arrays the network compiles (see there).
 
 from __future__ import annotations
 
+from operator import add
 from typing import Sequence
 
 import numpy as np
@@ -106,7 +107,7 @@ class CpmPasses:
     def finish_of(self, es: Sequence[int], d: Sequence[int]) -> int:
         """Project finish (project-calendar working days) of early starts ``es``."""
         if not self.several:
-            return max((es[i] + d[i] for i in range(len(d))), default=0)
+            return max(map(add, es, d), default=0)
         ef = np.asarray(es, dtype=np.int64) + np.asarray(d, dtype=np.int64)
         cal = np.asarray(self.cal, dtype=np.int64)
         out = 0

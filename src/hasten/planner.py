@@ -2,8 +2,10 @@
 total-cost finish and the earliest finish within a budget.
 
 :class:`Planner` holds one project, its network, its calendar and one optimisation model,
-built once and re-solved for every question asked of it. Every plan passes the independent
-check (:mod:`hasten.checks`) before it is returned.
+built once and re-solved for every question asked of it. The figures shown with a plan
+come from the optimiser side (the network's CPM pass of the plan, the solver's added cost,
+:mod:`hasten.plan_costs`); the independent check (:mod:`hasten.plan_check`) recomputes each
+from the project alone and must agree before the plan is returned.
 """
 
 from __future__ import annotations
@@ -11,16 +13,17 @@ from __future__ import annotations
 import math
 from dataclasses import replace
 from datetime import date
-from typing import Callable
+from typing import Callable, NamedTuple
 
 from .cautions import plan_cautions
-from .checks import PlanChecker
 from .cpm import Schedule, schedule
 from .crash_model import CrashModel, Solution
 from .dominated import drop_dominated
-from .errors import HastenError, InfeasibleTargetError
+from .errors import HastenError, InfeasibleTargetError, PlanCheckError
 from .network import Network
 from .partial import PartialSolver, solvable_on_part
+from .plan_check import PlanChecker
+from .plan_costs import PlanCosts
 from .project import Project
 from .results import ActivityChange, BestFinish, Curve, CurvePoint, Plan, TotalCostPoint, TradeTotal
 from .time_costs import time_costs
@@ -29,6 +32,15 @@ __all__ = ["Planner", "Progress"]
 
 #: A progress callback: ``(done, total)`` after each solve of a long trace.
 Progress = Callable[[int, int], None]
+
+
+class _Figures(NamedTuple):
+    """What is shown with a plan, as the optimiser side has it (and the check agreed)."""
+
+    finish: int  # project working days, by the network's own CPM pass of the plan
+    cost: float  # added direct cost, the solver's
+    damages: float  # of own deadlines missed at the early dates (hasten.plan_costs)
+    costs: list[float] | None  # added direct cost of each activity, for a plan shown (hasten.plan_costs)
 
 
 class Planner:
@@ -47,6 +59,8 @@ class Planner:
     time_limit : float, optional
         Seconds each mixed-integer solve may take; a plan stopped by it is reported as not
         proven optimal, with its bound and gap.
+    keep_dominated : bool
+        Keep every option (to price a given plan that uses a dominated one, :meth:`evaluate`).
 
     Examples
     --------
@@ -57,10 +71,11 @@ class Planner:
     True
     """
 
-    def __init__(self, project: Project, *, time_limit: float | None = None, solver: str | None = None):
+    def __init__(self, project: Project, *, time_limit: float | None = None, solver: str | None = None,
+                 keep_dominated: bool = False):
         if time_limit is not None and not (time_limit > 0 and math.isfinite(time_limit)):
             raise HastenError(f"the time limit {time_limit!r} must be a positive number of seconds")
-        project, notes = drop_dominated(project)
+        project, notes = (project, []) if keep_dominated else drop_dominated(project)
         self.given = project  # as given: results list activities in this order
         # The model is built on the activities sorted by id (and the links sorted), so that
         # among plans of equal cost the one chosen never depends on the order of the rows.
@@ -72,7 +87,8 @@ class Planner:
         self.network = Network(project)
         self.clock = self.network.clock
         self.normal_finish = self.network.forward_finish()
-        self.checker = PlanChecker(self.network)
+        self.costs = PlanCosts(self.network)  # the figures shown, on the optimiser side
+        self.checker = PlanChecker(project)  # independent of the network (hasten.plan_check)
         self.discrete = any(self.network.options)  # some work still to do has discrete options
         # some work still to do has its own deadline with damages
         self.penalised = any(a.deadline is not None and a.damages_per_day and not fixed
@@ -164,14 +180,33 @@ class Planner:
                                         self.network.finish_date(shortest))
         return sol
 
-    def _checked(self, sol: Solution, target: int, starts=None) -> tuple[int, float, float]:
-        """Finish, added cost and damages of own deadlines (recomputed from the activity
-        data) of a solution that has passed the independent check, on ``starts``, or else
-        on the solver's own starts, or else on the early starts of its durations."""
-        if starts is None:
-            starts = sol.starts if sol.starts is not None else self.network.forward(sol.durations)
-        return self.checker.check(sol.durations, starts, target=target, claimed_cost=sol.added_cost,
-                                  choices=sol.choices or None, claimed_damages=sol.milestone_damages)
+    def _checked(self, sol: Solution, target: int | None, shown: list[int] | None = None, *,
+                 strict: bool = False, solved: bool = True) -> _Figures:
+        """The figures of a solution, from the optimiser side: its finish (and the finish
+        date) by the network's CPM pass, the solver's added cost, the milestone damages at
+        the early dates and, for a plan shown (``shown``: the early starts its schedule
+        shows), each activity's added cost (:mod:`hasten.plan_costs`). The independent
+        check recomputes each from the project alone, and the starts shown, and must
+        agree (with ``strict``: no own deadline missed), else :class:`PlanCheckError`.
+        ``solved``: the damages the solver counted must cover those of the dates too."""
+        net, d, choices = self.network, sol.durations, sol.choices or None
+        early = net.forward(d) if shown is None else shown
+        finish = net.finish_of(early, d)
+        costs = None if shown is None else self.costs.added_costs(d, choices)
+        damages = self.costs.milestone_damages([s + x for s, x in zip(early, d)])
+        self.checker.check(d, choices=choices, starts=shown, early=True, target=target, claimed_finish=finish,
+                           claimed_cost=sol.added_cost, claimed_costs=costs, claimed_damages=damages,
+                           claimed_finish_date=net.finish_date(finish), strict=strict)
+        if solved and damages > sol.milestone_damages + 1e-6 * max(1.0, damages):
+            raise PlanCheckError(f"plan check: the solver counted {sol.milestone_damages:.2f} of milestone "
+                                 f"damages, the plan's dates give {damages:.2f}")
+        return _Figures(finish, sol.added_cost, damages, costs)
+
+    @property
+    def normal_damages(self) -> float:
+        """Milestone damages of the current schedule (every activity at its normal pace),
+        checked as a plan's are."""
+        return self._checked(Solution(tuple(self.network.durations), 0.0, 0.0), None, solved=False).damages
 
     def plan(self, target: int, *, next_day: bool = True, strict: bool = False) -> Plan:
         """The least-cost plan to finish by ``target`` working days; with ``strict`` every
@@ -187,10 +222,10 @@ class Planner:
         self._reach = max(self._reach, self.normal_finish - target + 1)  # and the next day
         sol = self._solve(target, strict=strict)
         sched = schedule(self.network, sol.durations)
-        early = self.network.forward(sol.durations)
-        finish, cost, damages = self._checked(sol, target, early)  # the dates shown
+        shown = [r.ef - r.duration for r in sched.activities]  # early starts of what is left
+        figures = self._checked(sol, target, shown, strict=strict)
         next_cost = None
-        step = finish  # one day before the plan's own finish (it may be earlier than the target)
+        step = figures.finish  # one day before the plan's own finish (it may be earlier than the target)
         if next_day and step > 0:
             try:
                 nxt = self._solve(step - 1, tie_break=False, strict=strict)
@@ -198,20 +233,31 @@ class Planner:
                 pass  # this is the shortest possible finish
             else:
                 if nxt.proven:  # an unproven difference is no marginal cost
-                    _, next_added, next_damages = self._checked(nxt, step - 1)
-                    next_cost = next_added + next_damages - cost - damages
-        return self._plan(target, finish, sol, cost, damages, sched, next_cost)
+                    after = self._checked(nxt, step - 1, strict=strict)
+                    next_cost = after.cost + after.damages - figures.cost - figures.damages
+        return self._plan(target, figures, sol, sched, next_cost)
 
-    def _plan(self, target: int, finish: int, sol: Solution, added_cost: float, damages: float,
-              sched: Schedule, next_cost: float | None) -> Plan:
+    def evaluate(self, durations, choices=None) -> Plan:
+        """The plan of given durations (and option choices, -1 for none) of what is left to
+        schedule, checked and scheduled without solving; its target is its own finish."""
+        durations = tuple(int(d) for d in durations)
+        choices = tuple(choices) if choices is not None and any(c >= 0 for c in choices) else ()
+        cost = float(sum(self.costs.added_costs(durations, choices or None)))
+        sol = Solution(durations, cost, cost, choices)
+        sched = schedule(self.network, durations)
+        shown = [r.ef - r.duration for r in sched.activities]  # early starts of what is left
+        figures = self._checked(sol, None, shown, solved=False)
+        return self._plan(figures.finish, figures, sol, sched, None)
+
+    def _plan(self, target: int, figures: _Figures, sol: Solution, sched: Schedule,
+              next_cost: float | None) -> Plan:
         changes = []
         trades: dict[str, list] = {}
         choices = sol.choices or (-1,) * len(sol.durations)
-        costs = self.checker.added_costs(sol.durations, sol.choices or None)
         names = {c.name for c in self.project.calendars}
         default = self.project.calendar.name
         for act, normal, d, c, cost, options in zip(self.project.activities, self.network.durations,
-                                                    sol.durations, choices, costs, self.network.options):
+                                                    sol.durations, choices, figures.costs, self.network.options):
             cut = normal - d
             way = options[c] if c >= 0 else None
             calendar = act.calendar if act.calendar in names else default
@@ -223,12 +269,13 @@ class Planner:
                 t[1] += cost
         trade_rows = tuple(TradeTotal(k, v[0], v[1])
                            for k, v in sorted(trades.items(), key=lambda kv: (-kv[1][1], kv[0])))
-        clock, day = self.clock, self.network.finish_date
+        clock, day, finish = self.clock, self.network.finish_date, figures.finish
         cautions = plan_cautions(self.project, self.network.timeline, changes, sched)
         changes, sched = self._as_given(changes), self._as_given_schedule(sched)
-        return Plan(self.given, target, finish, self.normal_finish, added_cost, tuple(changes), trade_rows,
+        return Plan(self.given, target, finish, self.normal_finish, figures.cost, tuple(changes), trade_rows,
                     sched, next_cost, clock.start_date(0), day(target), day(finish), day(self.normal_finish),
-                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, damages)
+                    tuple(cautions), self.notes, sol.proven, sol.bound, sol.gap, figures.damages,
+                    self._as_given_schedule(self.normal))
 
     def _as_given(self, rows: list) -> list:
         """Rows (one per activity, in the model's order) in the order the project gave them."""
@@ -259,25 +306,30 @@ class Planner:
         solved: dict[int, tuple[Solution, float, float]] = {}
         for k, target in enumerate(targets):
             sol = self._solve(target, tie_break=False)  # raises below the shortest finish
-            solved[target] = (sol, *self._checked(sol, target)[1:])
+            figures = self._checked(sol, target)
+            solved[target] = (sol, figures.cost, figures.damages)
             if progress:
                 progress(k + 1, len(targets))
+        import numpy as np  # (loaded with the network already)
+
         ids = self.network.ids
         normal = self.network.durations
         points: list[CurvePoint] = []
         for target in range(hi, lo - 1, -1):
             sol, cost, damages = solved[target]
             choices = sol.choices or (-1,) * len(sol.durations)
-            plan = tuple((ids[i], n - d, self._way(i, c)) for i, (d, n, c) in
-                         enumerate(zip(sol.durations, normal, choices)) if d != n or c >= 0)
+            changed = np.flatnonzero((np.asarray(sol.durations) != np.asarray(normal))
+                                     | (np.asarray(choices) >= 0)).tolist()  # few of them
+            plan = tuple((ids[i], normal[i] - sol.durations[i], self._way(i, choices[i]))
+                         for i in changed)
             date_ = self.network.finish_date(target)
             before = solved.get(target + 1)
             if before is None:
                 points.append(CurvePoint(target, date_, cost, 0.0, plan, (), (), sol.proven, sol.gap, damages))
                 continue
             prev, prev_cost, prev_damages = before
-            changes = tuple((ids[i], d - p) for i, (d, p) in enumerate(zip(sol.durations, prev.durations))
-                            if d != p)
+            changes = tuple((ids[i], sol.durations[i] - prev.durations[i]) for i in
+                            np.flatnonzero(np.asarray(sol.durations) != np.asarray(prev.durations)).tolist())
             switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
                              enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
             points.append(CurvePoint(target, date_, cost, cost + damages - prev_cost - prev_damages, plan,
@@ -299,11 +351,20 @@ class Planner:
     def best_finish(self, progress: Progress | None = None) -> BestFinish:
         """The finish with the least total cost (direct + indirect + damages - bonus).
 
-        Ties go to the later finish: the same money for less acceleration.
+        Ties go to the later finish: the same money for less acceleration. With linear
+        costs on one calendar (no discrete options, no milestone deadlines) the added cost
+        is convex in the finish, so the cost of each further day only grows: the trace
+        stops at the first day that costs more than any day can save in time costs
+        (indirect cost, plus damages and bonus over the most calendar days one working day
+        can span), and ``table`` holds the finishes traced. Otherwise every finish from the
+        shortest to the current one is priced.
         """
-        points = self.curve(progress=progress)
-        table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
-                      for p in reversed(points.points))
+        if self._partial_ok:
+            table = self._total_costs_while_they_can_fall(progress)
+        else:
+            points = self.curve(progress=progress)
+            table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
+                          for p in reversed(points.points))
         best = min(table, key=lambda r: (round(r.total_cost, 6), -r.finish))
         plan = self.plan(best.finish)
         # Report the plan's own figures: among plans of the same least cost the tie-break may
@@ -313,10 +374,64 @@ class Planner:
         current = next(r for r in table if r.finish == self.normal_finish)
         return BestFinish(point, current, table, plan, self.notes)
 
+    def _total_costs_while_they_can_fall(self, progress: Progress | None) -> tuple[TotalCostPoint, ...]:
+        """Total cost points from the current finish down, until one more day costs more in
+        acceleration than it can save in time costs (every earlier day then costs more)."""
+        contract = self.project.contract
+        rate = (contract.damages_per_day + contract.bonus_per_day) if contract.finish is not None else 0.0
+        days = self.clock.dates_of(range(self.normal_finish + 1))
+        spans = [1] + [max((b - a).days, 1) for a, b in zip(days, days[1:])]  # calendar days per working day
+        widest = list(spans)
+        for t in range(1, len(widest)):
+            widest[t] = max(widest[t], widest[t - 1])  # the widest span at or before each day
+        rows, previous = [], None
+        for target in range(self.normal_finish, -1, -1):
+            try:
+                sol = self._solve(target, tie_break=False)
+            except InfeasibleTargetError:
+                break
+            cost = self._checked(sol, target)[1]
+            rows.append(self.total_cost_point(target, cost))
+            if progress:
+                progress(len(rows), len(rows) + 1)
+            can_save = self.project.costs.indirect_per_day + rate * widest[target + 1] if target + 1 < len(widest) \
+                else float("inf")
+            if previous is not None and cost - previous > can_save + 1e-9 * max(1.0, abs(cost)):
+                break
+            previous = cost
+        return tuple(reversed(rows))
+
     def earliest_within(self, budget: float) -> Plan:
-        """The earliest finish whose least added cost is within ``budget``, and its plan."""
+        """The earliest finish whose least added cost is within ``budget``, and its plan.
+
+        With linear costs on one calendar the least added cost is convex and never rises as
+        the finish grows, so the earliest finish within a budget is found by a few solves:
+        days doubled back from the current finish until the cost passes the budget, then
+        bisection (each solve warm, on the part of the network that can matter). Otherwise
+        (discrete options, calendars of their own, milestone deadlines: no convexity) one
+        solve asks for the earliest finish with the cost capped at the budget.
+        """
         if not math.isfinite(budget) or budget < 0:
             raise HastenError(f"a budget of {budget:g} cannot be spent; give the most you would add, "
                               "a number 0 or more")
-        target = self.model.earliest_finish_within(budget)  # never before the shortest finish
-        return self.plan(min(target, self.normal_finish))
+        if not self._partial_ok:
+            target = self.model.earliest_finish_within(budget)  # never before the shortest finish
+            return self.plan(min(target, self.normal_finish))
+        within = budget + 1e-9 * max(1.0, abs(budget))
+
+        def affordable(target: int) -> bool:
+            if target < 0:
+                return False
+            try:
+                return self._solve(target, tie_break=False).added_cost <= within
+            except InfeasibleTargetError:
+                return False
+
+        good, step = self.normal_finish, 1  # the current finish costs nothing
+        while affordable(self.normal_finish - step):
+            good, step = self.normal_finish - step, 2 * step
+        bad = self.normal_finish - step
+        while good - bad > 1:
+            mid = (good + bad) // 2
+            good, bad = (mid, bad) if affordable(mid) else (good, mid)
+        return self.plan(good)

@@ -245,7 +245,11 @@ def _settle_milestones(project: Project, states: list, pos: dict, bound) -> None
     into: dict[int, list] = {}
     for link in project.links:
         into.setdefault(pos[link.succ], []).append(link)
-    done = [k for k, s in enumerate(states) if s.state == DONE and s.duration == 0 and k in into]
+    # milestones only (duration 0 in the project): finished work whose actual dates fall on
+    # days its calendar does not work also spans 0 working days, but is work, not a point
+    # in time, and stays at its actual start
+    done = [k for k, s in enumerate(states)
+            if s.state == DONE and project.activities[k].duration == 0 and k in into]
     for _ in range(len(done) + 1):  # each pass can only move a milestone to the end of its day
         moved = False
         for k in done:

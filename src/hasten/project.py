@@ -11,6 +11,8 @@ from dataclasses import dataclass, field
 from datetime import date
 from enum import Enum
 
+from hasten.labour import CrewData, LabourRules
+
 __all__ = [
     "LinkType",
     "Link",
@@ -114,6 +116,12 @@ class Activity:
     deadline: date | None = None  # an interim milestone's own deadline (last day allowed)
     damages_per_day: float = 0.0  # damages per calendar day the milestone is late
     calendar: str = ""  # name of one of Project.calendars; "" = the project calendar
+    # the physical minimum in working days (curing, lead times): no way of working, crash
+    # steps or option, takes the activity below it (0: none)
+    min_duration: int = 0
+    # labour data from which acceleration options are built (see hasten.crew_options);
+    # its own min_duration is not used here: the activity's min_duration is the minimum
+    crew: CrewData | None = None
     # duration uncertainty (see hasten.uncertainty): the shortest and longest working days the
     # activity may take; the duration is the most likely. None: from Project.risk, or none
     optimistic: int | None = None
@@ -121,15 +129,20 @@ class Activity:
 
     @property
     def shortest_normal(self) -> int:
-        """Shortest duration without a discrete option (crash steps or linear crashing)."""
+        """Shortest duration without a discrete option (crash steps or linear crashing),
+        never below the physical minimum ``min_duration`` (nor above the duration)."""
         if self.steps:
-            return self.duration - sum(s.days for s in self.steps)
-        return self.duration if self.crash_duration is None else self.crash_duration
+            shortest = self.duration - sum(s.days for s in self.steps)
+        else:
+            shortest = self.duration if self.crash_duration is None else self.crash_duration
+        return max(shortest, min(self.min_duration, self.duration))
 
     @property
     def shortest(self) -> int:
-        """Shortest possible duration in working days, over every option."""
-        return min([self.shortest_normal] + [o.shortest for o in self.options])
+        """Shortest possible duration in working days, over every option, never below the
+        physical minimum (an option's own shortening stops there too)."""
+        return min([self.shortest_normal] + [max(o.shortest, min(self.min_duration, o.duration))
+                                             for o in self.options])
 
     @property
     def longest(self) -> int:
@@ -146,14 +159,26 @@ class Activity:
         return self.duration == 0
 
     def segments(self) -> tuple[CrashStep, ...]:
-        """The crash cost as steps in order of use (one step for a linear cost)."""
+        """The crash cost as steps in order of use (one step for a linear cost), taking
+        the activity no shorter than :attr:`shortest_normal` (the physical minimum cuts the
+        last steps short; a linear cost keeps its cost per day)."""
         if self.steps:
-            return self.steps
+            left = self.max_shortening
+            if left >= sum(s.days for s in self.steps):
+                return self.steps
+            out = []
+            for step in self.steps:
+                if left <= 0:
+                    break
+                out.append(step if step.days <= left else CrashStep(left, step.cost_per_day))
+                left -= step.days
+            return tuple(out)
         days = self.max_shortening
         if days <= 0:
             return ()
+        crash = self.duration if self.crash_duration is None else self.crash_duration
         extra = (self.crash_cost if self.crash_cost is not None else self.cost) - self.cost
-        return (CrashStep(days, extra / days),)
+        return (CrashStep(days, extra / (self.duration - crash)),)
 
 
 @dataclass(frozen=True)
@@ -215,6 +240,9 @@ class Project:
     data_date: date | None = None  # [status] data_date: progress is reported up to this date
     # further calendars activities may name (Activity.calendar), each under its own name
     calendars: tuple[Calendar, ...] = ()
+    # [labour]: the normal week, pay rules, trade wages and productivity data from which
+    # options are built for activities with crew data (None: no section; defaults apply)
+    labour: LabourRules | None = None
     risk: Risk = field(default_factory=Risk)  # [risk]: duration ranges by default and by trade
 
     def activity(self, activity_id: str) -> Activity:

@@ -28,12 +28,17 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 
+import os
+from typing import Sequence
+
 from .planner import Planner, Progress
+from .price import PricedProposal, ProposalLine, price_proposal, read_proposal
 from .project import Project
 from .recovery import Recovery, recovery
-from .results import BestFinish, Curve, Plan
+from .results import BestFinish, Curve, Handover, Plan
 
-__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "target_offset"]
+__all__ = ["Earlier", "plan", "curve", "best_finish", "earliest_within", "recover", "price", "handover",
+           "target_offset"]
 
 
 @dataclass(frozen=True)
@@ -104,3 +109,89 @@ def recover(project: Project, *, time_limit: float | None = None,
             progress: Progress | None = None) -> Recovery:
     """After a delay: do nothing, recover fully, or recover at the least total cost."""
     return recovery(Planner(project, time_limit=time_limit), progress=progress)
+
+
+def price(project: Project, proposal: str | os.PathLike[str] | Sequence[ProposalLine], *,
+          time_limit: float | None = None) -> PricedProposal:
+    """Price a proposal: what it buys, what it costs, what the least-cost plan for the same
+    finish costs, the lines that buy nothing and the leanest part of it
+    (:mod:`hasten.price`).
+
+    Parameters
+    ----------
+    project : Project
+    proposal : path or sequence of ProposalLine
+        A CSV file with columns ``id``, ``shortened_by`` and/or ``option``, and optionally
+        ``cost``; or the lines themselves.
+
+    Examples
+    --------
+    >>> import hasten
+    >>> from hasten.questions import price
+    >>> from hasten.price import ProposalLine
+    >>> priced = price(hasten.read_project("cases/riverside-culvert"), [ProposalLine("A310", 2)])
+    >>> priced.excess >= 0 and priced.finish == priced.least_cost_plan.finish
+    True
+    """
+    if isinstance(proposal, (str, os.PathLike)):
+        return price_proposal(project, read_proposal(proposal), str(proposal), time_limit=time_limit)
+    return price_proposal(project, list(proposal), time_limit=time_limit)
+
+
+def _target_words(planner: Planner, target: Target, offset: int) -> str:
+    day = planner.clock.project_finish_date(offset).isoformat()
+    if isinstance(target, Earlier):
+        ahead = (f"{target.weeks} calendar week{'s' if target.weeks != 1 else ''}" if target.weeks
+                 else f"{target.days} working day{'s' if target.days != 1 else ''}")
+        return f"finish {ahead} earlier than now, by {day}"
+    return f"finish by {day} ({offset} working days from the start)"
+
+
+def handover(project: Project, *, target: Target | None = None, best: bool = False, budget: float | None = None,
+             recover: bool = False, proposal=None, time_limit: float | None = None,
+             progress: Progress | None = None) -> Handover:
+    """One question answered for a report, with the least-cost curve (every finish and its
+    plan) beside it. Ask exactly one: ``target`` (a plan), ``best``, ``budget``, ``recover``
+    or ``proposal`` (a path or lines, see :func:`price`).
+
+    Examples
+    --------
+    >>> import hasten
+    >>> from hasten.questions import handover
+    >>> h = handover(hasten.read_project("cases/clinic-fitout"), best=True)
+    >>> h.kind, h.plan.finish == h.answer.point.finish, len(h.curve) > 1
+    ('best', True, True)
+    """
+    asked = [target is not None, best, budget is not None, recover, proposal is not None]
+    if sum(asked) != 1:
+        from .errors import HastenError
+
+        raise HastenError("ask exactly one question: a target, the best finish, a budget, recovery "
+                          "or a proposal")
+    planner = Planner(project, time_limit=time_limit)
+    currency = f" {project.currency}" if project.currency else ""
+    if target is not None:
+        offset = target_offset(planner, target)
+        answer = planner.plan(offset)
+        kind, question, chosen = "plan", ("What is the least added cost to "
+                                          + _target_words(planner, target, offset) + "?"), answer
+    elif best:
+        answer = planner.best_finish(progress=progress)
+        kind, question, chosen = "best", ("Which finish date costs the least in all (direct cost, site "
+                                          "overhead, damages and bonus), and how is it reached?"), answer.plan
+    elif budget is not None:
+        answer = planner.earliest_within(budget)
+        kind, question, chosen = "budget", (f"How early can the job finish for at most {budget:,.0f}{currency} "
+                                            "of added direct cost?"), answer
+    elif recover:
+        answer = recovery(planner, progress=progress)
+        kind, question = "recover", ("The job is late: what does each way of recovering cost against doing "
+                                     "nothing?")
+        chosen = next((c.plan for c in reversed(answer.courses) if c.plan is not None), None)
+    else:
+        answer = price(project, proposal, time_limit=time_limit)
+        where = f" ({answer.source})" if answer.source else ""
+        kind, question, chosen = "price", (f"What does the proposal{where} buy, what should it cost, and what "
+                                           "does it waste?"), answer.plan
+    trace = planner.curve(progress=progress)
+    return Handover(project, kind, question, answer, chosen, trace, tuple(planner.notes))

@@ -130,7 +130,7 @@ def recovery(planner: Planner, progress=None) -> Recovery:
         forecast = net.timeline.clock_of(k).date_of(end_day(net.progress.activities[k], f))  # own calendar
         late = max(0, (forecast - a.deadline).days)
         milestones.append(MilestoneForecast(a.id, a.name, a.deadline, forecast, late, late * a.damages_per_day))
-    base = planner.total_cost_point(planner.normal_finish, 0.0, planner.checker.milestone_damages(finishes))
+    base = planner.total_cost_point(planner.normal_finish, 0.0, planner.normal_damages)
     courses = [Course("do nothing", True, base.finish, base.finish_date, 0.0, base.time.damages,
                       base.milestone_damages, base.time.indirect, base.time.bonus, 0.0, 0.0, 0.0, None,
                       "pay the damages")]

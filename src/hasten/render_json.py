@@ -5,6 +5,8 @@ computes a schedule or solves: every figure comes from the result objects.
 from __future__ import annotations
 
 from datetime import date
+from itertools import repeat
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -17,11 +19,14 @@ from .project import Project
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
     from .quality import QualityReport
     from .recovery import Recovery
+    from .price import PricedProposal
     from .results import BestFinish, Curve, CurvePoint, Plan
 
 __all__ = [
-    "money_value", "iso", "schedule_rows", "schedule_json", "plan_json", "curve_rows", "curve_json",
-    "best_json", "recovery_json", "instructions", "money", "quality_json",
+    "SCHEDULE_COLUMNS", "REVISED_COLUMNS", "DATE_COLUMNS", "money_value", "iso", "schedule_rows", "schedule_json",
+    "revised_rows", "plan_json", "point_plan", "point_changes", "curve_rows", "curve_json", "total_cost_row",
+    "best_json", "recovery_json", "revised_course_rows", "instructions", "money", "option_note", "days",
+    "plan_activities", "price_json", "quality_json",
 ]
 
 
@@ -96,18 +101,17 @@ def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
     states = sched.states or None
     es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
     ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
-    rows = []
-    for k, r in enumerate(rs):
-        a = acts[r.id]
-        rows.append({
-            "id": r.id, "name": a.name, "trade": a.trade, "calendar": a.calendar or project.calendar.name,
-            "duration": r.duration, "state": r.state,
-            "es": r.es, "ef": r.ef, "ls": r.ls, "lf": r.lf,
-            "early_start": es[k], "early_finish": ef[k], "late_start": ls[k], "late_finish": lf[k],
-            "total_float": r.total_float, "free_float": r.free_float, "critical": r.critical,
-            "driving": list(r.driving),
-        })
-    return rows
+    own = list(map(acts.__getitem__, map(attrgetter("id"), rs)))
+    default = project.calendar.name
+    # column by column, then one dictionary per row (keys in SCHEDULE_COLUMNS order)
+    columns = (
+        map(attrgetter("id"), rs), map(attrgetter("name"), own), map(attrgetter("trade"), own),
+        [a.calendar or default for a in own], map(attrgetter("duration"), rs),
+        map(attrgetter("state"), rs), map(attrgetter("es"), rs), map(attrgetter("ef"), rs),
+        map(attrgetter("ls"), rs), map(attrgetter("lf"), rs), es, ef, ls, lf,
+        map(attrgetter("total_float"), rs), map(attrgetter("free_float"), rs),
+        map(attrgetter("critical"), rs), map(list, map(attrgetter("driving"), rs)))
+    return list(map(dict, map(zip, repeat(SCHEDULE_COLUMNS), zip(*columns))))
 
 
 def schedule_json(project: Project, sched: Schedule) -> dict:
@@ -127,7 +131,61 @@ def schedule_json(project: Project, sched: Schedule) -> dict:
     }
 
 
+def days(n: int) -> str:
+    """``1`` -> ``'1 day'``, ``3`` -> ``'3 days'``."""
+    return f"{n} day" if abs(n) == 1 else f"{n} days"
+
+
+def option_note(project: Project, activity_id: str, option: str) -> str:
+    """The note options.csv gives an activity's option ("" when none)."""
+    if not option:
+        return ""
+    try:
+        act = project.activity(activity_id)
+    except KeyError:
+        return ""
+    return next((o.note for o in act.options if o.name == option), "")
+
+
 # -- plans ---------------------------------------------------------------------------
+#: the columns of a schedule table (``schedule --out``), its dates and those of a revised one
+SCHEDULE_COLUMNS = ("id", "name", "trade", "calendar", "duration", "state", "es", "ef", "ls", "lf",
+                    "early_start", "early_finish", "late_start", "late_finish", "total_float", "free_float",
+                    "critical", "driving")
+REVISED_COLUMNS = ("id", "name", "trade", "calendar", "state", "normal", "duration", "shortened_by", "option",
+                   "option_note", "added_cost", "early_start_before", "early_finish_before", "es", "ef", "ls",
+                   "lf", "early_start", "early_finish", "late_start", "late_finish", "total_float",
+                   "free_float", "critical", "driving")
+DATE_COLUMNS = ("early_start", "early_finish", "late_start", "late_finish", "early_start_before",
+                "early_finish_before", "finish_date")
+
+
+def revised_rows(plan: Plan) -> list[dict]:
+    """The schedule after acceleration: the rows of ``schedule --json`` with the plan's
+    durations, each with its ``normal`` duration, ``shortened_by``, ``option`` (and its note),
+    ``added_cost`` and the first and last day worked before (``early_start_before``,
+    ``early_finish_before``)."""
+    rows = schedule_rows(plan.project, plan.schedule)
+    before = {r["id"]: r for r in schedule_rows(plan.project, plan.before)} if plan.before is not None else {}
+    changes = {a.id: a for a in plan.activities}
+    for r in rows:
+        a = changes[r["id"]]
+        b = before.get(r["id"], {})
+        r.update({"normal": a.normal, "shortened_by": a.shortened_by, "option": a.option or None,
+                  "option_note": a.option_note or None, "added_cost": money_value(a.added_cost),
+                  "early_start_before": b.get("early_start"), "early_finish_before": b.get("early_finish")})
+    return rows
+
+
+def plan_activities(plan: Plan) -> list[dict]:
+    """Every activity of a plan: normal and new duration, days taken off, option, added cost."""
+    return [{"id": a.id, "name": a.name, "trade": a.trade, "calendar": a.calendar,
+             "normal": a.normal, "duration": a.duration, "shortened_by": a.shortened_by,
+             "option": a.option or None, "option_note": a.option_note or None,
+             "added_cost": money_value(a.added_cost)}
+            for a in plan.activities]
+
+
 def plan_json(plan: Plan) -> dict:
     project = plan.project
     return {
@@ -146,42 +204,69 @@ def plan_json(plan: Plan) -> dict:
         "proven_optimal": plan.proven,
         "lower_bound": None if plan.bound is None else money_value(plan.bound),
         "gap": plan.gap,
-        "activities": [{"id": a.id, "name": a.name, "trade": a.trade, "calendar": a.calendar,
-                        "normal": a.normal, "duration": a.duration, "shortened_by": a.shortened_by,
-                        "option": a.option or None, "option_note": a.option_note or None,
-                        "added_cost": money_value(a.added_cost)}
-                       for a in plan.activities],
+        "activities": plan_activities(plan),
         "trades": [{"trade": t.trade, "shortened_by": t.shortened_by,
                     "added_cost": money_value(t.added_cost)} for t in plan.trades],
         "critical_paths": [list(p) for p in plan.schedule.critical_paths],
         "cautions": list(plan.cautions),
         "notes": list(plan.notes),
+        "schedule": revised_rows(plan),
     }
 
 
 # -- the curve -----------------------------------------------------------------------
+def point_plan(p: CurvePoint) -> str:
+    """The plan at a curve point: ``A030 1, A310 2, A120 4 by 'second crew'``."""
+    return ", ".join(f"{i} {d}" + (f" by '{way}'" if way else "") for i, d, way in p.plan) or "none"
+
+
 def point_changes(p: CurvePoint) -> str:
-    """The day-to-day changes of a curve point in words."""
-    text = [f"{i} {d:+d}" for i, d in p.changes]
-    text += [f"{i} now {way or 'normal'}" for i, way in p.switches]
-    return ", ".join(text) + ("" if p.proven else f" [not proven, gap {100 * (p.gap or 0):.1f}%]")
+    """The change from the point one day later, in words a scheduler can act on:
+    ``A410 one day more shortened``, ``A100 back to normal``, ``A120 now by 'second crew'``."""
+    now = {i: (d, way) for i, d, way in p.plan}
+    switched = dict(p.switches)
+    text = []
+    for i, delta in p.changes:
+        if i in switched:
+            continue
+        d, way = now.get(i, (0, ""))
+        if delta < 0:
+            more = -delta
+            text.append(f"{i} shortened {days(d)}" if d == more and not way
+                        else f"{i} {'one day' if more == 1 else days(more)} more shortened")
+        elif d == 0 and not way:
+            text.append(f"{i} back to normal")
+        else:
+            text.append(f"{i} {'one day' if delta == 1 else days(delta)} less shortened")
+    for i, way in p.switches:
+        d, _ = now.get(i, (0, ""))
+        if way:
+            text.append(f"{i} now by '{way}'" + (f", shortened {days(d)}" if d else ""))
+        else:
+            text.append(f"{i} back to the normal way" + (f", shortened {days(d)}" if d else ""))
+    return "; ".join(text) + ("" if p.proven else f" [not proven, gap {100 * (p.gap or 0):.1f}%]")
 
 
 def curve_rows(curve: Curve) -> list[dict]:
     return [{"finish": p.finish, "finish_date": iso(p.finish_date),
              "added_cost": money_value(p.added_cost), "milestone_damages": money_value(p.milestone_damages),
-             "day_cost": money_value(p.day_cost), "changes": point_changes(p)} for p in curve]
+             "day_cost": money_value(p.day_cost), "changes": point_changes(p), "plan": point_plan(p)}
+            for p in curve]
 
 
 def curve_json(curve: Curve) -> dict:
+    project = curve.project
     return {"normal_finish": curve.normal_finish, "shortest_finish": curve.shortest_finish,
             "points": [{"finish": p.finish, "finish_date": iso(p.finish_date),
                         "added_cost": money_value(p.added_cost),
                         "milestone_damages": money_value(p.milestone_damages),
                         "day_cost": money_value(p.day_cost),
-                        "plan": [{"id": i, "shortened_by": d, "option": way or None} for i, d, way in p.plan],
+                        "plan": [{"id": i, "shortened_by": d, "option": way or None,
+                                  "option_note": option_note(project, i, way) or None}
+                                 for i, d, way in p.plan],
                         "changes": [{"id": i, "days": d} for i, d in p.changes],
                         "switches": [{"id": i, "option": way or None} for i, way in p.switches],
+                        "change": point_changes(p),
                         "proven_optimal": p.proven, "gap": p.gap} for p in curve],
             "notes": list(curve.notes)}
 
@@ -221,11 +306,19 @@ def instructions(plan: Plan | None) -> list[str]:
         else:
             how = f"lengthen by {-a.shortened_by} working days"
         verb, rest = how.split(" ", 1)
-        out.append(f"{a.trade or '(no trade)'}: {verb} {what} {rest} at {money(a.added_cost, currency)}")
+        note = f" (option note: {a.option_note})" if a.option and a.option_note else ""
+        out.append(f"{a.trade or '(no trade)'}: {verb} {what} {rest} at {money(a.added_cost, currency)}{note}")
     return out
 
 
+def revised_course_rows(rec: Recovery) -> list[dict]:
+    """The revised schedule of every course that has a plan, one table with a ``course`` column."""
+    return [{"course": c.label, **r} for c in rec.courses if c.plan is not None for r in revised_rows(c.plan)]
+
+
 def recovery_json(rec: Recovery) -> dict:
+    direct = rec.project.normal_direct_cost
+
     def course(c):
         out = {"course": c.label, "possible": c.possible, "note": c.note}
         if c.possible:
@@ -237,7 +330,10 @@ def recovery_json(rec: Recovery) -> dict:
                         "damages_avoided": money_value(c.damages_avoided),
                         "indirect_saved": money_value(c.indirect_saved),
                         "bonus_gained": money_value(c.bonus_gained), "net_effect": money_value(c.net_effect),
-                        "total_cost": money_value(c.total_cost),
+                        # the same sum as best's total_cost: direct (normal + added) + indirect
+                        # + damages - bonus
+                        "direct_cost": money_value(direct + c.added_cost),
+                        "total_cost": money_value(direct + c.total_cost),
                         "instructions": instructions(c.plan),
                         "plan": None if c.plan is None else plan_json(c.plan)})
         return out
@@ -269,4 +365,42 @@ def quality_json(report: QualityReport) -> dict:
                       "threshold": m.limit, "at_least": m.at_least, "items": list(m.items),
                       "fix": m.fix, "note": m.note} for m in report.measures],
         "thresholds": dict(report.thresholds),
+    }
+
+
+# -- a proposal priced ---------------------------------------------------------------
+def price_json(priced: PricedProposal) -> dict:
+    """A priced proposal; ``leanest`` and ``least_cost_plan`` as a plan's ``activities``."""
+    def opt(x):
+        return None if x is None else money_value(x)
+
+    plan = priced.plan
+    return {
+        "project": priced.project.name,
+        "currency": priced.project.currency,
+        "proposal": priced.source or None,
+        "normal_finish": plan.normal_finish,
+        "normal_finish_date": iso(plan.normal_finish_date),
+        "finish": priced.finish,
+        "finish_date": iso(priced.finish_date),
+        "proposal_cost": money_value(priced.proposal_cost),
+        "asked_cost": opt(priced.asked_cost),
+        "least_cost": money_value(priced.least_cost),
+        "excess": money_value(priced.excess),
+        "asked_excess": opt(priced.asked_excess),
+        "milestone_damages": money_value(plan.milestone_damages),
+        "no_effect": list(priced.no_effect),
+        "lines": [{"id": x.id, "name": x.name, "trade": x.trade, "shortened_by": x.shortened_by,
+                   "option": x.option or None, "option_note": x.option_note or None,
+                   "added_cost": money_value(x.added_cost), "asked_cost": opt(x.asked_cost),
+                   "finish_without": x.finish_without, "buys": x.buys(priced.finish)} for x in priced.lines],
+        "leanest": plan_activities(priced.leanest),
+        "leanest_cost": money_value(priced.leanest.added_cost),
+        "least_cost_plan": plan_activities(priced.least_cost_plan),
+        "missed": [{"id": m.id, "name": m.name, "trade": m.trade, "proposed": m.proposed,
+                    "shortened_by": m.shortened_by, "option": m.option or None,
+                    "added_cost": money_value(m.added_cost)} for m in priced.missed],
+        "cautions": list(plan.cautions),
+        "notes": list(priced.notes),
+        "schedule": revised_rows(plan),
     }

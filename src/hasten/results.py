@@ -12,13 +12,16 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from datetime import date
+from functools import cached_property
 from typing import Iterator
 
+from .calendar import CalendarClock
 from .cpm import Schedule
 from .project import Project
-from .time_costs import TimeCosts
+from .time_costs import TimeCosts, time_costs
 
-__all__ = ["ActivityChange", "TradeTotal", "Plan", "CurvePoint", "Curve", "TotalCostPoint", "BestFinish"]
+__all__ = ["ActivityChange", "TradeTotal", "Plan", "CurvePoint", "Curve", "TotalCostPoint", "BestFinish",
+           "Handover"]
 
 
 @dataclass(frozen=True)
@@ -77,6 +80,7 @@ class Plan:
     bound: float | None = None  # proven lower bound on the added cost, when not proven
     gap: float | None = None  # relative gap between the plan and the bound, when not proven
     milestone_damages: float = 0.0
+    before: Schedule | None = None  # the schedule at normal durations (with progress), for old dates
 
     @property
     def normal_direct_cost(self) -> float:
@@ -126,6 +130,20 @@ class Curve:
     def __getitem__(self, k):
         return self.points[k]
 
+    @cached_property
+    def totals(self) -> tuple["TotalCostPoint", ...]:
+        """Direct, indirect, damages and bonus at each point (latest finish first)."""
+        clock = CalendarClock(self.project.calendar, self.project.start)
+        direct = self.project.normal_direct_cost
+        return tuple(TotalCostPoint(p.finish, p.finish_date, direct + p.added_cost, p.added_cost,
+                                    time_costs(self.project, clock, p.finish), p.milestone_damages)
+                     for p in self.points)
+
+    @property
+    def best(self) -> "TotalCostPoint | None":
+        """The point with the least total cost (the later finish on a tie), as ``best`` picks."""
+        return min(self.totals, key=lambda r: (round(r.total_cost, 6), -r.finish), default=None)
+
 
 @dataclass(frozen=True)
 class TotalCostPoint:
@@ -156,3 +174,23 @@ class BestFinish:
     def saving(self) -> float:
         """Total cost saved against the current finish (positive saves money)."""
         return self.current.total_cost - self.point.total_cost
+
+
+@dataclass(frozen=True)
+class Handover:
+    """Everything a report needs: the question, its answer, the plan it comes to, and the
+    least-cost curve with the plan of every finish (for the interactive curve).
+
+    ``kind`` is ``"plan"``, ``"budget"``, ``"best"``, ``"recover"`` or ``"price"``; ``answer`` is a
+    :class:`Plan`, :class:`BestFinish`, :class:`~hasten.recovery.Recovery` or
+    :class:`~hasten.price.PricedProposal`; ``plan`` the plan the answer comes to (for recovery
+    the least-total-cost course's, for a proposal the proposal applied), or ``None``.
+    """
+
+    project: Project
+    kind: str
+    question: str  # the question in words
+    answer: object
+    plan: Plan | None
+    curve: Curve
+    notes: tuple[str, ...] = ()

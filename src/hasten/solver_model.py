@@ -50,10 +50,13 @@ def available_solver(prefer: str | None = None) -> str:
     """``"highs"`` when highspy imports, else ``"cbc"`` when PuLP's CBC runs, else an error."""
     if prefer not in (None, "highs", "cbc"):
         raise SolverError(f"unknown solver {prefer!r}; use highs or cbc")
-    from . import solver_cbc, solver_highs  # the solver libraries load on first use
+    if prefer != "cbc":  # the solver libraries load on first use, PuLP only if it is needed
+        from . import solver_highs
 
-    if prefer != "cbc" and solver_highs.AVAILABLE:
-        return "highs"
+        if solver_highs.AVAILABLE:
+            return "highs"
+    from . import solver_cbc
+
     if solver_cbc.available():
         return "cbc"
     raise SolverError("no solver can run here: install highspy (pip install highspy), "

@@ -23,6 +23,18 @@ Progress and date columns (all optional):
 (``[calendars.NAME]``), on whose working days the activity is worked. An empty cell means
 the project calendar; an undefined name is refused.
 
+Labour columns (all optional), from which acceleration options are built
+(:mod:`hasten.crew_options`):
+
+* ``labour_hours``: work-hours left at normal productivity (0 or more). Given, it makes the
+  row's crew data, and then ``crew_size`` (workers in one crew, at least 1) is required;
+  ``wage`` (straight-time rate per hour, more than 0; empty: the trade's rate under
+  ``[labour.wages]``), ``max_crews`` (crews the area takes at once, at least 1, default 1)
+  and ``equipment_per_day`` (plant cost per working day, default 0) are optional. Any of
+  them without ``labour_hours`` is refused.
+* ``min_duration``: the physical minimum in working days (curing, lead times), with or
+  without crew data: at most the duration, and no crash duration below it.
+
 ``optimistic`` and ``pessimistic`` (optional columns, whole working days): the activity's
 own range of durations (see :mod:`hasten.formats.risk`).
 """
@@ -32,17 +44,23 @@ from __future__ import annotations
 import difflib
 import re
 from collections.abc import Sequence
-from dataclasses import dataclass
+from itertools import repeat
+from operator import attrgetter
+from typing import NamedTuple
+from dataclasses import replace
 from datetime import date
 
 from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
                                   whole_value)
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
-                                    PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS, cell_ref,
-                                    check_columns, optional, required)
+                                    LABOUR_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS,
+                                    cell_ref, check_columns, optional, required)
+from hasten.formats.instances import instance, plain_defaults
+from hasten.formats.quick import quick_activities
 from hasten.formats.risk import range_cells
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
+from hasten.labour import CrewData
 from hasten.project import Activity
 
 __all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars", "percent_notes"]
@@ -50,12 +68,19 @@ __all__ = ["ActivityRow", "activity_rows", "check_progress", "check_calendars", 
 _ID_FORBIDDEN = re.compile(r"[\s;:,]")  # \s is exactly what str.isspace() calls a space
 
 
-@dataclass(frozen=True)
-class ActivityRow:
-    """An activity as read from one row, before crash steps are attached."""
+class ActivityRow(NamedTuple):
+    """An activity as read from one row, before crash steps are attached: the activity, the
+    table's source and the row's number (a named tuple, as one is made per row; its place
+    is built when asked for, which is mostly for a message)."""
 
     activity: Activity
-    where: CellRef
+    source: str
+    line: int
+
+    @property
+    def where(self) -> CellRef:
+        """The row's place."""
+        return CellRef(self.source, self.line)
 
 
 def _activity_id(text: str, where: CellRef) -> str:
@@ -70,6 +95,23 @@ def _activity_id(text: str, where: CellRef) -> str:
 _PLAIN_ID = re.compile(r"[A-Za-z0-9_.\-]+")
 _PLAIN_DAYS = re.compile(r"[0-9]{1,6}")  # at most 999,999: within WHOLE_LIMIT
 _PLAIN_MONEY = re.compile(r"[0-9]{1,15}(?:\.[0-9]{1,15})?")
+
+
+#: An activity's fields at their defaults, for :func:`_new_activity` (None: use Activity())
+_DEFAULTS = plain_defaults(Activity, ("id", "duration"))
+
+
+def _new_activity(ident: str, duration: int, name: str, trade: str, crash_duration: int | None,
+                  cost: float, crash_cost: float | None) -> Activity:
+    """``Activity(id=ident, duration=duration, ...)`` with the other fields at their
+    defaults, three times faster than the constructor (see :mod:`hasten.formats.instances`)."""
+    if _DEFAULTS is None:  # pragma: no cover - Activity as it is today takes the dictionary
+        return Activity(id=ident, duration=duration, name=name, trade=trade,
+                        crash_duration=crash_duration, cost=cost, crash_cost=crash_cost)
+    values = _DEFAULTS.copy()
+    values.update(id=ident, duration=duration, name=name, trade=trade,
+                  crash_duration=crash_duration, cost=cost, crash_cost=crash_cost)
+    return instance(Activity, values)
 
 
 def _plain_activity(cells) -> Activity | None:
@@ -97,8 +139,7 @@ def _plain_activity(cells) -> Activity | None:
     crash_money = float(crash_cost) if crash_cost else None
     if (c is not None and c > d) or (crash_money is not None and crash_money < money):
         return None
-    return Activity(id=ident, duration=d, name=name, trade=trade, crash_duration=c, cost=money,
-                    crash_cost=crash_money)
+    return _new_activity(ident, d, name, trade, c, money, crash_money)
 
 
 def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
@@ -135,6 +176,47 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
         **(_progress(row, table, duration) if with_progress else {}),
         **range_cells(row, table, duration),
     )
+
+
+def _at_least_one(text: str, where: CellRef) -> int:
+    return whole_value(text, where, minimum=1, unit="crews or workers")
+
+
+def _labour(row: Row, table: Table, activity: Activity) -> Activity:
+    """The activity with the physical minimum and the crew data of its row."""
+    minimum = optional(row, table, "min_duration", whole_value, 0)
+    if minimum > activity.duration:
+        raise cell_ref(row, table, "min_duration").error(
+            f"the physical minimum is longer than the duration ({activity.duration})",
+            row.cells["min_duration"],
+            f"write {activity.duration} or less, or raise the duration")
+    if activity.crash_duration is not None and activity.crash_duration < minimum:
+        raise cell_ref(row, table, "crash_duration").error(
+            f"the crash duration is below the physical minimum (min_duration {minimum})",
+            row.cells["crash_duration"],
+            f"write a crash duration of {minimum} or more, or lower min_duration")
+    hours = optional(row, table, "labour_hours", number_value)
+    if hours is None:
+        given = next((c for c in LABOUR_COLUMNS[1:-1] if row.cells.get(c)), None)
+        if given is not None:
+            raise cell_ref(row, table, given).error(
+                "crew data without labour hours", row.cells[given],
+                "write the work-hours left at normal productivity in labour_hours, or clear "
+                "this cell")
+        return replace(activity, min_duration=minimum) if minimum else activity
+    if hours > 0 and activity.is_milestone:
+        raise cell_ref(row, table, "labour_hours").error(
+            "a milestone (duration 0) has no work to do", row.cells["labour_hours"],
+            "clear the labour data, or give the activity its normal duration")
+    crew = CrewData(
+        labour_hours=hours,
+        crew_size=required(row, table, "crew_size", _at_least_one,
+                           "the number of workers in one crew, e.g. 4"),
+        wage=optional(row, table, "wage", number_value),
+        max_crews=optional(row, table, "max_crews", _at_least_one, 1),
+        equipment_per_day=optional(row, table, "equipment_per_day", number_value, 0.0),
+        trade=activity.trade, file=table.source, row=row.line)
+    return replace(activity, min_duration=minimum, crew=crew)
 
 
 def _percent(text: str, where: CellRef) -> float:
@@ -259,8 +341,18 @@ def activity_rows(table: Table) -> list[ActivityRow]:
             f"add a header row ({', '.join(PLAN_COLUMNS)}) and one row per activity")
     check_columns(table, ACTIVITY_COLUMNS, ACTIVITY_REQUIRED)
     with_progress = any(column in table.columns for column in PROGRESS_COLUMNS)
-    rows = [ActivityRow(_activity(r, table, with_progress), CellRef(table.source, r.line))
-            for r in table.rows]
+    source = table.source
+    quick = None if with_progress else quick_activities(table)
+    if quick is not None:
+        rows = list(map(ActivityRow, quick, repeat(source), map(attrgetter("line"), table.rows)))
+    else:
+        rows = [ActivityRow(_activity(r, table, with_progress), source, r.line)
+                for r in table.rows]
+    if any(column in table.columns for column in LABOUR_COLUMNS):
+        rows = [ActivityRow(_labour(r, table, row.activity), source, row.line)
+                for r, row in zip(table.rows, rows)]
+    if len({row.activity.id for row in rows}) == len(rows):
+        return rows
     first: dict[str, ActivityRow] = {}
     for row in rows:
         ident = row.activity.id

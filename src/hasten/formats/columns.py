@@ -22,6 +22,7 @@ __all__ = [
     "PROGRESS_COLUMNS",
     "CALENDAR_COLUMN",
     "RISK_COLUMNS",
+    "LABOUR_COLUMNS",
     "ACTIVITY_COLUMNS",
     "ACTIVITY_REQUIRED",
     "LINK_COLUMNS",
@@ -43,8 +44,10 @@ PLAN_COLUMNS = ("id", "name", "trade", "duration", "crash_duration", "cost", "cr
 PROGRESS_COLUMNS = ("actual_start", "actual_finish", "remaining", "percent_complete",
                     "not_before", "deadline", "damages_per_day")
 CALENDAR_COLUMN = "calendar"
+LABOUR_COLUMNS = ("labour_hours", "crew_size", "wage", "max_crews", "equipment_per_day",
+                  "min_duration")
 RISK_COLUMNS = ("optimistic", "pessimistic")  # duration ranges (hasten.formats.risk)
-ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + RISK_COLUMNS
+ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS + RISK_COLUMNS
 ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")

@@ -13,6 +13,10 @@ Canonical choices:
   (always written, ``[]`` for none, so that reading back does not give the project's
   holidays), in the project's order; the ``calendar`` column is written after the progress
   columns only when some activity names a calendar, empty for the project calendar;
+* the labour columns (``labour_hours`` ... ``min_duration``) come last, each only when some
+  activity has a value in it: an activity's crew data in full (``max_crews`` and
+  ``equipment_per_day`` too, a ``wage`` of None empty), ``min_duration`` empty when 0;
+  labour rules go into ``labour.*`` with every key (None as ``none``) and the wages;
 * the ``optimistic`` and ``pessimistic`` columns come last, each only when some activity
   has a value in it; the ``[risk]`` section (``risk.*`` keys) is written when given, with
   its distribution whenever some range is given;
@@ -32,8 +36,8 @@ from collections.abc import Mapping
 from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
-from hasten.formats.columns import (CALENDAR_COLUMN, LINK_COLUMNS, OPTION_COLUMNS, PLAN_COLUMNS,
-                                  PROGRESS_COLUMNS, RISK_COLUMNS, STEP_COLUMNS)
+from hasten.formats.columns import (CALENDAR_COLUMN, LABOUR_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS,
+                                    PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
 from hasten.project import Activity, Link, Option, Project
@@ -58,11 +62,11 @@ class Document:
 
     @property
     def activity_columns(self) -> tuple[str, ...]:
-        """The columns to write: the plan columns, then the progress columns and the calendar
-        column in use."""
+        """The columns to write: the plan columns, then the progress columns, the calendar
+        column and the labour columns in use."""
         used = {key for record in self.activities for key in record}
-        return PLAN_COLUMNS + tuple(c for c in PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + RISK_COLUMNS
-                                    if c in used)
+        optional = PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS + RISK_COLUMNS
+        return PLAN_COLUMNS + tuple(c for c in optional if c in used)
 
 
 def _in_reading_order(project: Project) -> bool:
@@ -85,6 +89,18 @@ def _progress_cells(activity: Activity) -> dict[str, object]:
         # 0 is the default and reads back from an empty cell
         "damages_per_day": _plain(activity.damages_per_day) or None,
     }
+
+
+def _labour_cells(activity: Activity) -> dict[str, object]:
+    """The labour cells of one activity (None = empty)."""
+    crew = activity.crew
+    cells: dict[str, object] = dict.fromkeys(LABOUR_COLUMNS)
+    if crew is not None:
+        cells.update(labour_hours=_plain(crew.labour_hours), crew_size=crew.crew_size,
+                     wage=_plain(crew.wage), max_crews=crew.max_crews,
+                     equipment_per_day=_plain(crew.equipment_per_day))
+    cells["min_duration"] = activity.min_duration or None
+    return cells
 
 
 def _activity_row(activity: Activity, links: list[Link]) -> dict[str, object]:
@@ -131,13 +147,16 @@ def to_document(project: Project) -> Document:
     progress = [_progress_cells(a) for a in project.activities]
     used = [c for c in PROGRESS_COLUMNS if any(cells[c] is not None for cells in progress)]
     calendars = any(a.calendar for a in project.activities)
+    labour = [_labour_cells(a) for a in project.activities]
+    crews = [c for c in LABOUR_COLUMNS if any(cells[c] is not None for cells in labour)]
     ranges = [c for c in RISK_COLUMNS if any(getattr(a, c) is not None for a in project.activities)]
     return Document(
         settings=settings,
         activities=[_activity_row(a, incoming.get(a.id, [])) | {c: cells[c] for c in used}
                     | ({CALENDAR_COLUMN: a.calendar or None} if calendars else {})
+                    | {c: own[c] for c in crews}
                     | {c: getattr(a, c) for c in ranges}
-                    for a, cells in zip(project.activities, progress)],
+                    for a, cells, own in zip(project.activities, progress, labour)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}
                      for a in project.activities for s in a.steps],

@@ -10,6 +10,7 @@ order (:func:`hasten.graph.find_cycle`, the one cycle finder of the package).
 from __future__ import annotations
 
 from collections.abc import Sequence
+from operator import lt
 from typing import NamedTuple
 
 from hasten.errors import CycleError
@@ -73,6 +74,10 @@ def table_links(table: Table | None) -> list[LinkSpec]:
 def resolve_links(specs: list[LinkSpec], ids: Sequence[str]) -> dict[tuple, LinkSpec]:
     """Check ids, self-links and duplicates; the result keeps the given order."""
     known = set(ids)
+    keys = [(spec.link.pred, spec.link.succ, spec.link.type) for spec in specs]
+    if (known.issuperset(key[0] for key in keys) and known.issuperset(key[1] for key in keys)
+            and all(key[0] != key[1] for key in keys) and len(set(keys)) == len(keys)):
+        return dict(zip(keys, specs))  # every id known, no self-link, no link twice
     seen: dict[tuple, LinkSpec] = {}
     for spec in specs:
         link = spec.link
@@ -94,8 +99,10 @@ def resolve_links(specs: list[LinkSpec], ids: Sequence[str]) -> dict[tuple, Link
     return seen
 
 
-def check_acyclic(links: dict[tuple, LinkSpec], ids: Sequence[str]) -> None:
-    """Refuse loops in the link graph, naming the ids around the loop in order.
+def check_acyclic(links: dict[tuple, LinkSpec], ids: Sequence[str]) -> tuple[list[int], list[int]]:
+    """Refuse loops in the link graph, naming the ids around the loop in order; return the
+    positions in ``ids`` of each link's predecessor and successor (for
+    :func:`hasten.formats.reach.check_reach`).
 
     When every link goes from an activity to one further down the table there can be no
     loop (a loop would have to lead back up), which is how most schedules are written and
@@ -105,13 +112,13 @@ def check_acyclic(links: dict[tuple, LinkSpec], ids: Sequence[str]) -> None:
     position = {ident: i for i, ident in enumerate(ids)}
     pred = [position[p] for p, _, _ in links]
     succ = [position[s] for _, s, _ in links]
-    if all(p < s for p, s in zip(pred, succ)):
-        return
+    if all(map(lt, pred, succ)):
+        return pred, succ
     from hasten.graph import find_cycle  # numpy: imported only when a link points up
 
     loop = find_cycle(len(ids), pred, succ)
     if loop is None:
-        return
+        return pred, succ
     specs = list(links.values())
     files = dict.fromkeys(specs[e].where.file for e in loop)
     raise CycleError([specs[e].link.pred for e in loop], file=" and ".join(files))

@@ -17,6 +17,7 @@ from hasten.formats.activities import (activity_rows, check_calendars, check_pro
                                        percent_notes)
 from hasten.formats.cells import one_line_errors
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
+from hasten.formats.quick import quick_links
 from hasten.formats.reach import check_reach
 from hasten.formats.risk import check_risk_trades
 from hasten.formats.settings import parse_settings
@@ -46,29 +47,48 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     check_risk_trades([r.activity.trade for r in rows], settings.risk, tables.settings)
     by_id = {r.activity.id: r for r in rows}
     ids = list(by_id)
-    links = resolve_links(column_links(tables.activities) + table_links(tables.links), ids)
+    quick = (quick_links(tables.activities, ids)
+             if tables.links is None or not tables.links.rows else None)
+    if quick is None:
+        links = resolve_links(column_links(tables.activities) + table_links(tables.links), ids)
     steps = step_rows(tables.crash_steps, by_id)
     options = option_rows(tables.options, by_id)
-    activities = tuple(
-        with_options(with_steps(r, steps.get(r.activity.id, [])), options.get(r.activity.id))
-        for r in rows)
-    check_acyclic(links, ids)
+    if steps or options:
+        activities = tuple(
+            with_options(with_steps(r, steps.get(r.activity.id, [])), options.get(r.activity.id))
+            for r in rows)
+    else:  # the same, quicker: only an activity without a crash cost has anything to check
+        activities = tuple(r.activity for r in rows)
+        for r in rows:
+            if r.activity.crash_cost is None:
+                with_steps(r, [])
+    if quick is None:
+        positions = check_acyclic(links, ids)
+        project_links = tuple(spec.link for spec in links.values())
+    else:  # valid and without a loop: the places are found again only for a message
+        project_links, positions = tuple(quick[0]), quick[1:]
+        links = None
     project = Project(
         name=settings.name,
         start=settings.start,
         activities=activities,
-        links=tuple(spec.link for spec in links.values()),
+        links=project_links,
         calendar=settings.calendar,
         currency=settings.currency,
         costs=settings.costs,
         contract=settings.contract,
         data_date=settings.data_date,
         calendars=settings.calendars,
+        labour=settings.labour,
         risk=settings.risk,
     )
-    check_reach(project, {r.activity.id: r.where for r in rows},
-                [s.succ_where.at("lag") if s.succ_where else s.where for s in links.values()],
-                tables.settings.where)
+
+    def places():
+        specs = links if links is not None else resolve_links(column_links(tables.activities), ids)
+        return ({r.activity.id: r.where for r in rows},
+                [s.succ_where.at("lag") if s.succ_where else s.where for s in specs.values()])
+
+    check_reach(project, places, tables.settings.where, positions)
     notes = []
     if "percent_complete" in tables.activities.columns:
         notes += percent_notes(tables.activities)

@@ -9,10 +9,12 @@ from __future__ import annotations
 
 import re
 
+from hasten.errors import InputError
 from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, one_line_errors, shortened
 from hasten.project import LinkType
 
-__all__ = ["parse_predecessors", "parse_predecessor_items", "link_type", "LINK_TYPE_FIX"]
+__all__ = ["parse_predecessors", "parse_predecessor_items", "known_type_and_lag", "link_type",
+           "LINK_TYPE_FIX"]
 
 _TYPE_AND_LAG = re.compile(r"\s*([A-Za-z]+)\s*(?:([+-])\s*(\S.*?))?\s*")
 _WHOLE = re.compile(r"\d+")
@@ -54,6 +56,20 @@ def _type_and_lag(text: str, item: str, where: CellRef) -> tuple[LinkType, int]:
 #: type-and-lag texts already read (``"SS+2"``), a few distinct ones in any project;
 #: only texts that read without error are kept
 _known: dict[str, tuple[LinkType, int]] = {}
+
+
+def known_type_and_lag(text: str) -> tuple[LinkType, int] | None:
+    """The type and lag of ``text`` (the part after the colon, ``SS+2``), or ``None`` when
+    it does not read (:func:`parse_predecessor_items` then says why)."""
+    found = _known.get(text)
+    if found is None:
+        try:
+            found = _type_and_lag(text, text, CellRef(None))
+        except InputError:
+            return None
+        if len(_known) < 1024:
+            _known[text] = found
+    return found
 
 
 def parse_predecessor_items(text: str, where: CellRef) -> list[tuple[str, tuple[str, LinkType, int]]]:

@@ -19,6 +19,7 @@ year 9999 are ever near the bound.
 from __future__ import annotations
 
 import math
+from operator import add, le, lt
 from collections.abc import Callable, Mapping, Sequence
 from datetime import date
 
@@ -48,25 +49,36 @@ def _work(activity: Activity) -> tuple[int, str]:
     return activity.longest, "duration"
 
 
-def check_reach(project: Project, activity_where: Mapping[str, CellRef],
-                link_where: Sequence[CellRef], setting_where: Callable[[str], CellRef]) -> None:
+Places = tuple[Mapping[str, CellRef], Sequence[CellRef]]
+
+
+def check_reach(project: Project, places: Callable[[], Places],
+                setting_where: Callable[[str], CellRef],
+                positions: tuple[Sequence[int], Sequence[int]] | None = None) -> None:
     """Refuse ``project`` if its work could run past :data:`LAST_DATE`.
 
-    ``activity_where`` gives each activity's row, ``link_where`` each link's cell (in the
-    order of ``project.links``) and ``setting_where`` a setting's place, for the message.
+    ``places()`` gives each activity's row (by id) and each link's cell (in the order of
+    ``project.links``), and ``setting_where`` a setting's place, for the message (they are
+    asked for only then). ``positions``, when the caller has them, are the positions in
+    ``project.activities`` of each link's predecessor and successor.
     """
     calendars = {"": project.calendar} | {c.name: c for c in project.calendars}
     slack = 7 + 7 * sum(len(c.holidays) for c in calendars.values())
     limit = LAST_DATE.toordinal() - slack
     floor = max(project.start, project.data_date or project.start)
-    latest = max([floor] + [a.not_before for a in project.activities if a.not_before])
-    # the usual case at once: every activity and link one after another stays in reach
-    # (span(n) <= 7 n / k + 14 for the calendar with the fewest working days k)
-    slowest = max(min(len(c.workdays) for c in calendars.values()), 1)
-    days = sum(_work(a)[0] for a in project.activities) + sum(max(k.lag, 0) for k in project.links)
-    if (latest.toordinal() + 7 * days // slowest + 7 + 14 * len(project.activities)
-            + 21 * len(project.links)) <= limit:
+    bound = _latest_finish(project, calendars, floor, positions)
+    if bound is not None and bound <= limit:
         return
+    if bound is None:
+        latest = max([floor] + [a.not_before for a in project.activities if a.not_before])
+        # the usual case at once: every activity and link one after another stays in reach
+        # (span(n) <= 7 n / k + 14 for the calendar with the fewest working days k)
+        slowest = max(min(len(c.workdays) for c in calendars.values()), 1)
+        days = (sum(_work(a)[0] for a in project.activities)
+                + sum(max(k.lag, 0) for k in project.links))
+        if (latest.toordinal() + 7 * days // slowest + 7 + 14 * len(project.activities)
+                + 21 * len(project.links)) <= limit:
+            return
     calendar_of = {a.id: calendars.get(a.calendar, project.calendar) for a in project.activities}
     work = {a.id: _span(_work(a)[0], calendar_of[a.id]) for a in project.activities}
     base = {a.id: max(floor, a.not_before or floor).toordinal() for a in project.activities}
@@ -76,8 +88,52 @@ def check_reach(project: Project, activity_where: Mapping[str, CellRef],
     worst = max(finish, key=finish.get)
     if finish[worst] <= limit:
         return
+    activity_where, link_where = places()
     raise _error(project, worst, came_from, work, lags, finish[worst] + slack,
                  activity_where, link_where, setting_where)
+
+
+def _latest_finish(project: Project, calendars: Mapping[str, Calendar], floor: date,
+                   positions: tuple[Sequence[int], Sequence[int]] | None = None) -> int | None:
+    """The latest finish bound over all activities (a date ordinal), the same number
+    :func:`_longest` finds, by one pass over lists of positions; ``None`` when some link
+    points from an activity to one further up the table (then :func:`_longest` decides).
+
+    Links that all point down the table are taken in the order of their successor's
+    position: every link into an activity then comes before every link out of it. This
+    is how most schedules are written, and takes a tenth of the time of :func:`_longest`.
+    """
+    activities, links = project.activities, project.links
+    if positions is None:
+        position = {a.id: i for i, a in enumerate(activities)}
+        positions = [position[link.pred] for link in links], [position[link.succ] for link in links]
+    preds, succs = positions
+    if not all(map(lt, preds, succs)):
+        return None
+    work = [0 if a.actual_finish is not None
+            else a.remaining if a.actual_start is not None and a.remaining is not None
+            else a.longest if a.options else a.duration
+            for a in activities]
+    if any(a.calendar for a in activities):
+        days = [max(len(calendars.get(a.calendar, project.calendar).workdays), 1)
+                for a in activities]
+    else:
+        days = [max(len(project.calendar.workdays), 1)] * len(activities)
+    spans = [-(-w // k) * 7 + 7 if w > 0 else 0 for w, k in zip(work, days)]
+    first = floor.toordinal()
+    start = [max(floor, a.not_before).toordinal() if a.not_before else first
+             for a in activities]
+    lags = [-(-link.lag // days[s]) * 7 + 14 if link.lag > 0 else 7
+            for link, s in zip(links, succs)]
+    order = range(len(links))
+    if not all(map(le, succs, succs[1:])):
+        order = sorted(order, key=succs.__getitem__)
+    for e in order:
+        p, s = preds[e], succs[e]
+        reach = start[p] + spans[p] + lags[e]
+        if reach > start[s]:
+            start[s] = reach
+    return max(map(add, start, spans), default=first)
 
 
 def _longest(project: Project, base: dict[str, int], work: dict[str, int],

@@ -112,7 +112,8 @@ def read_research(path: str | os.PathLike[str]) -> Project:
         calendar=Calendar(NAMED_CALENDARS["all-days"], (), "all-days"),
         currency="",
     )
-    check_reach(project, {ident: CellRef(str(path), line) for ident, line in lines.items()},
-                [CellRef(str(path))] * len(project.links), lambda key: CellRef(str(path)))
+    check_reach(project, lambda: ({ident: CellRef(str(path), line) for ident, line in lines.items()},
+                                  [CellRef(str(path))] * len(project.links)),
+                lambda key: CellRef(str(path)))
     return project
 

@@ -31,9 +31,12 @@ from dataclasses import dataclass
 from datetime import date
 
 from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
+from hasten.formats.labour import (LABOUR, LABOUR_KEYS, check_labour_key, flatten_labour,
+                                   labour_values, parse_labour)
 from hasten.formats.risk import (RISK, check_risk_key, flatten_risk, is_risk_key, nest_key, parse_risk,
                                  risk_values)
 from hasten.formats.tables import Settings
+from hasten.labour import LabourRules
 from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project, Risk
 
 __all__ = [
@@ -84,6 +87,7 @@ class ProjectSettings:
     contract: Contract
     data_date: date | None = None
     calendars: tuple[Calendar, ...] = ()
+    labour: LabourRules | None = None
     risk: Risk = Risk()
 
 
@@ -119,6 +123,8 @@ def flatten(nested: Mapping[str, object], where: CellRef) -> dict[str, object]:
             flat.update(_flatten_calendars(value, where))
         elif key == RISK:
             flat.update(flatten_risk(value, where))
+        elif key == LABOUR:
+            flat.update(flatten_labour(value, where))
         elif key in SECTIONS:
             if not isinstance(value, Mapping):
                 raise where.at(key).error(f"'{key}' must be a section of keys", value,
@@ -181,10 +187,15 @@ def _check_keys(settings: Settings) -> None:
         if is_risk_key(key):
             check_risk_key(settings, key)
             continue
-        close = difflib.get_close_matches(key, SETTING_KEYS, n=1)
+        if key.startswith(f"{LABOUR}."):
+            check_labour_key(settings, key)
+            continue
+        close = difflib.get_close_matches(
+            key, SETTING_KEYS + tuple(f"{LABOUR}.{k}" for k in LABOUR_KEYS), n=1)
         hint = f"did you mean '{close[0]}'? " if close else ""
-        raise settings.where(key).error("unknown key", key,
-                                        f"{hint}allowed keys: {', '.join(SETTING_KEYS)}")
+        raise settings.where(key).error(
+            "unknown key", key, f"{hint}allowed keys: {', '.join(SETTING_KEYS)}, and the "
+                                f"sections {CALENDARS}.NAME, {LABOUR} and {RISK}")
     for key in REQUIRED_KEYS:
         if _given(settings, key) is None:
             raise CellRef(settings.source, None, key).error(
@@ -303,6 +314,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
         ),
         data_date=data_date,
         calendars=parse_calendars(settings, holidays),
+        labour=parse_labour(settings),
         risk=parse_risk(settings),
     )
 
@@ -351,5 +363,5 @@ def settings_values(project: Project) -> dict[str, object]:
         "contract.bonus_cap_days": project.contract.bonus_cap_days,
         "status.data_date": project.data_date,
     }
-    return ({k: v for k, v in values.items() if v is not None} | _calendars_values(project.calendars)
-            | risk_values(project))
+    given = {k: v for k, v in values.items() if v is not None}
+    return given | _calendars_values(project.calendars) | labour_values(project.labour) | risk_values(project)

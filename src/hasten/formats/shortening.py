@@ -83,6 +83,12 @@ def _check_steps(row: ActivityRow, steps: list[_StepRow]) -> None:
             f"{activity.duration} ({place(row.where)})", steps[-1].step.days,
             f"make the step days add up to at most {activity.duration}")
     shortest = activity.duration - total
+    if shortest < activity.min_duration:
+        raise steps[-1].where.at("days").error(
+            f"the steps of '{activity.id}' take it to {shortest} days, below its physical "
+            f"minimum (min_duration {activity.min_duration} at {place(row.where)})",
+            steps[-1].step.days,
+            f"make the step days add up to at most {activity.duration - activity.min_duration}")
     if activity.crash_duration is not None and activity.crash_duration != shortest:
         raise row.where.at("crash_duration").error(
             f"the crash duration does not match the crash steps of '{activity.id}' "
@@ -166,6 +172,14 @@ def option_rows(table: Table | None,
                 "other way of being done", ident,
                 "remove this option, or give the activity its normal duration")
         option = _option(row, table)
+        floor = owner.activity.min_duration
+        for column, days in (("duration", option.duration),
+                             ("crash_duration", option.crash_duration)):
+            if days is not None and days < floor:
+                raise cell_ref(row, table, column).error(
+                    f"the option takes '{ident}' below its physical minimum (min_duration "
+                    f"{floor} at {place(owner.where)})", row.cells[column],
+                    f"write {floor} or more, or lower min_duration")
         group = groups.setdefault(ident, [])
         for other in group:
             if other.option.name == option.name:

@@ -13,8 +13,8 @@ from dataclasses import dataclass, field
 
 from hasten.formats.cells import CellRef, cell_text, clean_text
 
-__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "table_from_grid",
-           "table_from_records"]
+__all__ = ["Row", "Table", "Settings", "Tables", "RepeatedKeys", "column_names",
+           "table_from_grid", "table_from_records"]
 
 
 @dataclass(frozen=True)
@@ -87,7 +87,7 @@ def _is_blank(cells: Sequence[object]) -> bool:
     return not any(map(_has_text, cells))
 
 
-def _header(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
+def column_names(source: str, line: int, cells: Sequence[object]) -> tuple[str, ...]:
     """Normalised column names; duplicates are refused."""
     names = tuple(cell_text(c).strip().lower() for c in cells)
     for i, name in enumerate(names):
@@ -129,16 +129,31 @@ def table_from_grid(source: str, lines: Iterable[tuple[int, Sequence[object]]]) 
 
     Blank rows are skipped but keep their row numbers; a grid without any non-blank row
     gives an empty table (no columns).
+
+    A row of text cells (every CSV row) is looked at once as one joined text: blank when
+    that is only white space, and, without a carriage return in it and with one cell under
+    each named column, its cells are simply stripped (what :func:`_cell_value` does to such
+    a cell). Other rows (sheet cells holding numbers or dates) take :func:`_row`.
     """
-    header_line, names, rows, all_named = None, (), [], False
+    header_line, names, rows, all_named, width = None, (), [], False, -1
+    strip, append = str.strip, rows.append
     for line, cells in lines:
-        if _is_blank(cells):
+        try:
+            joined = "".join(cells)
+        except TypeError:  # not all text: a sheet row
+            joined = None
+        if joined is not None and "\r" not in joined and len(cells) == width:
+            if joined.strip():
+                append(Row(line, dict(zip(names, map(strip, cells)))))
+            continue
+        if (not joined.strip()) if joined is not None else _is_blank(cells):
             continue
         if header_line is None:
-            header_line, names = line, _header(source, line, cells)
+            header_line, names = line, column_names(source, line, cells)
             all_named = all(names)
+            width = len(names) if all_named else -1
         else:
-            rows.append(_row(source, line, names, cells, all_named))
+            append(_row(source, line, names, cells, all_named))
     columns = tuple(n for n in names if n)
     return Table(source, columns, tuple(rows), header_line)
 

@@ -1,0 +1,158 @@
+"""The quick path for large plain tables: activities and their predecessors column read
+column by column.
+
+Each function here either gives exactly what the full path (:mod:`hasten.formats.activities`,
+:mod:`hasten.formats.links`) gives for the same table, or ``None`` when anything in it is not
+in its plainest form; the full path then reads the table and says what, if anything, is
+wrong. Whole columns are checked at once (one pattern over a column's cells joined by line
+breaks), numbers converted with ``map`` and the objects made by
+:func:`hasten.formats.instances.instances`, so that no Python-level code runs per cell.
+Reading a project of 50,000 activities and 100,000 links spends most of its time here.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Sequence
+from itertools import repeat
+from operator import add, attrgetter, gt, itemgetter, lt, mul
+
+from hasten.formats.columns import PLAN_COLUMNS
+from hasten.formats.instances import instances, plain_defaults
+from hasten.formats.predecessors import COLUMN as PREDECESSORS, known_type_and_lag
+from hasten.formats.tables import Table
+from hasten.project import Activity, Link, LinkType
+
+__all__ = ["quick_activities", "quick_links"]
+
+# the patterns of hasten.formats.activities._plain_activity, over a whole column
+_ID = r"[A-Za-z0-9_.\-]+"
+_DAYS = r"[0-9]{1,6}"
+_MONEY = r"[0-9]{1,15}(?:\.[0-9]{1,15})?"
+_IDS = re.compile(rf"{_ID}(?:\n{_ID})*")
+_ALL_DAYS = re.compile(rf"{_DAYS}(?:\n{_DAYS})*")
+_SOME_DAYS = re.compile(rf"(?:{_DAYS})?(?:\n(?:{_DAYS})?)*")
+_SOME_MONEY = re.compile(rf"(?:{_MONEY})?(?:\n(?:{_MONEY})?)*")
+
+_ACTIVITY = plain_defaults(Activity, ("id", "duration"))
+_GIVEN = ("id", "duration", "name", "trade", "crash_duration", "cost", "crash_cost")
+_LINK = plain_defaults(Link, ("pred", "succ"))
+
+
+def _columns(table: Table, names: Sequence[str]) -> list[Sequence[str]]:
+    """The cells of each column in ``names``, top to bottom ("" for a column the table
+    lacks; every row holds every column of its table)."""
+    given = [name for name in names if name in table.columns]
+    if not given:
+        return [[""] * len(table.rows) for _ in names]
+    cells = map(attrgetter("cells"), table.rows)
+    found = dict(zip(given, zip(*map(itemgetter(*given), cells)) if len(given) > 1
+                     else [list(map(itemgetter(given[0]), cells))]))
+    empty = [""] * len(table.rows)
+    return [found.get(name, empty) for name in names]
+
+
+def _every(pattern: re.Pattern, column: list[str]) -> bool:
+    """Every cell of ``column`` matches ``pattern`` (written for cells joined by line
+    breaks), and none holds a line break of its own."""
+    text = "\n".join(column)
+    return text.count("\n") == len(column) - 1 and pattern.fullmatch(text) is not None
+
+
+def _plain_text(column: list[str]) -> bool:
+    """Every cell printable text without white space around it."""
+    return "".join(column).isprintable() and all(map(str.__eq__, column, map(str.strip, column)))
+
+
+def _numbers(column: list[str], kind: type, empty: object) -> list:
+    """The cells as numbers of ``kind``; ``empty`` for an empty cell."""
+    if all(column):
+        return list(map(kind, column))
+    return [kind(text) if text else empty for text in column]
+
+
+def quick_activities(table: Table) -> list[Activity] | None:
+    """The activities of a table with only the plan columns (no progress, calendar or
+    labour column) whose every row :func:`hasten.formats.activities._plain_activity` takes;
+    ``None`` otherwise. Call it after the table's columns are checked."""
+    if _ACTIVITY is None or not table.rows or not set(table.columns) <= set(PLAN_COLUMNS):
+        return None
+    ids, durations, names, trades, crash_durations, costs, crash_costs = _columns(table, _GIVEN)
+    if not (_every(_IDS, ids) and _every(_ALL_DAYS, durations)
+            and _every(_SOME_DAYS, crash_durations) and _every(_SOME_MONEY, costs)
+            and _every(_SOME_MONEY, crash_costs)
+            and _plain_text(names) and _plain_text(trades)):
+        return None
+    durations = list(map(int, durations))
+    crash_durations = _numbers(crash_durations, int, None)
+    costs = _numbers(costs, float, 0.0)
+    crash_costs = _numbers(crash_costs, float, None)
+    if None in crash_durations:
+        longer = any(c is not None and c > d for c, d in zip(crash_durations, durations))
+    else:
+        longer = any(map(gt, crash_durations, durations))
+    if None in crash_costs:
+        cheaper = any(c is not None and c < m for c, m in zip(crash_costs, costs))
+    else:
+        cheaper = any(map(lt, crash_costs, costs))
+    if longer or cheaper:
+        return None
+    made = [dict(_ACTIVITY, id=i, duration=d, name=n, trade=t, crash_duration=c, cost=m,
+                 crash_cost=k)
+            for i, d, n, t, c, m, k in zip(ids, durations, names, trades, crash_durations,
+                                           costs, crash_costs)]
+    return instances(Activity, made)
+
+
+def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int], list[int]] | None:
+    """The links of the predecessors column of a table whose ids (``ids``, the activities'
+    ids in table order) and predecessors are plain ASCII, every link known, pointing down
+    the table (so there is no loop and no self-link) and given once; with the positions in
+    ``ids`` of each link's predecessor and successor. ``None`` otherwise."""
+    if _LINK is None:  # pragma: no cover - Link as it is today takes the dictionary
+        return None
+    if PREDECESSORS not in table.columns:
+        return [], [], []
+    (texts,) = _columns(table, (PREDECESSORS,))
+    joined = "".join(texts)
+    if len(ids) != len(texts) or not (joined.isascii() and joined.isprintable()):
+        return None
+    preds: list[str] = []
+    succ_at: list[int] = []  # the successor is the row's activity: its position is the row's
+    kinds: list[LinkType] = []
+    lags: list[int] = []
+    fs = LinkType.FS
+    for row, text in enumerate(texts):
+        if not text:
+            continue
+        for raw in text.split(";"):
+            item = raw.strip()
+            if not item:
+                continue
+            ident, colon, rest = item.partition(":")
+            if colon:
+                ident = ident.strip()
+                found = known_type_and_lag(rest)
+                if found is None:
+                    return None
+                kinds.append(found[0])
+                lags.append(found[1])
+            else:
+                kinds.append(fs)
+                lags.append(0)
+            if not ident:
+                return None
+            preds.append(ident)
+            succ_at.append(row)
+    position = {ident: i for i, ident in enumerate(ids)}
+    pred_at = list(map(position.get, preds))
+    if None in pred_at or not all(map(lt, pred_at, succ_at)):
+        return None
+    width = len(ids)
+    if len(set(map(add, map(mul, succ_at, repeat(width)), pred_at))) != len(pred_at):
+        # two links join the same activities: refused only when of the same type too
+        if len(set(zip(pred_at, succ_at, kinds))) != len(kinds):
+            return None
+    made = [{"pred": pred, "succ": ids[row], "type": kind, "lag": lag}
+            for pred, row, kind, lag in zip(preds, succ_at, kinds, lags)]
+    return instances(Link, made), pred_at, succ_at

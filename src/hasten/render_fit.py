@@ -1,0 +1,170 @@
+"""Text tables that fit a terminal: at most :data:`WIDTH` columns.
+
+Long texts (names, trades) are shortened with an ellipsis, long lists (the curve's
+changes) are wrapped onto more lines; ``wide=True`` shows every text whole. JSON, CSV and
+the report always carry the full texts.
+
+Examples
+--------
+>>> print(table([["A1", "A very long activity name indeed", "12"]], ["id", "name", "days"],
+...             shorten=[1], width=24))
+id  name            days
+--  --------------  ----
+A1  A very long a…    12
+"""
+
+from __future__ import annotations
+
+import re
+import textwrap
+from itertools import zip_longest
+from typing import Sequence
+
+__all__ = ["WIDTH", "table", "cut", "wrap_lines"]
+
+#: the widest line a text table may have (``--wide`` lifts it)
+WIDTH = 100
+_ELLIPSIS = "…"
+_GAP = 2  # two spaces between columns
+_NUMBER = re.compile(r"^-?[\d,]+(\.\d+)?$")
+_NUMBERS = re.compile(r"-?[\d,]+(?:\.\d+)?(?:\n-?[\d,]+(?:\.\d+)?)*")  # one a line
+
+
+def cut(text: str, width: int) -> str:
+    """``text`` cut to ``width`` characters, the last one an ellipsis when cut."""
+    text = str(text)
+    if len(text) <= width:
+        return text
+    return text[: max(width - 1, 0)].rstrip() + _ELLIPSIS
+
+
+def _longest_line(text: str) -> int:
+    return max(map(len, text.split("\n")))
+
+
+def _widths(rows: list[list[str]], headers: Sequence[str]) -> list[int]:
+    """The widest line of each column, its title included (column by column: a column
+    without line breaks is measured in one call)."""
+    out = [_longest_line(str(h)) for h in headers]
+    for k, column in enumerate(zip_longest(*rows, fillvalue="")):
+        out[k] = max(out[k], _widest(column))
+    return out
+
+
+def _widest(column: Sequence[str]) -> int:
+    """The longest line of the texts of ``column`` (0 for none)."""
+    if not column:
+        return 0
+    if "\n" not in "".join(column):
+        return max(map(len, column))
+    return max(map(_longest_line, column))
+
+
+def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: Sequence[int] = (),
+          wrap: Sequence[int] = (), wide: bool = False, width: int = WIDTH, least: int = 8,
+          optional: Sequence[int] = (), comfort: int = 24) -> str:
+    """A plain text table no wider than ``width``.
+
+    Parameters
+    ----------
+    rows, headers
+        The cells (turned into text) and the column titles (``"\\n"`` for two lines).
+    shorten
+        Columns whose texts may be cut with an ellipsis, down to ``least`` characters.
+    wrap
+        Columns whose texts may be wrapped onto several lines (at spaces).
+    wide
+        Show every text whole, however wide the table gets.
+    optional
+        Columns left out, in this order, while the table is too wide with the texts cut to
+        ``comfort`` characters (a line under the table names them).
+    """
+    text_rows = [["" if c is None else str(c) for c in r] if None in r else list(map(str, r))
+                 for r in rows]
+    headers = [str(h) for h in headers]
+    dropped: list[str] = []
+    measured = None  # the widths of the columns, measured once (a column left out or cut
+    # changes no other column's width)
+    if not wide:
+        measured = _widths(text_rows, headers)
+        for k in optional:
+            floor = [len(max(str(h).split("\n"), key=len)) if j not in (*shorten, *wrap) or j in optional
+                     else max(comfort, len(max(str(h).split("\n"), key=len))) for j, h in enumerate(headers)]
+            widths = [min(w, f) if j in (*shorten, *wrap) else w
+                      for j, (w, f) in enumerate(zip(measured, floor))]
+            if sum(widths) + _GAP * (len(widths) - 1) <= width:
+                break
+            gone = k - sum(1 for x in optional[: optional.index(k)] if x < k)  # positions move left
+            dropped.append(headers[gone].replace("\n", " "))
+            del headers[gone]
+            del measured[gone]
+            for r in text_rows:
+                del r[gone]
+            shorten = [j - (j > gone) for j in shorten if j != gone]
+            wrap = [j - (j > gone) for j in wrap if j != gone]
+        widths = list(measured)
+        over = sum(widths) + _GAP * (len(widths) - 1) - width
+        floors = {k: max(least, max(len(w) for w in str(headers[k]).split("\n")))
+                  for k in (*shorten, *wrap)}
+        limit = dict.fromkeys((*shorten, *wrap), None)
+        while over > 0:
+            room = [k for k in limit if (limit[k] or widths[k]) > floors[k]]
+            if not room:
+                break
+            k = max(room, key=lambda j: (limit[j] or widths[j], j in wrap))
+            limit[k] = (limit[k] or widths[k]) - 1
+            over -= 1
+        for k, cap in limit.items():
+            if cap is None:
+                continue
+            for r in text_rows:
+                r[k] = wrap_lines(r[k], cap) if k in wrap else cut(r[k], cap)
+            measured[k] = max(_longest_line(headers[k]), _widest([r[k] for r in text_rows]))
+    note = f"\n({', '.join(dropped)} left out to fit {width} columns; --wide shows every column)" if dropped else ""
+    return _render(text_rows, headers, measured) + note
+
+
+def _render(rows: list[list[str]], headers: list[str], widths: list[int] | None = None) -> str:
+    """Columns two spaces apart, titles over a dashed rule (titles of several lines sit on
+    the rule), numbers aligned right, other texts left; cells may hold several lines.
+    ``widths``: the columns' widths when the caller has measured them."""
+    if widths is None:
+        widths = _widths(rows, headers)
+    columns = list(zip(*rows)) if rows else []
+    right = [bool(rows) and _numbers(columns[k]) for k in range(len(headers))]
+
+    def block(cells: list[str], top: bool) -> list[str]:
+        parts = [c.split("\n") for c in cells]
+        height = max((len(p) for p in parts), default=1)
+        parts = [([""] * (height - len(p)) + p) if top else (p + [""] * (height - len(p))) for p in parts]
+        return [(" " * _GAP).join(x.rjust(w) if r else x.ljust(w) for x, w, r in zip(line, widths, right)).rstrip()
+                for line in zip(*parts)]
+
+    out = block(headers, True) + [(" " * _GAP).join("-" * w for w in widths)]
+    # a row of one line each: its cells put in place by one format string (what block
+    # does, without splitting each cell)
+    line = (" " * _GAP).join(f"{{:{'>' if r else '<'}{w}}}" if w else "{}"
+                             for w, r in zip(widths, right))
+    for r in rows:
+        if "\n" in "".join(r):
+            out += block(r, False)
+        else:
+            out.append(line.format(*r).rstrip())
+    return "\n".join(out)
+
+
+def _numbers(column: list[str]) -> bool:
+    """Every non-empty cell a number (:data:`_NUMBER`), and one at least; a column of
+    one-line cells is matched whole."""
+    given = list(filter(None, column))
+    if not given:
+        return False
+    if "\n" in "".join(given):
+        return all(_NUMBER.match(text) for text in given)
+    return _NUMBERS.fullmatch("\n".join(given)) is not None
+
+
+def wrap_lines(text: str, width: int) -> str:
+    """``text`` wrapped at spaces into lines of at most ``width`` characters."""
+    return "\n".join(textwrap.wrap(text, width, break_on_hyphens=False)) or text
+

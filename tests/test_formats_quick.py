@@ -1,0 +1,236 @@
+"""The quick paths of the reader give exactly what the full paths give, or step aside.
+
+Reading a large project takes quick paths (:mod:`hasten.formats.quick`, the table of text
+cells in :func:`hasten.formats.tables.table_from_grid`, the latest finish bound in
+:mod:`hasten.formats.reach`, instances of :mod:`hasten.formats.instances`). Each is checked
+here against the full path on random tables mixing plain cells with every kind of slip the
+full path refuses or reads another way, and the latest finish bound against networkx's
+longest path (``dag_longest_path_length``) on the same graph. The tables are invented for
+these checks.
+"""
+
+from __future__ import annotations
+
+import copy
+import pickle
+from dataclasses import replace
+from datetime import date
+
+import networkx as nx
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from hasten.errors import InputError
+from hasten.formats.activities import _activity
+from hasten.formats.instances import instance, instances, plain_defaults
+from hasten.formats.links import check_acyclic, column_links, resolve_links
+from hasten.formats.quick import quick_activities, quick_links
+from hasten.formats.reach import _latest_finish, _longest, _span, _work
+from hasten.formats.tables import Row, Table, table_from_grid
+from hasten.project import Activity, Calendar, Link, LinkType, Project
+
+# cells: mostly plain, sometimes what the full path refuses or reads another way
+_ID = st.one_of(st.sampled_from(["A", "B", "C", "D", "E", "F"]),
+                st.sampled_from(["a b", "A;", "é", "A\u200b", "", " A", "A\n", "B"]))
+_DAYS = st.one_of(st.from_regex(r"[0-9]{1,3}", fullmatch=True),
+                  st.sampled_from(["", "5.0", "-1", "1,000", "5d", "1234567", "٣", "3\n4"]))
+_MONEY = st.one_of(st.from_regex(r"[0-9]{1,5}(\.[0-9]{1,2})?", fullmatch=True),
+                   st.sampled_from(["", "1e3", "-5", "1,250", "€5", ".5", "5.", "nan"]))
+_TEXT = st.one_of(st.sampled_from(["", "Pour slab", "steel"]), st.text(max_size=4))
+_PRED = st.one_of(st.sampled_from(["", "A", "B; C", "A:SS+2", "B:ff-1; A", "C:SF"]),
+                  st.sampled_from(["A:XX", "A:SS+x", " ; B", "A;A", "A:SS;A:SS+1", "G",
+                                   "é", ":FS", "A:FS+1234567890", "D:SS +2", "B\tC"]))
+_ROW = st.fixed_dictionaries({"id": _ID, "duration": _DAYS, "crash_duration": _DAYS,
+                              "cost": _MONEY, "crash_cost": _MONEY, "name": _TEXT,
+                              "trade": _TEXT, "predecessors": _PRED})
+
+
+def _table(rows: list[dict[str, str]], columns: tuple[str, ...]) -> Table:
+    return Table("activities.csv", columns,
+                 tuple(Row(line, {c: r[c].strip() for c in columns})
+                       for line, r in enumerate(rows, start=2)))
+
+
+@settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.lists(_ROW, min_size=1, max_size=6),
+       st.sets(st.sampled_from(["crash_duration", "cost", "crash_cost", "name", "trade"])))
+def test_quick_activities_are_the_full_paths_or_none(rows, dropped):
+    """Every activity of the quick path equals the full path's; a table the full path
+    refuses (on any row) never passes the quick path."""
+    columns = tuple(c for c in ("id", "name", "trade", "duration", "crash_duration", "cost",
+                                "crash_cost", "predecessors") if c not in dropped)
+    table = _table(rows, columns)
+    quick = quick_activities(table)
+    try:
+        full = [_activity(row, table, False) for row in table.rows]
+    except InputError:
+        assert quick is None
+        return
+    assert quick is None or quick == full
+    if quick is not None:
+        assert [hash(a) for a in quick] == [hash(a) for a in full]
+
+
+def test_quick_activities_take_a_plain_table_and_leave_the_rest():
+    plain = _table([{"id": "A", "duration": "5", "crash_duration": "3", "cost": "100",
+                     "crash_cost": "160.5", "name": "Pour slab", "trade": "concrete",
+                     "predecessors": ""}], ("id", "name", "trade", "duration",
+                                            "crash_duration", "cost", "crash_cost"))
+    assert quick_activities(plain) == [Activity("A", 5, name="Pour slab", trade="concrete",
+                                                crash_duration=3, cost=100.0,
+                                                crash_cost=160.5)]
+    # a progress or calendar column: the full path reads it
+    other = Table("activities.csv", ("id", "duration", "calendar"),
+                  (Row(2, {"id": "A", "duration": "5", "calendar": ""}),))
+    assert quick_activities(other) is None
+    # a cell holding a line break is no plain number, even if its lines are
+    broken = Table("activities.csv", ("id", "duration", "crash_duration"),
+                   (Row(2, {"id": "A", "duration": "5", "crash_duration": "3\n4"}),))
+    assert quick_activities(broken) is None
+
+
+@settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.lists(_PRED, min_size=1, max_size=6))
+def test_quick_links_are_the_full_paths_or_none(predecessors):
+    """The links and their positions of the quick path equal the full path's (column links
+    resolved and checked for loops); a column the full path refuses never passes."""
+    ids = ["A", "B", "C", "D", "E", "F"][:len(predecessors)]
+    table = _table([{"id": i, "predecessors": p} for i, p in zip(ids, predecessors)],
+                   ("id", "predecessors"))
+    quick = quick_links(table, ids)
+    try:
+        specs = resolve_links(column_links(table), ids)
+        positions = check_acyclic(specs, ids)
+    except InputError:
+        assert quick is None
+        return
+    if quick is not None:
+        links, pred_at, succ_at = quick
+        assert links == [s.link for s in specs.values()]
+        assert (pred_at, succ_at) == positions
+
+
+def test_quick_links_leave_links_up_the_table_to_the_full_path():
+    table = _table([{"id": "A", "predecessors": "B"}, {"id": "B", "predecessors": ""}],
+                   ("id", "predecessors"))
+    assert quick_links(table, ["A", "B"]) is None
+    ok = _table([{"id": "A", "predecessors": ""}, {"id": "B", "predecessors": "A:SS+2; A"}],
+                ("id", "predecessors"))
+    assert quick_links(ok, ["A", "B"]) == ([Link("A", "B", LinkType.SS, 2), Link("A", "B")],
+                                           [0, 0], [1, 1])
+
+
+_CELL = st.one_of(st.sampled_from(["", " ", "A", " b ", "\t", "x\r\ny", "c\r"]),
+                  st.text(max_size=3))
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.lists(st.lists(_CELL, min_size=0, max_size=4), min_size=0, max_size=6))
+def test_a_grid_of_text_reads_as_cell_by_cell(grid):
+    """table_from_grid's joined-text path gives what the cell-by-cell functions give
+    (rebuilt here from tables._is_blank and tables._row, which it skips for text rows)."""
+    from hasten.formats import tables
+
+    lines = list(enumerate(grid, start=1))
+    try:
+        quick = table_from_grid("t.csv", lines)
+    except InputError as error:
+        quick = error
+    header, names, rows = None, (), []
+    try:
+        for line, cells in lines:
+            if tables._is_blank(cells):
+                continue
+            if header is None:
+                header, names = line, tables.column_names("t.csv", line, cells)
+            else:
+                rows.append(tables._row("t.csv", line, names, cells, all(names)))
+        full = Table("t.csv", tuple(n for n in names if n), tuple(rows), header)
+    except InputError as error:
+        full = error
+    if isinstance(full, InputError):
+        assert isinstance(quick, InputError) and str(quick) == str(full)
+    else:
+        assert quick == full
+
+
+def test_instances_are_the_values_the_constructor_makes():
+    made = Activity("A1", 5, name="Pour", crash_duration=3, cost=1.0, crash_cost=2.0)
+    defaults = plain_defaults(Activity, ("id", "duration"))
+    quick = instance(Activity, {**defaults, "id": "A1", "duration": 5, "name": "Pour",
+                                "crash_duration": 3, "cost": 1.0, "crash_cost": 2.0})
+    assert quick == made and hash(quick) == hash(made) and repr(quick) == repr(made)
+    assert pickle.loads(pickle.dumps(quick)) == made and copy.deepcopy(quick) == made
+    assert replace(quick, duration=6) == replace(made, duration=6)
+    assert instances(Link, [{"pred": "A", "succ": "B", "type": LinkType.FS, "lag": 0}]) == \
+        [Link("A", "B")]
+    assert plain_defaults(Link) is None  # pred and succ have no default: the caller gives them
+
+
+_PROJECT = st.integers(2, 8).flatmap(lambda n: st.tuples(
+    st.lists(st.tuples(st.integers(0, 40), st.booleans(), st.integers(0, 3)),
+             min_size=n, max_size=n),
+    st.lists(st.tuples(st.integers(0, n - 1), st.integers(0, n - 1), st.integers(-3, 30)),
+             max_size=12)))
+
+
+@settings(max_examples=300, deadline=None)
+@given(_PROJECT, st.booleans())
+def test_the_latest_finish_bound_is_the_longest_path(data, six_days):
+    """The one-pass bound (links taken in their successors' order) equals the topological
+    pass of check_reach and networkx's longest path through the same spans."""
+    spec, edges = data
+    cal = Calendar((0, 1, 2, 3, 4, 5) if six_days else (0, 1, 2, 3, 4))
+    start = date(2027, 1, 4)
+    acts = tuple(Activity(f"A{i}", d, not_before=date(2027, 1, 4 + late * 7) if nb else None)
+                 for i, (d, nb, late) in enumerate(spec))
+    links = {}
+    for p, s, lag in edges:
+        if p != s:
+            p, s = min(p, s), max(p, s)  # down the table: no loop
+            links[(p, s)] = Link(f"A{p}", f"A{s}", LinkType.FS, lag)
+    # successors' order is what the reader gives; any other order is sorted first
+    project = Project("p", start, acts, tuple(links.values()), calendar=cal)
+    bound = _latest_finish(project, {"": cal}, start)
+    base = {a.id: max(start, a.not_before or start).toordinal() for a in acts}
+    work = {a.id: _span(_work(a)[0], cal) for a in acts}
+    lags = [_span(k.lag, cal) + 7 for k in project.links]
+    finish, _ = _longest(project, base, work, lags)
+    assert bound == max(finish.values())
+    graph = nx.DiGraph()
+    for a in acts:
+        graph.add_edge("origin", ("s", a.id), weight=base[a.id])
+        graph.add_edge(("s", a.id), ("f", a.id), weight=work[a.id])
+    for k, lag in zip(project.links, lags):
+        graph.add_edge(("f", k.pred), ("s", k.succ), weight=lag)
+    assert bound == nx.dag_longest_path_length(graph, weight="weight")
+
+
+_CSV_CELL = st.one_of(st.sampled_from(["", "A", "12", "Pour slab", "x y", "'=1", "it's", " a",
+                                       "b ", "\t", "\xa0c", "é", "d\x85"]),
+                      st.text(alphabet=" ,ab'\t\n\"\r\x0b", max_size=3))
+
+
+@settings(max_examples=400, deadline=None)
+@given(st.lists(st.lists(_CSV_CELL, min_size=1, max_size=3), min_size=0, max_size=5),
+       st.booleans())
+def test_a_plain_csv_text_reads_as_the_csv_module_reads_it(lines, last_break):
+    """folder._plain_table (split on line breaks and commas) gives the table the csv
+    module's records give (folder._Records through table_from_grid), or steps aside."""
+    from hasten.formats.folder import _plain_table, _Records
+
+    text = "\n".join(",".join(cells) for cells in lines) + ("\n" if last_break else "")
+    try:
+        quick = _plain_table("t.csv", text)
+    except InputError as error:
+        quick = error
+    try:
+        full = table_from_grid("t.csv", _Records(text))
+    except InputError as error:
+        full = error
+    if quick is None:
+        return
+    if isinstance(full, InputError):
+        assert isinstance(quick, InputError) and str(quick) == str(full)
+    else:
+        assert quick == full
