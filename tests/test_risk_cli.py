@@ -194,6 +194,7 @@ def test_best_expected(tmp_path):
     (("best", PUMP, "--seed", 3), "--scenarios and --seed choose a plan for risk"),
     (("plan", PUMP, "--finish", 55, "--confidence", 0.8, "--scenarios", 0), "scenarios"),
     (("plan", ROOT / "cases" / "ferry-canopy", "--earlier", "2d", "--confidence", 0.8), "calendars of their own"),
+    (("best", PUMP, "--expected", "--save-as", "never-written.json"), "write the deterministic plan"),
 ])
 def test_bad_risk_plan_input_is_one_line_and_exit_2(args, words):
     assert words in refused(*args)
