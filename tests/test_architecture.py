@@ -13,10 +13,11 @@ CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes
         "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
         "partial", "plan_costs", "plan_check", "plan_check_progress", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions", "labour", "productivity", "premium", "crew_options", "quality",
-        "uncertainty", "simulation", "cluster", "accelerated", "price", "crew_project"]
+        "uncertainty", "simulation", "cluster", "accelerated", "price", "crew_project", "plan_days", "risk",
+        "scenario_model", "scenario_paths", "robust"]
 EDGES = ["__init__", "__main__", "launch", "cli", "render", "render_json", "render_fit", "charts", "report",
-         "report_html", "report_md", "report_xlsx", "report_files", "render_crews"]  # and formats/
-EDGE = {"cli", "formats", "render", "render_json", "render_fit", "render_crews", "charts", "report", "report_html",
+         "report_html", "report_md", "report_xlsx", "report_files", "render_crews", "render_risk"]  # and formats/
+EDGE = {"cli", "formats", "render", "render_json", "render_fit", "render_crews", "render_risk", "charts", "report", "report_html",
         "report_md", "report_xlsx", "report_files", "typer", "tabulate", "pandas", "openpyxl", "matplotlib"}
 
 

@@ -78,6 +78,8 @@ SaveOpt = Annotated[Optional[Path], typer.Option("--save-as", help="Also write t
 PlotOpt = Annotated[Optional[Path], typer.Option("--plot", help="Also draw the schedule before and after to FILE.png, .svg or .pdf.")]
 CrewsOpt = Annotated[Optional[str], typer.Option("--crews", help="Also offer options built from the activities' crew data: measures such as 5x10,6x10,2-shifts,+1-crew (see hasten options).")]
 ProductivityOpt = Annotated[Optional[Path], typer.Option("--productivity", help="Your own overtime productivity table (CSV: schedule,week,loss) in place of the built-in one.")]
+ScenariosOpt = Annotated[Optional[int], typer.Option("--scenarios", help="Scenarios sampled to choose a plan for risk (default 200).")]
+SeedOpt = Annotated[Optional[int], typer.Option("--seed", help="Seed of the random draws (the same seed gives the same figures).")]
 
 
 def _echo(text: str) -> None:
@@ -184,12 +186,12 @@ def _date(text: str, option: str) -> date:
 
 
 @contextmanager
-def _progress(enabled: bool):
+def _progress(enabled: bool, label: str = "tracing the curve"):
     """A progress bar on a terminal for long traces; yields the callback (or None)."""
     if not enabled or not sys.stderr.isatty():
         yield None
         return
-    with typer.progressbar(length=1, label="tracing the curve", file=sys.stderr) as bar:
+    with typer.progressbar(length=1, label=label, file=sys.stderr) as bar:
         state = {"done": 0}
 
         def tick(done: int, total: int) -> None:
@@ -324,6 +326,9 @@ def plan(
     force: ForceOpt = False,
     crews: CrewsOpt = None,
     productivity: ProductivityOpt = None,
+    confidence: Annotated[Optional[float], typer.Option("--confidence", help="Least-cost plan meeting the target in at least this share of sampled scenarios, e.g. 0.8.")] = None,
+    scenarios: ScenariosOpt = None,
+    seed: SeedOpt = None,
 ) -> None:
     """The least-cost plan to finish by a target."""
     with _errors():
@@ -332,6 +337,9 @@ def plan(
         target = _target(finish, by, earlier)
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
         p, notes = _crews(project, crews, productivity)
+        if _risk_plan(p, notes, as_json, time_limit, scenarios, seed, target=target, confidence=confidence,
+                      outputs=(out, save_as, plot)):
+            return
         result = least_cost_plan(p, target, time_limit=time_limit)
         _write_outputs(result, out=out, save_as=save_as, plot=plot, original=p)
         check = _quality_notice(p)
@@ -382,13 +390,18 @@ def curve(
 def best(project: ProjectArg, as_json: JsonOpt = False, time_limit: LimitOpt = None, wide: WideOpt = False,
          out: OutOpt = None, save_as: SaveOpt = None,
          plot: Annotated[Optional[Path], typer.Option("--plot", help="Also draw the cost of each finish, the best one marked, to FILE.png, .svg or .pdf.")] = None,
-         force: ForceOpt = False, crews: CrewsOpt = None, productivity: ProductivityOpt = None) -> None:
+         force: ForceOpt = False, crews: CrewsOpt = None, productivity: ProductivityOpt = None,
+         expected: Annotated[bool, typer.Option("--expected", help="The plan with the least expected total cost over sampled scenarios.")] = False,
+         scenarios: ScenariosOpt = None, seed: SeedOpt = None) -> None:
     """The finish with the least total cost: direct + indirect + damages - bonus."""
     with _errors():
         from .questions import best_finish
 
         _outputs(project, force, tables=(out,), charts=(plot,), save_as=save_as)
         p, notes = _crews(project, crews, productivity)
+        if _risk_plan(p, notes, as_json, time_limit, scenarios, seed, expected=expected,
+                      outputs=(out, save_as, plot)):
+            return
         with _progress(not as_json) as tick:
             result = best_finish(p, time_limit=time_limit, progress=tick)
         _write_outputs(result.plan, out=out, save_as=save_as, original=p)
@@ -637,6 +650,98 @@ def demo(
         _echo(f"Least total cost (direct + overhead + damages - bonus): finish at {b.finish} working days "
               f"({b.finish_date.isoformat()}), total {render.money(b.total_cost, planner.project.currency)}.")
         _echo(f"Next: hasten best {folder}   |   hasten curve {folder}   |   hasten schedule {folder}")
+
+
+# -- risk --------------------------------------------------------------------------------
+def _risk_plan(p, notes, as_json: bool, time_limit, scenarios, seed, *, target=None,
+               confidence: float | None = None, expected: bool = False, outputs=()) -> bool:
+    """``plan --confidence`` and ``best --expected``: the plan chosen for risk beside the
+    deterministic one. False (nothing done) when neither was asked for."""
+    if confidence is None and not expected:
+        if scenarios is not None or seed is not None:
+            raise InputError("--scenarios and --seed choose a plan for risk", value=scenarios if seed is None else seed,
+                             fix="add --confidence 0.8 to plan, or --expected to best")
+        return False
+    if any(path is not None for path in outputs):
+        raise InputError("--out, --save-as and --plot write the deterministic plan, not a plan chosen for risk",
+                         fix="leave them out with --confidence or --expected, or run without these options")
+    from . import render_risk
+    from .robust import SCENARIOS, risk_plans
+
+    with _progress(not as_json, "checking the plans on fresh runs") as tick:
+        result = risk_plans(p, target=target, confidence=confidence, expected=expected,
+                            scenarios=SCENARIOS if scenarios is None else scenarios, seed=seed, time_limit=time_limit,
+                            progress=tick)
+    _emit(as_json, lambda: render_risk.risk_plans_json(result), lambda: render_risk.risk_plans_text(result),
+          tuple(notes) + result.notes)
+    return True
+
+
+@app.command()
+def risk(
+    project: ProjectArg,
+    finish: Annotated[Optional[int], typer.Option("--finish", help="Target finish in working days: plan for it, then simulate the plan.")] = None,
+    by: Annotated[Optional[str], typer.Option("--by", help="Target finish date (last day worked), YYYY-MM-DD: plan for it, then simulate.")] = None,
+    plan_file: Annotated[Optional[Path], typer.Option("--plan", help="Simulate a plan: the --json output of plan, best, budget or recover.")] = None,
+    runs: Annotated[int, typer.Option("--runs", help="Number of simulated runs.")] = 5000,
+    seed: SeedOpt = None,
+    workers: Annotated[Optional[int], typer.Option("--workers", help="Run on a local Dask cluster of N worker processes.")] = None,
+    scheduler: Annotated[Optional[str], typer.Option("--scheduler", help="Run on a running Dask cluster at ADDRESS (tcp://host:8786).")] = None,
+    as_json: JsonOpt = False,
+    time_limit: LimitOpt = None,
+) -> None:
+    """How sure is the finish? Simulate the schedule, a plan, or the plan for a target under the
+    duration ranges (optimistic, pessimistic, [risk]): percentiles, chances, criticality."""
+    with _errors():
+        from contextlib import nullcontext
+
+        from . import render_risk
+        from .network import Network
+        from .plan_days import plan_days_from_json
+        from .risk import schedule_risk
+
+        if finish is not None and by is not None:
+            raise InputError("give one target: --finish N or --by YYYY-MM-DD", value=by,
+                             fix="leave out one of them")
+        target = finish if by is None else _date(by, "--by")
+        if isinstance(target, int) and target < 0:
+            raise InputError("--finish is a finish in working days from the start, 0 or more", value=target,
+                             fix="give a finish such as --finish 120")
+        p, notes = read_project_with_notes(project)
+        net = Network(p)
+        days = None
+        if plan_file is not None:
+            days = plan_days_from_json(net, _plan_data(plan_file), str(plan_file))
+        if workers is not None or scheduler is not None:
+            from .cluster import cluster_runner
+
+            cluster = cluster_runner(workers=workers, scheduler=scheduler)
+        else:
+            cluster = nullcontext(None)
+        with cluster as runner, _progress(not as_json, "simulating") as tick:
+            report = schedule_risk(p, runs=runs, seed=seed, target=target, plan=days, plan_target=days is None,
+                                   time_limit=time_limit, runner=runner, progress=tick, network=net)
+        _emit(as_json, lambda: render_risk.risk_json(report), lambda: render_risk.risk_text(report),
+              notes + report.notes)
+
+
+def _plan_data(path: Path):
+    """The JSON a plan was saved in (the --json output of a command)."""
+    import json
+
+    try:
+        text = path.read_text(encoding="utf-8-sig")
+    except OSError as exc:
+        raise InputError(f"cannot read the plan: {exc.strerror or exc}", file=str(path),
+                         fix="give the file the --json output of hasten plan was saved to") from None
+    except UnicodeDecodeError:
+        raise InputError("the plan is not UTF-8 text", file=str(path),
+                         fix="save the --json output of hasten plan as UTF-8") from None
+    try:
+        return json.loads(text)
+    except json.JSONDecodeError as exc:
+        raise InputError(f"the plan is not valid JSON: {exc.msg}", file=str(path), row=exc.lineno,
+                         fix="give the --json output of hasten plan, best, budget or recover unchanged") from None
 
 
 def main() -> None:  # pragma: no cover - the console script

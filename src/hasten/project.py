@@ -23,6 +23,7 @@ __all__ = [
     "Costs",
     "Contract",
     "Project",
+    "Risk",
     "WEEKDAY_NAMES",
 ]
 
@@ -121,6 +122,10 @@ class Activity:
     # labour data from which acceleration options are built (see hasten.crew_options);
     # its own min_duration is not used here: the activity's min_duration is the minimum
     crew: CrewData | None = None
+    # duration uncertainty (see hasten.uncertainty): the shortest and longest working days the
+    # activity may take; the duration is the most likely. None: from Project.risk, or none
+    optimistic: int | None = None
+    pessimistic: int | None = None
 
     @property
     def shortest_normal(self) -> int:
@@ -208,6 +213,21 @@ class Contract:
 
 
 @dataclass(frozen=True)
+class Risk:
+    """The ``[risk]`` settings: ranges of durations for activities without their own
+    ``optimistic`` / ``pessimistic`` days (see :mod:`hasten.uncertainty`).
+
+    ``default`` and each trade's range are written as text such as ``"-10%, +25%"``;
+    ``correlation`` gives a trade the weight of one shared factor (0 to 1).
+    """
+
+    default: str | None = None
+    distribution: str = "pert"  # "pert" or "triangular"
+    trades: tuple[tuple[str, str], ...] = ()  # (trade, range text), in the order given
+    correlation: tuple[tuple[str, float], ...] = ()  # (trade, weight), in the order given
+
+
+@dataclass(frozen=True)
 class Project:
     name: str
     start: date
@@ -223,6 +243,7 @@ class Project:
     # [labour]: the normal week, pay rules, trade wages and productivity data from which
     # options are built for activities with crew data (None: no section; defaults apply)
     labour: LabourRules | None = None
+    risk: Risk = field(default_factory=Risk)  # [risk]: duration ranges by default and by trade
 
     def activity(self, activity_id: str) -> Activity:
         for a in self.activities:

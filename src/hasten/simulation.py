@@ -17,6 +17,13 @@ duration with the finish (Spearman, "The proof and measurement of association be
 things", *Am. J. Psychology* 15, 1904; ties take mid-ranks), computed exactly from whole-day
 counts in a second, draws-only pass.
 
+**A plan.** Given the working days a plan takes off each activity (``shortening``; an
+option's change of duration counts the same way, and a slower option is a negative
+shortening), each run takes those days off the duration it drew, never below one working
+day (or the planned duration, where the plan itself leaves less than a day): the spread of
+each activity stays what its range says, moved by the days the plan buys. The drivers are
+still ranked by the durations drawn.
+
 **Reproducible.** Runs are drawn in blocks of :data:`BLOCK`; block ``b`` has its own stream
 ``SeedSequence(seed).spawn(...)[b]`` (``spawn_key=(b,)``), so the figures depend only on
 ``seed`` and ``runs``, never on how the blocks are grouped into chunks or spread over
@@ -133,7 +140,7 @@ class RiskModel:
     """A network and its ranges compiled for the simulation: plain arrays, picklable (it
     is shipped to the workers of a cluster), and the draws of any block of runs."""
 
-    def __init__(self, network: Network, ranges: Ranges, seed: int):
+    def __init__(self, network: Network, ranges: Ranges, seed: int, shortening: Sequence[int] | None = None):
         project = network.project
         n = len(network.ids)
         if len(ranges.likely) != n or list(ranges.likely) != [a.duration for a in project.activities]:
@@ -173,6 +180,14 @@ class RiskModel:
                                 for v in reversed(range(top)) if np.any(by_pred == v)]
         self.watched = np.asarray([k for k, a in enumerate(project.activities) if a.deadline is not None],
                                   dtype=np.int64)
+        self.cut = None  # working days a plan takes off each activity (see the module notes)
+        if shortening is not None:
+            cut = np.asarray(shortening, dtype=np.int64)
+            if cut.shape != (n,) or np.any(cut[self.fixed] != 0) or np.any(cut > self.base):
+                raise HastenError("a plan's shortening must give each activity's working days taken off: "
+                                  "none for finished work, never more than the duration left")
+            self.cut = cut.astype(_DAYS)
+            self.least = np.minimum(1, self.base - self.cut).astype(_DAYS)
 
     def __getstate__(self):
         state = self.__dict__.copy()
@@ -200,6 +215,12 @@ class RiskModel:
         if len(self.sampler.uncertain):
             d[self.sampler.uncertain] = self.sampler.durations(np.concatenate(scores, axis=1))  # (to _DAYS)
         return d
+
+    def planned(self, d: np.ndarray) -> np.ndarray:
+        """The durations drawn ``d`` with the plan's days taken off (the drawn ones without a plan)."""
+        if self.cut is None:
+            return d
+        return np.maximum(d - self.cut[:, None], self.least[:, None])
 
     # -- the passes ---------------------------------------------------------------------
     def forward(self, d: np.ndarray) -> np.ndarray:
@@ -250,7 +271,8 @@ def run_chunk(model: RiskModel, runs: int, first: int, stop: int) -> dict:
     """Blocks ``first`` to ``stop - 1``: each run's finish, how often each activity is
     critical, the finishes of activities with deadlines, and counts of each drawn duration.
     The same function runs in-process and on a cluster's workers."""
-    d = model.durations(runs, first, stop)
+    drawn = model.durations(runs, first, stop)
+    d = model.planned(drawn)
     es = model.forward(d)
     ef = es + d
     finish = model.finish(ef)
@@ -262,7 +284,7 @@ def run_chunk(model: RiskModel, runs: int, first: int, stop: int) -> dict:
         least = tf[live].min(axis=0)
         critical[live] = (tf[live] == least).sum(axis=1)
     s = model.sampler
-    offs = d[s.uncertain] - s.first[:, None]
+    offs = drawn[s.uncertain] - s.first[:, None]
     rows = np.arange(len(s.uncertain))[:, None]
     counts = np.bincount((rows * s.width + offs).ravel(), minlength=len(s.uncertain) * s.width)
     return {"finish": finish, "critical": critical, "watched": ef[model.watched],
@@ -294,7 +316,7 @@ def _mid_ranks(counts: np.ndarray) -> np.ndarray:
 def simulate(network: Network | Project, ranges: Ranges, runs: int, seed: int | None = None, *,
              target: int | date | None = None, chunk: int = 500,
              progress: Callable[[int, int], None] | None = None, runner: Runner | None = None,
-             drivers: int = 10) -> RiskResult:
+             drivers: int = 10, shortening: Sequence[int] | None = None) -> RiskResult:
     """Simulate ``runs`` schedules with durations drawn from ``ranges``.
 
     Parameters
@@ -310,6 +332,8 @@ def simulate(network: Network | Project, ranges: Ranges, runs: int, seed: int | 
     runner : runs the chunks (:func:`in_process` by default; a cluster's, see
         :mod:`hasten.cluster`).
     drivers : how many of the strongest drivers of the finish to list.
+    shortening : working days a plan takes off each activity (network order, see the module
+        notes); ``None`` simulates the durations as they are.
     """
     net = network if isinstance(network, Network) else Network(network)
     if isinstance(runs, bool) or not isinstance(runs, int) or runs < 1:
@@ -320,7 +344,7 @@ def simulate(network: Network | Project, ranges: Ranges, runs: int, seed: int | 
     if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
         raise InputError("the seed must be a whole number, 0 or more", column="seed", value=seed,
                          fix="give any whole number, e.g. 1")
-    model = RiskModel(net, ranges, seed)
+    model = RiskModel(net, ranges, seed, shortening)
     blocks = math.ceil(runs / BLOCK)
     step = max(1, math.ceil(chunk / BLOCK))
     tasks = [(runs, b, min(b + step, blocks)) for b in range(0, blocks, step)]
@@ -380,7 +404,7 @@ def _result(net: Network, model: RiskModel, runs: int, seed: int, target, finish
     for p in PERCENTILES:
         percentiles[f"p{p}"] = next(v for v, c in zip(values, cum) if c * 100 >= p * runs)
     dates = {k: clock.project_finish_date(v) for k, v in percentiles.items()}
-    planned = net.forward_finish()
+    planned = net.forward_finish(None if model.cut is None else (model.base - model.cut).tolist())
     if isinstance(target, date):
         target = clock.offset_of(target, finish=True)
     p_target = None if target is None else _share(sum(c for v, c in zip(values, counts) if v <= target), runs)

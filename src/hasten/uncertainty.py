@@ -53,6 +53,7 @@ __all__ = [
     "parse_spread",
     "Ranges",
     "duration_ranges",
+    "project_ranges",
     "cdf",
     "regularized_beta",
     "continuous_durations",
@@ -217,6 +218,15 @@ def duration_ranges(project: Project, *, default: str | Spread | None = None,
         group.append(slot.get(a.trade, -1))
     return Ranges(tuple(lows), tuple(a.duration for a in project.activities), tuple(highs), distribution,
                   tuple(group), trades, tuple(weights))
+
+
+def project_ranges(project: Project) -> Ranges:
+    """The ranges the project itself gives: each activity's own ``optimistic`` /
+    ``pessimistic`` days, then its trade's range, then the default of ``project.risk``
+    (the ``[risk]`` section), with its distribution and trade correlations."""
+    risk = project.risk
+    return duration_ranges(project, default=risk.default, by_trade=dict(risk.trades),
+                           distribution=risk.distribution, correlation=dict(risk.correlation))
 
 
 # -- distribution functions ---------------------------------------------------------------

@@ -34,6 +34,9 @@ Labour columns (all optional), from which acceleration options are built
   them without ``labour_hours`` is refused.
 * ``min_duration``: the physical minimum in working days (curing, lead times), with or
   without crew data: at most the duration, and no crash duration below it.
+
+``optimistic`` and ``pessimistic`` (optional columns, whole working days): the activity's
+own range of durations (see :mod:`hasten.formats.risk`).
 """
 
 from __future__ import annotations
@@ -50,10 +53,11 @@ from datetime import date
 from hasten.formats.cells import (CellRef, date_value, id_value, number_value, text_value,
                                   whole_value)
 from hasten.formats.columns import (ACTIVITY_COLUMNS, ACTIVITY_REQUIRED, CALENDAR_COLUMN,
-                                    LABOUR_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS, cell_ref,
-                                    check_columns, optional, required)
+                                    LABOUR_COLUMNS, PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS,
+                                    cell_ref, check_columns, optional, required)
 from hasten.formats.instances import instance, plain_defaults
 from hasten.formats.quick import quick_activities
+from hasten.formats.risk import range_cells
 from hasten.formats.settings import CALENDARS
 from hasten.formats.tables import Row, Table
 from hasten.labour import CrewData
@@ -117,7 +121,7 @@ def _plain_activity(cells) -> Activity | None:
     large project spends most of its time here, so the common case is kept short. A row
     naming a calendar is not plain."""
     get = cells.get
-    if get(CALENDAR_COLUMN):
+    if get(CALENDAR_COLUMN) or any(get(c) for c in RISK_COLUMNS):
         return None
     ident, duration, crash_duration = get("id", ""), get("duration", ""), get("crash_duration", "")
     cost, crash_cost = get("cost", ""), get("crash_cost", "")
@@ -170,6 +174,7 @@ def _activity(row: Row, table: Table, with_progress: bool = True) -> Activity:
         crash_cost=crash_cost,
         calendar=optional(row, table, CALENDAR_COLUMN, text_value, ""),
         **(_progress(row, table, duration) if with_progress else {}),
+        **range_cells(row, table, duration),
     )
 
 

@@ -21,6 +21,7 @@ __all__ = [
     "PLAN_COLUMNS",
     "PROGRESS_COLUMNS",
     "CALENDAR_COLUMN",
+    "RISK_COLUMNS",
     "LABOUR_COLUMNS",
     "ACTIVITY_COLUMNS",
     "ACTIVITY_REQUIRED",
@@ -45,7 +46,8 @@ PROGRESS_COLUMNS = ("actual_start", "actual_finish", "remaining", "percent_compl
 CALENDAR_COLUMN = "calendar"
 LABOUR_COLUMNS = ("labour_hours", "crew_size", "wage", "max_crews", "equipment_per_day",
                   "min_duration")
-ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS
+RISK_COLUMNS = ("optimistic", "pessimistic")  # duration ranges (hasten.formats.risk)
+ACTIVITY_COLUMNS = PLAN_COLUMNS + PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS + RISK_COLUMNS
 ACTIVITY_REQUIRED = ("id", "duration")
 LINK_COLUMNS = ("predecessor", "successor", "type", "lag")
 LINK_REQUIRED = ("predecessor", "successor")

@@ -17,6 +17,9 @@ Canonical choices:
   activity has a value in it: an activity's crew data in full (``max_crews`` and
   ``equipment_per_day`` too, a ``wage`` of None empty), ``min_duration`` empty when 0;
   labour rules go into ``labour.*`` with every key (None as ``none``) and the wages;
+* the ``optimistic`` and ``pessimistic`` columns come last, each only when some activity
+  has a value in it; the ``[risk]`` section (``risk.*`` keys) is written when given, with
+  its distribution whenever some range is given;
 * links go into the ``predecessors`` column (``Link.text()``, joined with ``"; "``) when the
   project's link order is the order reading gives back (grouped by successor in activity
   order); otherwise all links go into the links table, in order, and the column stays empty;
@@ -34,7 +37,7 @@ from dataclasses import dataclass, field, fields, is_dataclass
 
 from hasten.formats.cells import plain_number as _plain
 from hasten.formats.columns import (CALENDAR_COLUMN, LABOUR_COLUMNS, LINK_COLUMNS, OPTION_COLUMNS,
-                                    PLAN_COLUMNS, PROGRESS_COLUMNS, STEP_COLUMNS)
+                                    PLAN_COLUMNS, PROGRESS_COLUMNS, RISK_COLUMNS, STEP_COLUMNS)
 from hasten.formats.settings import settings_values
 from hasten.formats.tables import Settings, Tables, table_from_grid
 from hasten.project import Activity, Link, Option, Project
@@ -62,7 +65,7 @@ class Document:
         """The columns to write: the plan columns, then the progress columns, the calendar
         column and the labour columns in use."""
         used = {key for record in self.activities for key in record}
-        optional = PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS
+        optional = PROGRESS_COLUMNS + (CALENDAR_COLUMN,) + LABOUR_COLUMNS + RISK_COLUMNS
         return PLAN_COLUMNS + tuple(c for c in optional if c in used)
 
 
@@ -146,11 +149,13 @@ def to_document(project: Project) -> Document:
     calendars = any(a.calendar for a in project.activities)
     labour = [_labour_cells(a) for a in project.activities]
     crews = [c for c in LABOUR_COLUMNS if any(cells[c] is not None for cells in labour)]
+    ranges = [c for c in RISK_COLUMNS if any(getattr(a, c) is not None for a in project.activities)]
     return Document(
         settings=settings,
         activities=[_activity_row(a, incoming.get(a.id, [])) | {c: cells[c] for c in used}
                     | ({CALENDAR_COLUMN: a.calendar or None} if calendars else {})
                     | {c: own[c] for c in crews}
+                    | {c: getattr(a, c) for c in ranges}
                     for a, cells, own in zip(project.activities, progress, labour)],
         links=table_links,
         crash_steps=[{"id": a.id, "days": s.days, "cost_per_day": _plain(s.cost_per_day)}

@@ -19,6 +19,7 @@ from hasten.formats.cells import one_line_errors
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.quick import quick_links
 from hasten.formats.reach import check_reach
+from hasten.formats.risk import check_risk_trades
 from hasten.formats.settings import parse_settings
 from hasten.formats.shortening import option_rows, step_rows, with_options, with_steps
 from hasten.formats.tables import Tables
@@ -43,6 +44,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     check_progress(rows, tables.activities, settings.start, settings.data_date,
                    tables.settings.source)
     check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
+    check_risk_trades([r.activity.trade for r in rows], settings.risk, tables.settings)
     by_id = {r.activity.id: r for r in rows}
     ids = list(by_id)
     quick = (quick_links(tables.activities, ids)
@@ -78,6 +80,7 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
         data_date=settings.data_date,
         calendars=settings.calendars,
         labour=settings.labour,
+        risk=settings.risk,
     )
 
     def places():

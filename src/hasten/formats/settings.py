@@ -17,6 +17,9 @@ Further named calendars, which activities name in their ``calendar`` column, go 
 ``workdays`` is required; ``holidays`` given as ``[]`` (or the text ``none``, the workbook's
 spelling of an empty list) means no holidays. A calendar's name is its key: letters, digits,
 ``-`` or ``_``. Calendars keep the order they are given in.
+
+Duration ranges go under ``[risk]`` (``risk.default``, ``risk.distribution``,
+``risk.trades.NAME``, ``risk.correlation.NAME``; see :mod:`hasten.formats.risk`).
 """
 
 from __future__ import annotations
@@ -30,9 +33,11 @@ from datetime import date
 from hasten.formats.cells import CellRef, date_value, number_value, text_value, whole_value
 from hasten.formats.labour import (LABOUR, LABOUR_KEYS, check_labour_key, flatten_labour,
                                    labour_values, parse_labour)
+from hasten.formats.risk import (RISK, check_risk_key, flatten_risk, is_risk_key, nest_key, parse_risk,
+                                 risk_values)
 from hasten.formats.tables import Settings
 from hasten.labour import LabourRules
-from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project
+from hasten.project import WEEKDAY_NAMES, Calendar, Contract, Costs, Project, Risk
 
 __all__ = [
     "SETTING_KEYS",
@@ -83,6 +88,7 @@ class ProjectSettings:
     data_date: date | None = None
     calendars: tuple[Calendar, ...] = ()
     labour: LabourRules | None = None
+    risk: Risk = Risk()
 
 
 def _flatten_calendars(value: object, where: CellRef) -> dict[str, object]:
@@ -115,6 +121,8 @@ def flatten(nested: Mapping[str, object], where: CellRef) -> dict[str, object]:
     for key, value in nested.items():
         if key == CALENDARS:
             flat.update(_flatten_calendars(value, where))
+        elif key == RISK:
+            flat.update(flatten_risk(value, where))
         elif key == LABOUR:
             flat.update(flatten_labour(value, where))
         elif key in SECTIONS:
@@ -132,7 +140,7 @@ def nest(flat: Mapping[str, object]) -> dict[str, object]:
     keys into its table within ``calendars``)."""
     nested: dict[str, object] = {}
     for key, value in flat.items():
-        *sections, inner = key.split(".")
+        *sections, inner = nest_key(key) or key.split(".")
         table = nested
         for section in sections:
             table = table.setdefault(section, {})
@@ -176,6 +184,9 @@ def _check_keys(settings: Settings) -> None:
         if _calendar_parts(key) is not None:
             _check_calendar_key(settings, key)
             continue
+        if is_risk_key(key):
+            check_risk_key(settings, key)
+            continue
         if key.startswith(f"{LABOUR}."):
             check_labour_key(settings, key)
             continue
@@ -184,7 +195,7 @@ def _check_keys(settings: Settings) -> None:
         hint = f"did you mean '{close[0]}'? " if close else ""
         raise settings.where(key).error(
             "unknown key", key, f"{hint}allowed keys: {', '.join(SETTING_KEYS)}, and the "
-                                f"sections {CALENDARS}.NAME and {LABOUR}")
+                                f"sections {CALENDARS}.NAME, {LABOUR} and {RISK}")
     for key in REQUIRED_KEYS:
         if _given(settings, key) is None:
             raise CellRef(settings.source, None, key).error(
@@ -304,6 +315,7 @@ def parse_settings(settings: Settings) -> ProjectSettings:
         data_date=data_date,
         calendars=parse_calendars(settings, holidays),
         labour=parse_labour(settings),
+        risk=parse_risk(settings),
     )
 
 
@@ -352,4 +364,4 @@ def settings_values(project: Project) -> dict[str, object]:
         "status.data_date": project.data_date,
     }
     given = {k: v for k, v in values.items() if v is not None}
-    return given | _calendars_values(project.calendars) | labour_values(project.labour)
+    return given | _calendars_values(project.calendars) | labour_values(project.labour) | risk_values(project)
