@@ -448,7 +448,7 @@ class ScenarioModel:
         if exact is not None and exact.values is not None and self._feasible():
             candidates.append(self.solution(exact.values, exact, self.true_objective(exact.values)))
         if not candidates:
-            raise TimeLimitError(f"the solver's time limit ran out before a plan for risk was proven")
+            raise TimeLimitError("the solver's time limit ran out before a plan for risk was proven")
         best = min(candidates, key=lambda c: c.objective)
         low = max(bound, (exact.bound + self.time_base) if exact is not None and exact.bound is not None else bound)
         gap = max(0.0, best.objective - low) / max(abs(best.objective), 1e-9)
