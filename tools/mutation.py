@@ -4,8 +4,8 @@ Each mutant in :mod:`mutants` (``tools/mutants.py``) replaces one exact piece of
 source file of ``src/hasten`` by another: a bug someone could plausibly write. For every
 mutant this runner
 
-1. copies the working tree once (``src``, ``tests`` and what the tests read; never ``.git``)
-   into a temporary directory, and writes the mutant into that copy only: the worktree's
+1. copies the working tree once (the files git tracks or would add, as they are on disk;
+   never ``.git`` or ignored files) into a temporary directory, and writes the mutant into that copy only: the worktree's
    own files are never changed;
 2. runs the test files listed for the mutated module (``mutants.TESTS``) with
    ``pytest -x -q -p no:cacheprovider`` under a time limit;
@@ -56,7 +56,6 @@ from mutants import MUTANTS, TESTS, Mutant  # noqa: E402
 __all__ = ["main", "Outcome", "apply", "check"]
 
 PACKAGE = Path("src") / "hasten"
-COPIED = ("src", "tests", "cases", "README.md", "DEVELOPERS.md", "pyproject.toml")
 PYTEST = ("-m", "pytest", "-x", "-q", "-p", "no:cacheprovider")
 
 
@@ -115,12 +114,14 @@ def apply(text: str, mutant: Mutant) -> str:
 
 
 def _copy_tree(dest: Path) -> None:
-    ignore = shutil.ignore_patterns("__pycache__", ".hypothesis", ".pytest_cache", "*.egg-info", "out")
-    for name in COPIED:
+    """The working tree as git sees it (tracked files and untracked ones not ignored, as
+    they are on disk), without .git or anything ignored."""
+    listed = subprocess.run(["git", "ls-files", "-z", "--cached", "--others", "--exclude-standard"],
+                            cwd=ROOT, capture_output=True, check=True).stdout.decode().split("\0")
+    for name in filter(None, listed):
         src = ROOT / name
-        if src.is_dir():
-            shutil.copytree(src, dest / name, ignore=ignore)
-        elif src.exists():
+        if src.is_file():
+            (dest / name).parent.mkdir(parents=True, exist_ok=True)
             shutil.copy2(src, dest / name)
 
 
