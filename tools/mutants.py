@@ -116,7 +116,10 @@ MUTANTS: tuple[Mutant, ...] = (
     M("network-started-start-links", "network.py",
       "if sj == DONE or (sj == STARTED and on_start):",
       "if sj == DONE:",
-      "FS/SS links into started work still hold back its (already happened) start"),
+      "FS/SS links into started work still hold back its (already happened) start",
+      equivalent="such a link is either dropped by progress as out of sequence (its "
+                 "predecessor's event has not happened) or met by the actual start, which is "
+                 "before the data date where the remaining work is released: it moves nothing"),
     M("network-release-overwrite", "network.py",
       "self.release[j] = max(self.release[j], at + link.lag)",
       "self.release[j] = at + link.lag",

@@ -31,6 +31,7 @@ Usage (from the repository root, in the project's environment)::
     python tools/mutation.py --only cpm-critical-zero --only passes-ff-loop
     python tools/mutation.py --module progress.py --markdown
     python tools/mutation.py --jobs 2          # two copies in parallel (a quiet machine only)
+    python tools/mutation.py --only progress-allowance-up --tests tests/test_progress.py
 """
 
 from __future__ import annotations
@@ -167,16 +168,18 @@ class Copy:
         for pyc in cache.glob(f"{Path(file).stem}.*.pyc"):
             pyc.unlink()
 
-    def run(self, mutant: Mutant, limits: dict, whole_limit) -> Outcome:
+    def run(self, mutant: Mutant, limits: dict, whole_limit, tests=None) -> Outcome:
+        """Test one mutant: its module's tests, then (if they pass) the whole suite; with
+        ``tests``, only those files."""
         path = self.dir / PACKAGE / mutant.file
         pristine = path.read_text(encoding="utf-8")
         start = time.perf_counter()
         try:
             path.write_text(apply(pristine, mutant), encoding="utf-8")
             self._forget_bytecode(mutant.file)
-            state, _, out = self.pytest(TESTS[mutant.file], limits[mutant.file])
-            stage = "module tests"
-            if state == "passed":
+            state, _, out = self.pytest(tests or TESTS[mutant.file], limits[mutant.file])
+            stage = "given tests" if tests else "module tests"
+            if state == "passed" and not tests:
                 state, _, out = self.pytest((), whole_limit())
                 stage = "whole suite"
         finally:
@@ -223,6 +226,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--seed", type=int, default=0, help="hypothesis seed (default 0)")
     parser.add_argument("--minimum", type=float, default=95.0, help="least score in %% (default 95)")
     parser.add_argument("--markdown", action="store_true", help="print the table as Markdown")
+    parser.add_argument("--tests", action="append", default=[],
+                        help="run only these test files (repeatable), never the whole suite: to "
+                             "see whether a new test catches a mutant (no score is kept)")
     args = parser.parse_args(argv)
 
     problems = check()
@@ -246,7 +252,7 @@ def main(argv: list[str] | None = None) -> int:
         # the limits (three times the clean run plus a minute).
         limits = {}
         for file in sorted({m.file for m in to_run}):
-            state, seconds, out = copies[0].pytest(TESTS[file], 3600)
+            state, seconds, out = copies[0].pytest(args.tests or TESTS[file], 3600)
             if state != "passed":
                 print(f"the tests for {file} fail without any mutant:\n{out[-3000:]}")
                 return 1
@@ -275,7 +281,7 @@ def main(argv: list[str] | None = None) -> int:
             with lock:
                 copy = free.pop()
             try:
-                o = copy.run(m, limits, whole_limit)
+                o = copy.run(m, limits, whole_limit, args.tests)
             finally:
                 with lock:
                     free.append(copy)
@@ -290,6 +296,9 @@ def main(argv: list[str] | None = None) -> int:
     order = {m.id: k for k, m in enumerate(MUTANTS)}
     outcomes = sorted(outcomes + done, key=lambda o: order[o.mutant.id])
     print(_table(outcomes, args.markdown))
+    if args.tests:
+        print("\n(only the given tests ran: this is no score)")
+        return 0
     detected, total, share = score(outcomes)
     equivalent = sum(1 for m in chosen if m.equivalent)
     print(f"\nscore: {detected} of {total} non-equivalent mutants detected = {100 * share:.1f} % "
