@@ -107,3 +107,20 @@ def test_the_least_float_is_that_of_work_still_to_do():
     b = s.by_id()["B"]
     assert (b.es, b.ls, b.total_float, b.critical) == (10, -1, -11, True)
     assert s.critical_paths == (("B",),)
+
+
+def test_a_milestone_after_unfinished_work_happened_at_the_start_of_its_day():
+    # mutant progress-started-as-done. Rule (progress.py notes): a milestone with an actual
+    # date happened at the start of that day, or at its end when a predecessor it follows
+    # ended that day. A (10 days) started Mon 01-01 and has not finished; M (after A) is
+    # dated Wed 01-03 (day 2), out of sequence, so it happened at the start of day 2. C
+    # follows M with FS+5: C may start at 2 + 5 = 7 (Wed 01-10); the data date Mon 01-08
+    # is day 5.
+    acts = [Activity("A", 10, actual_start=date(2024, 1, 1), remaining=4),
+            Activity("M", 0, actual_start=date(2024, 1, 3), actual_finish=date(2024, 1, 3)),
+            Activity("C", 2)]
+    p = make_project(acts, [Link("A", "M"), Link("M", "C", FS, 5)], data_date=date(2024, 1, 8))
+    s = schedule(p)
+    assert len(s.warnings) == 1 and "A -> M" in s.warnings[0]  # out of sequence
+    c = s.by_id()["C"]
+    assert (c.es, c.ef) == (7, 9)

@@ -29,19 +29,19 @@ class Mutant:
     equivalent: str = ""  # why no behaviour changes, for an equivalent mutant
 
 
-_CPM = ("tests/test_cpm_references.py", "tests/test_network_paths.py", "tests/test_audit_gaps.py",
-        "tests/test_progress.py")
+_CPM = ("tests/test_mutants_network.py", "tests/test_cpm_references.py", "tests/test_network_paths.py",
+        "tests/test_audit_gaps.py", "tests/test_progress.py")
 _CAL = ("tests/test_calendar.py", "tests/test_calendars_per_activity.py")
-_LP = ("tests/test_crashing_references.py", "tests/test_crashing_properties.py", "tests/test_audit_gaps.py")
+_LP = ("tests/test_mutants_plans.py", "tests/test_crashing_references.py", "tests/test_crashing_properties.py", "tests/test_audit_gaps.py")
 
 TESTS: dict[str, tuple[str, ...]] = {
     "passes.py": _CPM + _CAL[1:],
-    "network.py": _CPM + _CAL[1:],
+    "network.py": _CPM + _CAL[1:] + ("tests/test_mutants_plans.py",),
     "cpm.py": _CPM,
     "calendar.py": _CAL + ("tests/test_milestone_dates.py",),
-    "progress.py": ("tests/test_progress.py", "tests/test_milestone_dates.py", "tests/test_milestones.py"),
-    "time_costs.py": ("tests/test_milestones.py", "tests/test_crashing_references.py"),
-    "checks.py": ("tests/test_progress.py", "tests/test_calendars_per_activity.py",
+    "progress.py": ("tests/test_mutants_network.py", "tests/test_progress.py", "tests/test_milestone_dates.py", "tests/test_milestones.py"),
+    "time_costs.py": ("tests/test_mutants_plans.py", "tests/test_milestones.py", "tests/test_crashing_references.py"),
+    "checks.py": ("tests/test_mutants_checks.py", "tests/test_progress.py", "tests/test_calendars_per_activity.py",
                   "tests/test_crashing_properties.py", "tests/test_discrete.py"),
     "crash_model.py": _LP + ("tests/test_discrete.py", "tests/test_milestones.py", "tests/test_solvers.py"),
     "crash_ties.py": _LP + ("tests/test_discrete.py", "tests/test_partial.py"),
@@ -49,7 +49,7 @@ TESTS: dict[str, tuple[str, ...]] = {
     "partial.py": ("tests/test_partial.py", "tests/test_audit_gaps.py"),
     "dominated.py": ("tests/test_dominated.py",),
     "planner.py": _LP + ("tests/test_milestones.py",),
-    "recovery.py": ("tests/test_milestones.py", "tests/test_audit_gaps.py", "tests/test_messages.py"),
+    "recovery.py": ("tests/test_mutants_plans.py", "tests/test_milestones.py", "tests/test_audit_gaps.py", "tests/test_messages.py"),
     "cautions.py": ("tests/test_cautions.py",),
     "quality.py": ("tests/test_quality.py",),
     "project.py": ("tests/test_crashing_references.py", "tests/test_formats.py"),
