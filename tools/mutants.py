@@ -8,8 +8,8 @@ in ``equivalent`` and is not counted in the score.
 ``TESTS`` maps each mutated file to the test files run first (the whole suite runs only when
 these pass). Keep both up to date when the code changes: ``python tools/mutation.py --check``.
 
-Still to add: mutants of ``plan_check.py`` once it replaces ``checks.py`` (its own branch);
-move the ``checks.py`` entries there then.
+Still to add: mutants of ``plan_check.py``, which replaced ``checks.py`` (whose ten mutants
+were removed with it; the plan check's wrong-plan tests are in tests/test_plan_check.py).
 """
 
 from __future__ import annotations
@@ -41,8 +41,6 @@ TESTS: dict[str, tuple[str, ...]] = {
     "calendar.py": _CAL + ("tests/test_milestone_dates.py",),
     "progress.py": ("tests/test_mutants_network.py", "tests/test_progress.py", "tests/test_milestone_dates.py", "tests/test_milestones.py"),
     "time_costs.py": ("tests/test_mutants_plans.py", "tests/test_milestones.py", "tests/test_crashing_references.py"),
-    "checks.py": ("tests/test_mutants_checks.py", "tests/test_progress.py", "tests/test_calendars_per_activity.py",
-                  "tests/test_crashing_properties.py", "tests/test_discrete.py"),
     "crash_model.py": _LP + ("tests/test_discrete.py", "tests/test_milestones.py", "tests/test_solvers.py"),
     "crash_ties.py": _LP + ("tests/test_discrete.py", "tests/test_partial.py"),
     "crash_calendars.py": ("tests/test_calendars_per_activity.py",),
@@ -248,47 +246,6 @@ MUTANTS: tuple[Mutant, ...] = (
       "indirect = project.costs.indirect_per_day * finish",
       "indirect = project.costs.indirect_per_day * max(finish - 1, 0)",
       "indirect cost one day short"),
-    # -- checks.py: the independent plan check ---------------------------------------------------
-    M("checks-step-order", "checks.py",
-      "        take = min(left, step.days)\n",
-      "        take = left\n",
-      "crash cost recomputed with every day at the first step's price"),
-    M("checks-later-kind", "checks.py",
-      "later = np.where(kind <= 1, shown[succ], f[succ])",
-      "later = np.where(kind < 1, shown[succ], f[succ])",
-      "check: SS links compare the successor's finish"),
-    M("checks-earlier-kind", "checks.py",
-      "earlier = np.where((kind == 0) | (kind == 2), f[pred], shown[pred])",
-      "earlier = np.where((kind == 0) | (kind == 3), f[pred], shown[pred])",
-      "check: FF from the predecessor's start, SF from its finish"),
-    M("checks-link-lag", "checks.py",
-      "broken = np.flatnonzero(later < earlier + self.lag)",
-      "broken = np.flatnonzero(later < earlier)",
-      "check: lags not enforced"),
-    M("checks-target-off-by-one", "checks.py",
-      "if target is not None and finish > target:",
-      "if target is not None and finish > target + 1:",
-      "check: a plan one day past its target passes"),
-    M("checks-cost-one-sided", "checks.py",
-      "if claimed_cost is not None and abs(cost - claimed_cost) > 1e-6 * max(1.0, abs(cost)):",
-      "if claimed_cost is not None and cost - claimed_cost > 1e-6 * max(1.0, abs(cost)):",
-      "check: an over-claimed cost passes"),
-    M("checks-earliest", "checks.py",
-      "bad = np.flatnonzero(~self.done & (s < self.earliest))",
-      "bad = np.flatnonzero(~self.done & (s < self.earliest - 1))",
-      "check: work may start a day before the data date or its not-before date"),
-    M("checks-damages-negative", "checks.py",
-      "total += a.damages_per_day * max(0, late)",
-      "total += a.damages_per_day * late",
-      "milestone damages negative when early"),
-    M("checks-option-days", "checks.py",
-      "return option.added_cost + option.cost_per_day * (option.duration - duration)",
-      "return option.added_cost",
-      "an option's own shortening priced at nothing"),
-    M("checks-finish-across", "checks.py",
-      "project.offset_of(c.date_of(int(x) - 1), finish=False) + 1",
-      "project.offset_of(c.date_of(int(x)), finish=False)",
-      "check: project finish of work on another calendar one day off"),
     # -- crash_model.py: the LP rows and bounds --------------------------------------------------
     M("lp-later-kind", "crash_model.py",
       "later = np.where((kind == _FS) | (kind == _SS), self.start[succ], self.end[succ])",
