@@ -33,3 +33,65 @@ def test_why_recovery_fails_counts_an_options_own_shortening():
     assert not full.possible
     assert full.note == ("not possible: the contract finish 2024-01-12 cannot be met: the shortest "
                          "possible finish is 20 working days (2024-01-26, 14 calendar days later)")
+
+
+def test_the_earliest_finish_within_a_budget_buys_only_whole_days_it_can_pay_for():
+    # mutant lp-budget-round-down. A (10 days, crash to 6 at 100 a day) -> B (5 days):
+    # normal finish 15. A budget of 150 buys one day (100), not two (200): earliest finish
+    # 14. M, a milestone with a deadline far ahead (no damages), makes the question go to
+    # the one-solve path (Planner.earliest_within: no convexity assumed with deadlines).
+    acts = [Activity("A", 10, crash_duration=6, cost=0.0, crash_cost=400.0), Activity("B", 5),
+            Activity("M", 0, deadline=date(2024, 12, 31))]
+    p = make_project(acts, [Link("A", "B"), Link("B", "M")])
+    planner = Planner(p)
+    assert planner.normal_finish == 15
+    plan = planner.earliest_within(150.0)
+    assert (plan.finish, plan.added_cost) == (14, 100.0)
+
+
+def test_the_tie_break_of_options_never_spends_more():
+    # mutant ties-mip-slack. A (4 days) -> B (4 days) -> C (4 days), finish 12, target 10.
+    # B and C can each lose a day at 500; A has an option "second crew", 2 days at 1,005.
+    # Least cost: B and C one day each, 1,000 (two changes); the option changes one
+    # activity but costs 1,005, and the fewest changes are sought only among plans of equal
+    # cost (README, Method, "Ties").
+    acts = [Activity("A", 4, options=(Option("second crew", 2, 1005.0),)),
+            Activity("B", 4, crash_duration=3, cost=0.0, crash_cost=500.0),
+            Activity("C", 4, crash_duration=3, cost=0.0, crash_cost=500.0)]
+    p = make_project(acts, [Link("A", "B"), Link("B", "C")])
+    plan = Planner(p).plan(10)
+    assert plan.added_cost == 1000.0
+    assert {c.id: c.duration for c in plan.activities} == {"A": 4, "B": 3, "C": 3}
+
+
+def test_the_tie_break_prefers_fewer_activities_to_fewer_days():
+    # mutant ties-weight-days. A (3 days, to 1 at 40 a day) is followed by B (7 days, to 1
+    # at 40 a day) and by C (8 days, to 2 at no cost). Normal finish 3 + 8 = 11; target 6
+    # needs dA + dB <= 6 and dA + dC <= 6. A and B cost the same per day, so every plan
+    # with cut(A) + cut(B) = 4 costs 160, the least:
+    #   cut A 0: B 4, C 5 (free)  -> 2 activities, 9 days
+    #   cut A 1: A 1, B 3, C 4    -> 3 activities, 8 days
+    #   cut A 2: A 2, B 2, C 3    -> 3 activities, 7 days
+    # The rule (README, Method, "Ties"): the fewest shortened activities, then the fewest
+    # days: the first, whatever the days.
+    acts = [Activity("A", 3, crash_duration=1, cost=0.0, crash_cost=80.0),
+            Activity("B", 7, crash_duration=1, cost=0.0, crash_cost=240.0),
+            Activity("C", 8, crash_duration=2, cost=0.0, crash_cost=0.0)]
+    plan = Planner(make_project(acts, [Link("A", "B"), Link("A", "C")])).plan(6)
+    assert plan.added_cost == 160.0
+    assert [c.duration for c in plan.activities] == [3, 3, 3]
+
+
+def test_an_option_of_the_normal_duration_counts_as_a_change():
+    # mutant ties-mip-option-changed. README, Method, "Ties": the tie-break of a MILP
+    # "counts the activities changed (shortened, or performed by an option)". An option
+    # that keeps the normal 4 days still changes how A is done: 1 activity, 0 days.
+    from hasten.crash_model import CrashModel, Solution
+    from hasten.crash_ties import changes
+    from hasten.network import Network
+
+    acts = [Activity("A", 4, options=(Option("other supplier", 4, -50.0),)), Activity("B", 3)]
+    model = CrashModel(Network(make_project(acts, [Link("A", "B")])))
+    assert changes(model, Solution((4, 3), 0.0, -50.0, choices=(0, -1))) == (1, 0)
+    assert changes(model, Solution((4, 2), 0.0, 0.0, choices=(-1, -1))) == (1, 1)
+    assert changes(model, Solution((4, 3), 0.0, 0.0, choices=(-1, -1))) == (0, 0)
