@@ -48,6 +48,7 @@ from hasten.project import Activity, Link, LinkType, Project  # noqa: E402
 COMPRESS = 60
 CURVE_TARGET = 1.3
 PLAN_TARGET = 1.5
+FULL_CURVE_TARGET = 2.0
 
 
 def layered(n: int) -> tuple[Project, list[dict]]:
@@ -111,6 +112,26 @@ def bench_curve(name: str, project: Project, acts: list[dict], repeat: int) -> b
     return ok
 
 
+def bench_fullcurve(name: str, project: Project, acts: list[dict], repeat: int) -> bool:
+    """The whole curve, normal finish to the shortest, against floors.warm_trace over the
+    same days (its build and first solve included, as ours includes Planner())."""
+    ours, floor = [], []
+    for _ in range(repeat):
+        curve, wall, _ = _timed(lambda: Planner(project).curve())
+        ours.append(wall)
+        normal, shortest = curve.normal_finish, curve.points[-1].finish
+        (cost, t), _, _ = _timed(lambda: floors.warm_trace(acts, normal, shortest))
+        floor.append(t)
+    ratio = statistics.median(ours) / statistics.median(floor)
+    last = curve.points[-1].added_cost
+    agree = abs(last - cost) <= 1e-6 * max(1.0, abs(cost))
+    ok = ratio <= FULL_CURVE_TARGET and agree
+    print(f"{name:<22} whole curve {len(curve.points)} points  {statistics.median(ours):7.3f} s  "
+          f"warm_trace {statistics.median(floor):7.3f} s  ratio {ratio:5.2f}x (<= {FULL_CURVE_TARGET}x)  "
+          f"cost {last:,.0f}/{cost:,.0f}  {'PASS' if ok else 'FAIL'}", flush=True)
+    return ok
+
+
 def bench_plan(name: str, project: Project, acts: list[dict], repeat: int) -> bool:
     normal = Planner(project).normal_finish
     target = normal - COMPRESS
@@ -131,7 +152,7 @@ def bench_plan(name: str, project: Project, acts: list[dict], repeat: int) -> bo
 
 def main(argv=None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
-    parser.add_argument("what", choices=["curve", "plan", "all"])
+    parser.add_argument("what", choices=["curve", "plan", "fullcurve", "all"])
     parser.add_argument("--n", type=int, action="append", help="activities (repeatable)")
     parser.add_argument("--net", choices=["layered", "generated", "both"], default="both")
     parser.add_argument("--repeat", type=int, default=3)
@@ -142,7 +163,7 @@ def main(argv=None) -> int:
     print(f"load average {' '.join(f'{x:.2f}' for x in os.getloadavg())}; {os.cpu_count()} CPUs; "
           f"BLAS threads: {blas_threads()}; cycle collector {'on' if args.gc else 'off'}",
           flush=True)
-    sizes = args.n or ([2000, 10000] if args.what != "plan" else [10000])
+    sizes = args.n or {"plan": [10000], "fullcurve": [2000]}.get(args.what, [2000, 10000])
     nets = ["layered", "generated"] if args.net == "both" else [args.net]
     ok = True
     for n in sizes:
@@ -151,6 +172,8 @@ def main(argv=None) -> int:
             label = f"{net} {n:,}"
             if args.what in ("curve", "all"):
                 ok &= bench_curve(label, project, acts, args.repeat)
+            if args.what == "fullcurve" or (args.what == "all" and n <= 2000):
+                ok &= bench_fullcurve(label, project, acts, args.repeat)
             if args.what in ("plan", "all") and (args.what == "plan" or n >= 10000):
                 ok &= bench_plan(label, project, acts, args.repeat)
     return 0 if ok else 1
