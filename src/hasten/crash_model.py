@@ -21,6 +21,12 @@ tests show it on random networks). Solutions are still rounded and checked; shou
 one ever come out fractional, the shortening columns are made integer and the model
 is solved again.
 
+On one calendar without discrete options or milestone deadlines the model is built slim
+(:meth:`CrashModel._slim_rows`): each end is written as ``s_i + D_i - sum_k y_ik`` in the
+rows that use it, so there are no end columns and no duration rows. That is an affine
+one-to-one map of the feasible set above, so its vertices are the same whole-day plans;
+each warm re-solve has a third fewer rows and columns.
+
 Cost steps must be convex (cost per day not falling from one step to the next); the
 LP then takes the cheaper step first by itself.
 
