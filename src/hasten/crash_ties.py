@@ -97,11 +97,23 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool,
     lm.node_limit = TIE_BREAK_NODES
     if lm.time_limit is None:
         lm.time_limit = 30.0
+    spare = lm.copy()  # (no solver attached yet)
     out = lm.solve()
     if out.values is None or out.status != "optimal":
         return None
     values = out.values[: model.lp.num_cols]
     sol = model.solution_of(values, out)
+    if sol is None:
+        # The cost row's tolerance lets continuous shortening trade a few hundred-thousandths
+        # of a day between activities (1.000015 and 0.999985 days, hypothesis found it):
+        # read as fractional, the better plan was lost. Solve again, on a fresh copy, with
+        # whole shortening days (slower, so only when needed).
+        spare.set_integer(np.concatenate([model.cuts, model.opt_w]), True)
+        out = spare.solve()
+        if out.values is None or out.status != "optimal":
+            return None
+        values = out.values[: model.lp.num_cols]
+        sol = model.solution_of(values, out)
     if sol is None or changes(model, sol) >= changes(model, best):
         return None
     if model.relations and not holds(model, out, "cost", target, strict)[0]:
