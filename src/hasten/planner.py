@@ -159,7 +159,8 @@ class Planner:
         return max(self.target_by_date(contract), self.shortest_finish)
 
     # -- plans -------------------------------------------------------------------------
-    def _solve(self, target: int, *, tie_break: bool = True, strict: bool = False) -> Solution:
+    def _solve(self, target: int, *, tie_break: bool = True, strict: bool = False,
+               or_none: bool = False) -> Solution | None:
         deadlines = strict and any(a.deadline is not None for a in self.project.activities)
         if target >= self.normal_finish and not (self.discrete or self.penalised or deadlines):
             return Solution(tuple(self.network.durations), 0.0, 0.0)
@@ -172,6 +173,8 @@ class Planner:
                 return sol
         sol = self.model.least_cost(target, tie_break=tie_break, strict=strict)
         if sol is None:
+            if or_none:  # (the caller knows what to make of it: no solve for the message)
+                return None
             if strict and target >= self.shortest_finish:
                 raise HastenError(f"no plan meets every interim milestone deadline by a finish of "
                                   f"{target} working days")
@@ -296,7 +299,10 @@ class Planner:
         exactly as a MILP from scratch (see :mod:`hasten.solver_model`).
         """
         hi = self.normal_finish if longest is None else min(longest, self.normal_finish)
-        lo = self.shortest_finish if shortest is None else shortest
+        # Down to the shortest finish, with linear costs: traced until a day has no plan (the
+        # warm re-solve finds that at once), not found first by a cold solve of its own
+        to_the_end = shortest is None and self._shortest is None and self._partial_ok
+        lo = 0 if to_the_end else self.shortest_finish if shortest is None else shortest
         if lo > hi:
             raise HastenError(f"the curve range is empty: the shortest finish asked ({lo} working "
                               f"days) is after the longest ({hi})")
@@ -305,11 +311,19 @@ class Planner:
         targets = list(range(top, lo - 1, -1))
         solved: dict[int, tuple[Solution, float, float]] = {}
         for k, target in enumerate(targets):
-            sol = self._solve(target, tie_break=False)  # raises below the shortest finish
+            sol = self._solve(target, tie_break=False, or_none=to_the_end)  # (else raises)
+            if sol is None:  # the day before was the shortest finish
+                self._shortest = lo = min(target + 1, self.normal_finish)
+                break
             figures = self._checked(sol, target)
             solved[target] = (sol, figures.cost, figures.damages)
             if progress:
-                progress(k + 1, len(targets))
+                progress(k + 1, k + 2 if to_the_end else len(targets))
+        if to_the_end and self._shortest is None:
+            self._shortest = lo  # (day 0: nothing takes time)
+        if lo > hi:
+            raise HastenError(f"the curve range is empty: the shortest finish ({lo} working "
+                              f"days) is after the longest asked ({hi})")
         import numpy as np  # (loaded with the network already)
 
         ids = self.network.ids
