@@ -498,8 +498,7 @@ class CrashModel:
         if best is None or not tie_break:
             return best
         if self.lp.is_mip:
-            start = None if self._last is None else self._last.values
-            fewer = crash_ties.fewest_changed_mip(self, best, target, strict, start)
+            fewer = crash_ties.fewest_changed_mip(self, best, target, strict)
             return best if fewer is None else fewer
         if best.added_cost == 0:
             return best

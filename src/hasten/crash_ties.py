@@ -36,8 +36,7 @@ def changes(model, sol: Solution) -> tuple[int, int]:
     return changed, sum(n - d for d, n in zip(sol.durations, normal))
 
 
-def fewest_changed_mip(model, best: Solution, target: int, strict: bool,
-                       start: np.ndarray | None = None) -> Solution | None:
+def fewest_changed_mip(model, best: Solution, target: int, strict: bool) -> Solution | None:
     """The tie-break of a MILP (discrete options, several calendars): among plans
     costing no more than ``best`` (acceleration and milestone damages), the one that
     changes the fewest activities (shortened, or performed by an option), then takes
@@ -45,9 +44,9 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool,
     and 0/1 "changed" columns; ``None`` when it finds nothing better or its plan does
     not hold exactly (relations between calendars are relaxed in the copy).
 
-    ``start``: the least-cost plan's column values. Given to the copy (a fresh solver
-    object) as its first incumbent, with each activity it changes counted as changed: the
-    search then starts from a plan it must not do worse than."""
+    Not given the least-cost plan as a start: HiGHS 1.16, given it, called it optimal
+    where a plan with fewer changes existed (tests/test_discrete.py,
+    ``test_the_tie_break_is_not_fooled_by_a_start``)."""
     if not best.proven or changes(model, best)[0] == 0:
         return None
     n = len(model.net)
@@ -79,12 +78,6 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool,
     lm.define_objective("fewest_changed", np.concatenate([z, day_cols]),
                         np.concatenate([np.full(len(z), weight), day_coef]))
     lm.use_objective("fewest_changed")
-    if start is not None and len(start) == model.lp.num_cols:
-        x = np.asarray(start, dtype=float)
-        used = np.zeros(n, dtype=bool)
-        used[model.cut_owner[x[model.cuts] > 1e-9]] = True
-        used[model.opt_owner[x[model.opt_x] > 1e-9]] = True
-        lm.start = np.concatenate([x, used[owners].astype(float)])
     if model.horizon_finish is not None:
         target = min(target, model.horizon_finish)
     lm.set_col_bounds(model.finish, 0.0, float(target))

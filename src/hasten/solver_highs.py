@@ -68,10 +68,6 @@ class HighsBackend:
         self._warm = False
         self._added(model, 0, 0)
         self.set_objective(model._objective_vector())
-        if model.start is not None and model.is_mip:
-            # a fresh object only: a start given to a re-solve was seen to end on a worse plan
-            n = model.num_cols
-            self.h.setSolution(n, np.arange(n, dtype=np.int32), np.asarray(model.start, dtype=float))
 
     def _added(self, model: LinearModel, col0: int, row0: int) -> None:
         h, inf = self.h, highspy.kHighsInf

@@ -75,8 +75,6 @@ class LinearModel:
         self.solver = available_solver(solver)
         self.time_limit = time_limit
         self.node_limit: int | None = None  # a MILP stops after this many branch-and-bound nodes
-        #: A feasible point handed to a fresh MILP as its first incumbent (HiGHS only; see solve)
-        self.start: np.ndarray | None = None
         self.col_lower: list[float] = []
         self.col_upper: list[float] = []
         self.col_integer: list[bool] = []
@@ -111,7 +109,6 @@ class LinearModel:
         other.objectives = dict(self.objectives)
         other._backend = None
         other._pending_cols = other._pending_rows = 0
-        other.start = None
         return other
 
     def reduced(self, fixed, values) -> tuple["LinearModel", np.ndarray]:
@@ -275,11 +272,9 @@ class LinearModel:
         """Solve. ``duals``: also return reduced costs, duals and row values of an LP
         optimum (HiGHS only).
 
-        A MILP is not given the previous plan as a start when it is re-solved: with HiGHS
-        1.16 a MILP re-solved after a bound change with the previous plan as a start (whole
-        or only its integer columns) ended "optimal" on a worse plan (PSPLIB j1012_10 at
-        deadlines 11-12). ``start`` is used only by a fresh model's first solve (the
-        tie-break's copy, given the least-cost plan it must not do worse than)."""
+        A MILP is not given the previous plan as a start: with HiGHS 1.16 a MILP re-solved
+        after a bound change with the previous plan as a start (whole or only its integer
+        columns) ended "optimal" on a worse plan (PSPLIB j1012_10 at deadlines 11-12)."""
         if self.objective is None:
             raise SolverError("no objective chosen")
         if self._backend is None:
