@@ -15,6 +15,11 @@ before the current finish.
   early (found beforehand, not timed). **Target: at most 3x one plan.**
 * ``best``: ``Planner(p).best_finish()``. **Target: at most 3x one plan.**
 
+With ``--cli DIR`` the project is also written to ``DIR`` (reused when it reads back equal)
+and the three commands run end to end (``hasten plan DIR --earlier 60d --json``, ``hasten
+budget DIR --spend S --json``, ``hasten best DIR --json``, output to /dev/null) under
+``/usr/bin/time -v``: wall time and peak resident memory of each, reading included.
+
 At 200,000 activities the targets are under 2 minutes and under 2 GB for each of budget
 and best. Each measurement runs in a child process of its own (``--one``), so its peak
 resident memory (``resource.getrusage``, the child's ``ru_maxrss``) is its own: it
@@ -40,7 +45,7 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 
-from generate import random_project  # noqa: E402
+from generate import project_folder, random_project  # noqa: E402
 from hasten.planner import Planner  # noqa: E402
 from hasten.project import Contract, Costs  # noqa: E402
 
@@ -88,6 +93,23 @@ def child(what: str, n: int, spend: float | None = None) -> dict:
     return json.loads(out.strip().splitlines()[-1])
 
 
+def cli(n: int, workdir: Path, spend: float) -> None:
+    """The three commands end to end under /usr/bin/time -v."""
+    folder, written = project_folder(project_for(n), workdir)
+    print(f"project folder {folder} ({'reused' if written is None else f'written in {written:.1f} s'})",
+          flush=True)
+    hasten = [sys.executable, "-m", "hasten"]
+    for name, args in [("plan", ["plan", str(folder), "--earlier", f"{COMPRESS}d", "--json"]),
+                       ("budget", ["budget", str(folder), "--spend", repr(spend), "--json"]),
+                       ("best", ["best", str(folder), "--json"])]:
+        done = subprocess.run(["/usr/bin/time", "-v", *hasten, *args], stdout=subprocess.DEVNULL,
+                              stderr=subprocess.PIPE, text=True)
+        stats = dict(line.strip().rsplit(": ", 1) for line in done.stderr.splitlines() if ": " in line)
+        rss = int(stats.get("Maximum resident set size (kbytes)", 0)) * 1024
+        print(f"  hasten {name:<7} exit {done.returncode}  wall {stats.get('Elapsed (wall clock) time (h:mm:ss or m:ss)')}"
+              f"  user {stats.get('User time (seconds)')} s  peak {rss / 2 ** 20:,.0f} MiB", flush=True)
+
+
 def main(argv=None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--n", type=int, default=20000)
@@ -95,6 +117,7 @@ def main(argv=None) -> int:
     parser.add_argument("--one", choices=["plan", "spend", "budget", "best"], help=argparse.SUPPRESS)
     parser.add_argument("--spend", type=float, help=argparse.SUPPRESS)
     parser.add_argument("--only", choices=["budget", "best"], help="measure one question (and the plan)")
+    parser.add_argument("--cli", type=Path, metavar="DIR", help="also run the commands end to end on a folder in DIR")
     args = parser.parse_args(argv)
     if args.one:
         print(json.dumps(one(args.one, args.n, args.spend)))
@@ -110,6 +133,8 @@ def main(argv=None) -> int:
             runs[q].append(r)
             print(f"  {q:<7} {r['seconds']:8.2f} s  peak {r['rss'] / 2 ** 20:7.0f} MiB  "
                   + "  ".join(f"{k} {v:,.0f}" for k, v in r.items() if k not in ("seconds", "rss")), flush=True)
+    if args.cli:
+        cli(args.n, args.cli, spend)
     plan = statistics.median(r["seconds"] for r in runs["plan"])
     ok = True
     for q in questions[1:]:
