@@ -30,6 +30,8 @@ from .time_costs import net_time_costs, time_costs
 
 __all__ = ["Planner", "Progress"]
 
+GROW = 3  # best: days priced at most this many times as deep as the deepest priced yet
+
 #: A progress callback: ``(done, total)`` after each solve of a long trace.
 Progress = Callable[[int, int], None]
 
@@ -395,10 +397,12 @@ class Planner:
         The time costs (indirect, damages, bonus; not convex, calendar days per working day
         vary) are known at every day without a solve. A day is settled when its lower bound
         of total cost cannot beat the least found (ties go to the later finish); the open
-        day with the least bound is priced next with the day before it (two warm solves),
-        never more than twice as far from the current finish as the deepest day priced (so
-        that the part of the network solved grows in few steps). A day without a plan gives
-        the shortest finish, and nothing before it is open.
+        day with the least bound (plus, beyond the deepest pair of days priced, the last rise
+        of a day's cost carried on: a guess that orders, never settles) is priced next with
+        the day before it (two warm solves), never more than ``GROW`` times as far from the
+        current finish as the deepest day priced (so that the part of the network solved
+        grows in few steps). A day without a plan gives the shortest finish, and nothing
+        before it is open.
         """
         import numpy as np
 
@@ -441,7 +445,7 @@ class Planner:
                 progress(len(rows), len(rows) + len(open_days))
             if not len(open_days):
                 break
-            reach = max(2 * (n - known[0]), 2)  # twice the deepest day priced
+            reach = max(GROW * (n - known[0]), 2)  # GROW times the deepest day priced
             near = open_days[open_days >= n - reach]
             if len(near):
                 guess = lower + self._deeper_guess(rows, days)
