@@ -16,6 +16,7 @@ from typer.testing import CliRunner
 from conftest import load_json, make_project, project_from_example
 from hasten.cli import app
 from hasten.formats import read_project, write_project
+from hasten.planner import Planner
 from hasten.project import Activity, Calendar, Contract, Link
 
 runner = CliRunner()
@@ -193,11 +194,14 @@ def test_best_counts_damages_and_bonus(tmp_path: Path):
                                        bonus_cap_days=3))
     write_project(p, tmp_path / "p")
     data = json.loads(run("best", tmp_path / "p", "--json").output)
-    rows = {r["finish"]: r for r in data["table"]}
+    rows = {r["finish"]: r for r in data["table"]}  # the finishes priced
     # all-days calendar from 2024-01-01: finish 30 -> last day 2024-01-30, 5 days late
     assert rows[30]["damages"] == 5000 and rows[30]["bonus"] == 0
+    for t, r in rows.items():  # finish t -> last day 2024-01-t: t - 25 days late (or early)
+        assert r["damages"] == 1000 * max(t - 25, 0) and r["bonus"] == 100 * min(max(25 - t, 0), 3)
+        assert r["added_cost"] == 300 * (30 - t)
     # finish 20 -> 2024-01-20, 5 days early, bonus capped at 3 days
-    assert rows[20]["bonus"] == 300 and rows[20]["added_cost"] == 10 * 300
+    assert Planner(p).total_cost_point(20, 10 * 300).time.bonus == 300
     # each day cut costs 300 and saves 1000 until the contract date (finish 25), then earns
     # at most 100 for three days: the best is finish 25
     assert data["finish"] == 25

@@ -18,13 +18,13 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from conftest import (PROPERTY, TOL, make_project, brute_force_curve, link_holds, linprog_least_cost,
+from conftest import (PROPERTY, START, TOL, make_project, brute_force_curve, link_holds, linprog_least_cost,
                       linprog_min_finish, own_cut_cost, own_finish, projects, slope)
 from hasten.plan_check import check_plan
-from hasten.time_costs import time_costs
+from hasten.time_costs import net_time_costs, time_costs
 from hasten.planner import Planner
 from hasten.errors import InfeasibleTargetError
-from hasten.project import Activity, Contract, Costs, Link
+from hasten.project import Activity, Calendar, Contract, Costs, Link
 from hasten.network import Network
 from hasten.crash_model import CrashModel, Objective
 
@@ -152,14 +152,53 @@ def test_best_is_least_total_over_the_curve(project, indirect, contract_shift, d
     best = study.best_finish()
     assert close(best.point.total_cost, least)
     assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
-    # the table: every day from the current finish down to where one more day costs more than
-    # time can save (with convex costs nothing earlier can be cheaper), or down to the shortest
-    finishes = sorted(r.finish for r in best.table)
-    assert finishes == list(range(finishes[0], study.normal_finish + 1)) and set(finishes) <= set(totals)
+    # the table: the finishes priced (a branch and bound over the convex added cost prices
+    # only days that could still be the least), the current finish and the best among them
+    finishes = [r.finish for r in best.table]
+    assert finishes == sorted(set(finishes)) and set(finishes) <= set(totals)
+    assert study.normal_finish in finishes
     for row in best.table:
         assert close(row.total_cost, totals[row.finish])
     assert close(best.plan.added_cost, best.point.added_cost)
     assert best.plan.finish <= best.point.finish
+
+
+@PROPERTY
+@given(projects(min_n=3, max_n=9, max_duration=15), st.data())
+def test_best_by_bounds_is_the_least_total_of_every_day(project, data):
+    # definition again, on the path that prices only some days (linear costs, one calendar):
+    # the least total over the whole curve (every day solved) plus the time costs of each day
+    # (hasten.time_costs, day by day); contract dates weeks before the finish so that damages
+    # and bonus both run, calendars with weekends and holidays (a working day spans 1 to 5
+    # calendar days), indirect costs equal to a crash slope (flat stretches: ties)
+    workdays = data.draw(st.sampled_from([(0, 1, 2, 3, 4), (0, 1, 2, 3, 4, 5), (0, 2, 4), tuple(range(7))]))
+    holidays = tuple(sorted(set(START + timedelta(days=k) for k in data.draw(
+        st.lists(st.integers(0, 90), max_size=8)))))
+    project = dataclasses.replace(project, calendar=Calendar(workdays=workdays, holidays=holidays))
+    slopes = [slope(a) for a in project.activities if a.duration > a.shortest]
+    indirect = data.draw(st.one_of(st.integers(0, 60), st.sampled_from(slopes or [0])))
+    study = Planner(project)
+    shift = data.draw(st.integers(-25, 8))  # working days before (-) or after the current finish
+    contract_day = study.clock.date_of(max(study.normal_finish + shift - 1, 0))
+    project = dataclasses.replace(project, costs=Costs(indirect_per_day=indirect), contract=Contract(
+        finish=contract_day, damages_per_day=data.draw(st.integers(0, 40)),
+        bonus_per_day=data.draw(st.integers(0, 40)), bonus_cap_days=data.draw(st.one_of(st.none(), st.integers(0, 9)))))
+    study = Planner(project)
+    assert study._partial_ok  # the branch and bound, not the day-by-day trace
+    curve = Planner(project).curve()
+    totals = {p.finish: project.normal_direct_cost + p.added_cost
+              + time_costs(project, study.clock, p.finish).net for p in curve}
+    least = min(totals.values())
+    best = study.best_finish()
+    assert close(best.point.total_cost, least)
+    assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
+    for row in best.table:
+        assert close(row.total_cost, totals[row.finish])
+        assert row.time == time_costs(project, study.clock, row.finish)
+    assert study.normal_finish in [r.finish for r in best.table]
+    # the time costs the bounds use, all days at once, are time_costs day by day
+    assert net_time_costs(project, study.clock, study.normal_finish).tolist() == [
+        time_costs(project, study.clock, t).net for t in range(study.normal_finish + 1)]
 
 
 @PROPERTY

@@ -26,9 +26,11 @@ from .plan_check import PlanChecker
 from .plan_costs import PlanCosts
 from .project import Project
 from .results import ActivityChange, BestFinish, Curve, CurvePoint, Plan, TotalCostPoint, TradeTotal
-from .time_costs import time_costs
+from .time_costs import net_time_costs, time_costs
 
 __all__ = ["Planner", "Progress"]
+
+GROW = 3  # best: days priced at most this many times as deep as the deepest priced yet
 
 #: A progress callback: ``(done, total)`` after each solve of a long trace.
 Progress = Callable[[int, int], None]
@@ -99,6 +101,7 @@ class Planner:
         self._shortest: int | None = None
         self._partial: PartialSolver | None = None
         self._partial_ok = solvable_on_part(self.network)  # plans may be solved on a part (hasten.partial)
+        self._direct: float | None = None
         self._reach = 0  # least reach of the focused part (the curve widens it once)
 
     # -- basics ------------------------------------------------------------------------
@@ -355,10 +358,17 @@ class Planner:
         return "" if choice < 0 else self.network.options[i][choice].name
 
     # -- total cost --------------------------------------------------------------------
+    @property
+    def normal_direct_cost(self) -> float:
+        """The project's direct cost at normal durations (summed once)."""
+        if self._direct is None:
+            self._direct = self.project.normal_direct_cost
+        return self._direct
+
     def total_cost_point(self, finish: int, added_cost: float, milestone_damages: float = 0.0) -> TotalCostPoint:
         """Direct, indirect, damages and bonus of finishing at ``finish`` with ``added_cost``."""
         return TotalCostPoint(finish, self.network.finish_date(finish),
-                              self.project.normal_direct_cost + added_cost, added_cost,
+                              self.normal_direct_cost + added_cost, added_cost,
                               time_costs(self.project, self.clock, finish, floor=self.network.finish_floor),
                               milestone_damages)
 
@@ -367,14 +377,16 @@ class Planner:
 
         Ties go to the later finish: the same money for less acceleration. With linear
         costs on one calendar (no discrete options, no milestone deadlines) the added cost
-        is convex in the finish, so the cost of each further day only grows: the trace
-        stops at the first day that costs more than any day can save in time costs
-        (indirect cost, plus damages and bonus over the most calendar days one working day
-        can span), and ``table`` holds the finishes traced. Otherwise every finish from the
-        shortest to the current one is priced.
+        is convex in the finish: a branch and bound prices only the finishes whose total
+        could still be the least (lines through priced days bound the added cost of every
+        other day from below; the time costs of every day are known without a solve), so
+        ``table`` holds the finishes priced, the current finish among them, not every day.
+        With discrete options, calendars of their own or milestone deadlines (no convexity)
+        every finish from the shortest to the current one is solved and priced, and
+        ``table`` holds them all.
         """
         if self._partial_ok:
-            table = self._total_costs_while_they_can_fall(progress)
+            table = self._total_costs_by_bounds(progress)
         else:
             points = self.curve(progress=progress)
             table = tuple(self.total_cost_point(p.finish, p.added_cost, p.milestone_damages)
@@ -388,32 +400,95 @@ class Planner:
         current = next(r for r in table if r.finish == self.normal_finish)
         return BestFinish(point, current, table, plan, self.notes)
 
-    def _total_costs_while_they_can_fall(self, progress: Progress | None) -> tuple[TotalCostPoint, ...]:
-        """Total cost points from the current finish down, until one more day costs more in
-        acceleration than it can save in time costs (every earlier day then costs more)."""
-        contract = self.project.contract
-        rate = (contract.damages_per_day + contract.bonus_per_day) if contract.finish is not None else 0.0
-        days = self.clock.dates_of(range(self.normal_finish + 1))
-        spans = [1] + [max((b - a).days, 1) for a, b in zip(days, days[1:])]  # calendar days per working day
-        widest = list(spans)
-        for t in range(1, len(widest)):
-            widest[t] = max(widest[t], widest[t - 1])  # the widest span at or before each day
-        rows, previous = [], None
-        for target in range(self.normal_finish, -1, -1):
+    def _total_costs_by_bounds(self, progress: Progress | None) -> tuple[TotalCostPoint, ...]:
+        """Total cost points of the finishes that must be priced to know the least total:
+        a branch and bound over whole-day finishes, exact for linear costs on one calendar.
+
+        The least added cost ``D(t)`` is convex and never rises in ``t`` (a network LP with
+        whole-day data, whose optimum at a whole-day target is a whole-day plan), so a line
+        through two priced finishes ``a < b`` is a lower bound of ``D`` at every day outside
+        ``(a, b)`` (at every day when ``b = a + 1``), and ``D(t) >= D(b)`` for ``t <= b``.
+        The time costs (indirect, damages, bonus; not convex, calendar days per working day
+        vary) are known at every day without a solve. A day is settled when its lower bound
+        of total cost cannot beat the least found (ties go to the later finish); the open
+        day with the least bound (plus, beyond the deepest pair of days priced, the last rise
+        of a day's cost carried on: a guess that orders, never settles) is priced next with
+        the day before it (two warm solves), never more than ``GROW`` times as far from the
+        current finish as the deepest day priced (so that the part of the network solved
+        grows in few steps). A day without a plan gives the shortest finish, and nothing
+        before it is open.
+        """
+        import numpy as np
+
+        n = self.normal_finish
+        direct = self.normal_direct_cost
+        time = net_time_costs(self.project, self.clock, n, floor=self.network.finish_floor)
+        days = np.arange(n + 1)
+        rows: dict[int, TotalCostPoint] = {}
+        lo = 0  # no plan finishes before this day
+
+        def price(target: int) -> bool:
+            nonlocal lo
             try:
                 sol = self._solve(target, tie_break=False)
-            except InfeasibleTargetError:
-                break
-            cost = self._checked(sol, target)[1]
-            rows.append(self.total_cost_point(target, cost))
+            except InfeasibleTargetError as e:
+                lo = max(lo, e.shortest)
+                return False
+            rows[target] = self.total_cost_point(target, self._checked(sol, target).cost)
+            return True
+
+        price(n)  # the current finish: nothing added
+        while True:
+            known = sorted(rows)
+            cost = np.array([rows[t].added_cost for t in known])
+            bound = np.full(n + 1, -np.inf)
+            nxt = np.searchsorted(known, days)  # the first priced day at or after each day
+            bound[nxt < len(known)] = cost[nxt[nxt < len(known)]]  # never cheaper when tighter
+            for (a, ca), (b, cb) in zip(zip(known, cost), zip(known[1:], cost[1:])):
+                line = cb + (cb - ca) / (b - a) * (days - b)
+                outside = (days <= a) | (days >= b)
+                bound[outside] = np.maximum(bound[outside], line[outside])
+            least = min(rows.values(), key=lambda r: (round(r.total_cost, 6), -r.finish))
+            total, tol = least.total_cost, 1e-9 * max(1.0, abs(least.total_cost))
+            lower = direct + bound + time
+            settled = (lower > total + tol) | ((lower >= total - tol) & (days < least.finish))
+            settled[:lo] = True
+            settled[known] = True
+            open_days = np.flatnonzero(~settled)
             if progress:
-                progress(len(rows), len(rows) + 1)
-            can_save = self.project.costs.indirect_per_day + rate * widest[target + 1] if target + 1 < len(widest) \
-                else float("inf")
-            if previous is not None and cost - previous > can_save + 1e-9 * max(1.0, abs(cost)):
+                progress(len(rows), len(rows) + len(open_days))
+            if not len(open_days):
                 break
-            previous = cost
-        return tuple(reversed(rows))
+            reach = max(GROW * (n - known[0]), 2)  # GROW times the deepest day priced
+            near = open_days[open_days >= n - reach]
+            if len(near):
+                guess = lower + self._deeper_guess(rows, days)
+                target = int(near[np.lexsort((-near, guess[near]))[0]])  # least guess, later first
+            else:
+                target = int(open_days[-1])
+            if target - 1 >= lo and target - 1 not in rows:  # the deeper day first: the part
+                price(target - 1)  # of the network solved then holds both
+            if target >= lo:
+                price(target)
+        return tuple(rows[t] for t in sorted(rows))
+
+    @staticmethod
+    def _deeper_guess(rows: dict, days):
+        """How much more than its lower bound the added cost of each day before the deepest
+        priced pair of days may be: the last rise of the cost of a day, carried on (zero
+        elsewhere). It only orders the days to price, never settles one."""
+        import numpy as np
+
+        pairs = sorted(t for t in rows if t + 1 in rows)  # (t, t + 1) both priced
+        extra = np.zeros(len(days))
+        if len(pairs) < 2:
+            return extra
+        k, j = pairs[0], pairs[1]
+        mk = rows[k].added_cost - rows[k + 1].added_cost
+        mj = rows[j].added_cost - rows[j + 1].added_cost
+        rise = max((mk - mj) / (j - k), 0.0)  # per day, per day deeper
+        deeper = np.maximum(k - days, 0)
+        return 0.5 * rise * deeper * deeper
 
     def earliest_within(self, budget: float) -> Plan:
         """The earliest finish whose least added cost is within ``budget``, and its plan.

@@ -96,7 +96,8 @@ def curve(project: Project, longest: int | None = None, shortest: int | None = N
 
 def best_finish(project: Project, *, time_limit: float | None = None,
                 progress: Progress | None = None) -> BestFinish:
-    """The finish with the least total cost (direct + indirect + damages - bonus) and its plan."""
+    """The finish with the least total cost (direct + indirect + damages - bonus) and its plan;
+    ``table`` holds the finishes priced (see :meth:`Planner.best_finish`)."""
     return Planner(project, time_limit=time_limit).best_finish(progress=progress)
 
 

@@ -213,11 +213,15 @@ def best_text(best: BestFinish, *, around: int = 5, wide: bool = False) -> str:
     contract = project.contract
     rows = list(best.table)
     k = next(i for i, r in enumerate(rows) if r.finish == best.point.finish)
-    shown = rows[max(0, k - around): k + around + 1]
+    near = rows[max(0, k - around): k + around + 1]
     current = best.current
-    if all(r.finish != current.finish for r in shown):
-        shown.append(None)  # a gap, then the current finish
-        shown.append(current)
+    if all(r.finish != current.finish for r in near):
+        near.append(current)
+    shown = near[:1]
+    for before, r in zip(near, near[1:]):
+        if r.finish != before.finish + 1:
+            shown.append(None)  # a gap: days not shown, or not priced (they cost more)
+        shown.append(r)
     body = table(
         [["...", "", "", "", "", "", ""] if r is None else
          [("* " if r.finish == best.point.finish else "  ") + str(r.finish)
@@ -243,7 +247,9 @@ def best_text(best: BestFinish, *, around: int = 5, wide: bool = False) -> str:
     lines += [para(f"Best finish: {best.point.finish} working days ({_d(best.point.finish_date)}), "
                    f"total cost {money(best.point.total_cost, cur)}: {verdict}", wide),
               para("Total cost = direct (normal + added) + indirect + damages - bonus; "
-                   "* marks the best finish, 'now' the current one.", wide),
+                   "* marks the best finish, 'now' the current one"
+                   + ("; '...': days not shown or not priced (none can cost less than the best)."
+                      if None in shown else "."), wide),
               "", body, "", plan_text(best.plan, title="Plan at the best finish", wide=wide)]
     return "\n".join(lines)
 

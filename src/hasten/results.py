@@ -166,7 +166,7 @@ class BestFinish:
 
     point: TotalCostPoint
     current: TotalCostPoint  # the current (normal) finish, for the saving
-    table: tuple[TotalCostPoint, ...]  # every finish from shortest to normal
+    table: tuple[TotalCostPoint, ...]  # the finishes priced, the current one among them (Planner.best_finish)
     plan: Plan
     notes: tuple[str, ...] = ()
 
