@@ -56,6 +56,11 @@ class PlanCosts:
         self._deadlines = [k for k, a in enumerate(net.project.activities)
                            if a.deadline is not None and a.damages_per_day and not net.fixed[k]]
 
+    @property
+    def owes_damages(self) -> bool:
+        """True when some unfinished work has a deadline of its own with damages."""
+        return bool(self._deadlines)
+
     def added_costs(self, durations: Sequence[int], choices: Sequence[int] | None = None) -> list[float]:
         """Added direct cost of each activity (in network order) at ``durations``: its
         option's cost, or its crash steps still available, taken in order."""

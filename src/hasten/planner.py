@@ -199,7 +199,7 @@ class Planner:
         early = net.forward(d) if shown is None else shown
         finish = net.finish_of(early, d)
         costs = None if shown is None else self.costs.added_costs(d, choices)
-        damages = self.costs.milestone_damages([s + x for s, x in zip(early, d)])
+        damages = self.costs.milestone_damages([s + x for s, x in zip(early, d)]) if self.costs.owes_damages else 0.0
         self.checker.check(d, choices=choices, starts=shown, early=True, target=target, claimed_finish=finish,
                            claimed_cost=sol.added_cost, claimed_costs=costs, claimed_damages=damages,
                            claimed_finish_date=net.finish_date(finish), strict=strict)
