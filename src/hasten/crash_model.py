@@ -82,6 +82,7 @@ class Solution:
     bound: float | None = None  # proven lower bound on the objective when not proven
     gap: float | None = None  # relative gap when not proven
     starts: tuple[int, ...] | None = None  # the solver's own starts (what is left to schedule)
+    early: bool = False  # True when ``starts`` are the network's early starts (a forward pass)
 
 
 def _convex(network: Network) -> None:

@@ -101,5 +101,5 @@ class PartialSolver:
             durations[keep] = sol.durations
             starts = self.net.forward(durations)
             if self.net.finish_of(starts, durations.tolist()) <= target:
-                return replace(sol, durations=tuple(durations.tolist()), starts=tuple(starts))
+                return replace(sol, durations=tuple(durations.tolist()), starts=tuple(starts), early=True)
             reach = 2 * max(reach, self._reach) + 1

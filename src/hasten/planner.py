@@ -196,7 +196,7 @@ class Planner:
         agree (with ``strict``: no own deadline missed), else :class:`PlanCheckError`.
         ``solved``: the damages the solver counted must cover those of the dates too."""
         net, d, choices = self.network, sol.durations, sol.choices or None
-        early = net.forward(d) if shown is None else shown
+        early = shown if shown is not None else sol.starts if sol.early else net.forward(d)
         finish = net.finish_of(early, d)
         costs = None if shown is None else self.costs.added_costs(d, choices)
         damages = self.costs.milestone_damages([s + x for s, x in zip(early, d)]) if self.costs.owes_damages else 0.0
