@@ -4,15 +4,17 @@ computes a schedule or solves: every figure comes from the result objects.
 
 from __future__ import annotations
 
+import json
+from collections.abc import Iterable, Sequence
 from datetime import date
-from itertools import repeat
+from itertools import chain, repeat
 from operator import attrgetter
 from typing import TYPE_CHECKING
 
 import numpy as np
 
 from .calendar import CalendarClock, Timeline
-from .cpm import Schedule
+from .cpm import ActivityDates, Schedule
 from .progress import shown_days
 from .project import Project
 
@@ -24,6 +26,7 @@ if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
 
 __all__ = [
     "SCHEDULE_COLUMNS", "REVISED_COLUMNS", "DATE_COLUMNS", "money_value", "iso", "schedule_rows", "schedule_json",
+    "schedule_json_text",
     "revised_rows", "plan_json", "point_plan", "point_changes", "curve_rows", "curve_json", "total_cost_row",
     "best_json", "recovery_json", "revised_course_rows", "instructions", "money", "option_note", "days",
     "plan_activities", "price_json", "quality_json",
@@ -92,29 +95,43 @@ def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str,
     return first, last
 
 
-def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
-    """One row per activity with offsets and the dates a person reads (each activity's
-    offsets and dates in its own calendar)."""
+_DATES_FIELDS = ("id", "duration", "es", "ef", "ls", "lf", "total_float", "free_float",
+                 "critical", "driving", "state")
+
+
+def _schedule_columns(project: Project, sched: Schedule) -> tuple:
+    """The values of each of :data:`SCHEDULE_COLUMNS`, top to bottom (iterables)."""
     acts = {a.id: a for a in project.activities}
     rs = sched.activities
     timeline = Timeline(project)
     states = sched.states or None
     es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
     ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
-    own = list(map(acts.__getitem__, map(attrgetter("id"), rs)))
+    if not rs:
+        return ((),) * len(SCHEDULE_COLUMNS)
+    # the named tuples' fields as columns at once
+    (ids, duration, es_, ef_, ls_, lf_, total, free, critical, driving,
+     state) = zip(*rs) if ActivityDates._fields == _DATES_FIELDS else zip(*(
+         map(attrgetter(name), rs) for name in _DATES_FIELDS))
+    own = list(map(acts.__getitem__, ids))
     default = project.calendar.name
+    calendars = map(attrgetter("calendar"), own)
+    return (
+        ids, map(attrgetter("name"), own), map(attrgetter("trade"), own),
+        [c or default for c in calendars], duration, state, es_, ef_, ls_, lf_, es, ef, ls, lf,
+        total, free, critical, map(list, driving))
+
+
+def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
+    """One row per activity with offsets and the dates a person reads (each activity's
+    offsets and dates in its own calendar)."""
     # column by column, then one dictionary per row (keys in SCHEDULE_COLUMNS order)
-    columns = (
-        map(attrgetter("id"), rs), map(attrgetter("name"), own), map(attrgetter("trade"), own),
-        [a.calendar or default for a in own], map(attrgetter("duration"), rs),
-        map(attrgetter("state"), rs), map(attrgetter("es"), rs), map(attrgetter("ef"), rs),
-        map(attrgetter("ls"), rs), map(attrgetter("lf"), rs), es, ef, ls, lf,
-        map(attrgetter("total_float"), rs), map(attrgetter("free_float"), rs),
-        map(attrgetter("critical"), rs), map(list, map(attrgetter("driving"), rs)))
+    columns = _schedule_columns(project, sched)
     return list(map(dict, map(zip, repeat(SCHEDULE_COLUMNS), zip(*columns))))
 
 
-def schedule_json(project: Project, sched: Schedule) -> dict:
+def _schedule_head(project: Project, sched: Schedule) -> dict:
+    """What ``schedule --json`` gives before the activities."""
     return {
         "project": project.name,
         "start_date": iso(sched.start_date),
@@ -127,8 +144,50 @@ def schedule_json(project: Project, sched: Schedule) -> dict:
         "critical_paths_truncated": sched.paths_truncated,
         "longest_paths": [list(p) for p in sched.longest_paths],
         "warnings": list(sched.warnings),
-        "activities": schedule_rows(project, sched),
     }
+
+
+def schedule_json(project: Project, sched: Schedule) -> dict:
+    return _schedule_head(project, sched) | {"activities": schedule_rows(project, sched)}
+
+
+_json_str = json.encoder.encode_basestring  # what json.dumps(..., ensure_ascii=False) uses
+_JSON_ONE = json.JSONEncoder(ensure_ascii=False)  # json.dumps(..., ensure_ascii=False)
+_JSON_BOOL = {False: "false", True: "true"}
+
+
+def _json_texts(values: Iterable) -> Iterable[str]:
+    """The JSON text of each value, as ``json.dumps(..., ensure_ascii=False)`` writes it
+    inside a list or an object: texts, whole numbers, true/false and lists of texts by C
+    functions mapped over the column, any other column value by value by the encoder."""
+    values = values if isinstance(values, list) else list(values)
+    kinds = set(map(type, values))
+    if kinds <= {str}:
+        distinct = set(values)
+        if len(distinct) * 2 > len(values):
+            return map(_json_str, values)
+        text = dict(zip(distinct, map(_json_str, distinct)))  # dates, trades: a few values
+        return map(text.__getitem__, values)
+    if kinds <= {int}:
+        return map(int.__repr__, values)
+    if kinds <= {bool}:
+        return map(_JSON_BOOL.__getitem__, values)
+    if kinds <= {list} and set(map(type, chain.from_iterable(values))) <= {str}:
+        return map("[{}]".format, map(", ".join, map(map, repeat(_json_str), values)))
+    return map(_JSON_ONE.encode, values)
+
+
+def schedule_json_text(project: Project, sched: Schedule, notes: Sequence[str] = ()) -> str:
+    """``json.dumps(schedule_json(project, sched) | {"notes": list(notes)},
+    ensure_ascii=False)``, byte for byte, written from columns of JSON texts by one format
+    per row (no dictionary per row: at 200,000 activities the dictionaries and their dump
+    took 2.3 s of the command's 5.8)."""
+    before = json.dumps(_schedule_head(project, sched), ensure_ascii=False)
+    row = "{" + ", ".join(f"{_json_str(name)}: %s" for name in SCHEDULE_COLUMNS) + "}"
+    texts = [_json_texts(column) for column in _schedule_columns(project, sched)]
+    rows = ", ".join(map(row.__mod__, zip(*texts)))
+    after = json.dumps(list(notes), ensure_ascii=False)
+    return f'{before[:-1]}, "activities": [{rows}], "notes": {after}}}'
 
 
 def days(n: int) -> str:
