@@ -18,7 +18,7 @@ from itertools import repeat
 from operator import add, attrgetter, gt, itemgetter, lt, mul
 
 from hasten.formats.columns import PLAN_COLUMNS
-from hasten.formats.instances import instances_by_column, plain_defaults
+from hasten.formats.instances import instances, instances_by_column, plain_defaults
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, known_type_and_lag
 from hasten.formats.tables import ColumnRows, Table
 from hasten.project import Activity, Link, LinkType
@@ -176,6 +176,7 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int]
         # two links join the same activities: refused only when of the same type too
         if len(set(zip(pred_at, succ_at, kinds))) != len(kinds):
             return None
-    return (instances_by_column(Link, len(preds), {
-        "pred": preds, "succ": map(ids.__getitem__, succ_at), "type": kinds, "lag": lags}),
-        pred_at, succ_at)
+    # (four fields: a dictionary each, given whole, is quicker here than field by field)
+    made = [{"pred": pred, "succ": ids[row], "type": kind, "lag": lag}
+            for pred, row, kind, lag in zip(preds, succ_at, kinds, lags)]
+    return instances(Link, made), pred_at, succ_at
