@@ -234,3 +234,88 @@ def test_a_plain_csv_text_reads_as_the_csv_module_reads_it(lines, last_break):
         assert isinstance(quick, InputError) and str(quick) == str(full)
     else:
         assert quick == full
+
+
+# -- tables kept by column, activities and links made column by column --------------------
+
+def _parsed(text: str, quick: bool, monkeypatch) -> object:
+    """The project (or the error's text) of an activities.csv ``text``: by the quick paths
+    (the table kept by column) or by the full paths only (csv module, row by row)."""
+    from hasten.formats import activities, folder, parse
+    from hasten.formats.parse import parse_tables
+    from hasten.formats.tables import Settings, Tables
+
+    settings = Settings("project.toml", {"name": "p", "start": date(2027, 1, 4)})
+    with monkeypatch.context() as patch:
+        if not quick:
+            patch.setattr(activities, "quick_activities", lambda table: None)
+            patch.setattr(parse, "quick_links", lambda table, ids: None)
+            table = table_from_grid("activities.csv", folder._Records(text))
+        else:
+            table = folder._plain_table("activities.csv", text)
+            if table is None:
+                return None
+        try:
+            return parse_tables(Tables(settings, table))
+        except InputError as error:
+            return str(error)
+
+
+_PLAIN_ROW = st.fixed_dictionaries({
+    "id": st.sampled_from(["A", "B", "C", "D", "E", "F"]),
+    "duration": st.one_of(st.from_regex(r"[0-9]{1,2}", fullmatch=True), st.sampled_from(["", "x"])),
+    "crash_duration": st.one_of(st.just(""), st.from_regex(r"[0-9]", fullmatch=True)),
+    "cost": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,3}(\.[0-9])?", fullmatch=True)),
+    "crash_cost": st.one_of(st.just(""), st.from_regex(r"[0-9]{1,4}", fullmatch=True)),
+    "name": st.sampled_from(["", "Pour slab", "Frame", "x y"]),
+    "predecessors": st.sampled_from(["", "A", "B; C", "A:SS+2", "B:ff-1; A", "C:SF", "A;A",
+                                     "A:XX", "A:", " ; B", "G", "E:FS+3; D", "B ;C"]),
+})
+
+
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.too_slow,
+                                                                  HealthCheck.function_scoped_fixture])
+@given(st.lists(_PLAIN_ROW, min_size=1, max_size=6),
+       st.sets(st.sampled_from(["crash_duration", "cost", "crash_cost", "name", "predecessors"])))
+def test_a_plain_file_reads_as_the_full_path_reads_it(monkeypatch, rows, dropped):
+    """A plain activities.csv read by the quick paths (table kept by column, activities
+    and links made column by column) gives the project, or the error, the full paths give."""
+    columns = [c for c in ("id", "name", "duration", "crash_duration", "cost", "crash_cost",
+                           "predecessors") if c not in dropped]
+    text = ",".join(columns) + "\n" + "".join(
+        ",".join(r[c] for c in columns) + "\n" for r in rows)
+    quick = _parsed(text, True, monkeypatch)
+    full = _parsed(text, False, monkeypatch)
+    if quick is not None:
+        assert quick == full
+        if isinstance(quick, Project):
+            assert [hash(a) for a in quick.activities] == [hash(a) for a in full.activities]
+            assert repr(quick) == repr(full)
+
+
+def test_rows_kept_by_column_are_the_rows():
+    from hasten.formats.tables import ColumnRows
+
+    kept = ColumnRows(3, ("id", "duration"), {"id": ["A", "B"], "duration": ["5", ""]})
+    rows = (Row(3, {"id": "A", "duration": "5"}), Row(4, {"id": "B", "duration": ""}))
+    assert len(kept) == 2 and list(kept.lines) == [3, 4]
+    assert kept == rows and rows == kept and tuple(kept) == rows and kept[-1] == rows[-1]
+    assert kept != rows[:1] and Table("t", ("id", "duration"), kept) == Table(
+        "t", ("id", "duration"), rows)
+    assert ColumnRows(2, (), {}) == () and not ColumnRows(2, (), {})
+
+
+def test_instances_by_column_are_the_values_the_constructor_makes():
+    from hasten.formats.instances import instances_by_column
+
+    made = instances_by_column(Activity, 2, {"id": ["A", "B"], "duration": [5, 0],
+                                             "name": ["Pour", ""], "crash_cost": [2.0, None]})
+    built = [Activity("A", 5, name="Pour", crash_cost=2.0), Activity("B", 0)]
+    assert made == built and [hash(a) for a in made] == [hash(a) for a in built]
+    assert [repr(a) for a in made] == [repr(a) for a in built]
+    assert pickle.loads(pickle.dumps(made)) == built and copy.deepcopy(made) == built
+    assert replace(made[0], cost=1.0) == replace(built[0], cost=1.0)
+    assert made[1].steps == () and made[1].calendar == ""  # defaults read from the class
+    links = instances_by_column(Link, 1, {"pred": ["A"], "succ": iter(["B"]),
+                                          "type": [LinkType.SS], "lag": [2]})
+    assert links == [Link("A", "B", LinkType.SS, 2)]

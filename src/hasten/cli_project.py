@@ -71,8 +71,10 @@ def schedule(
             rows = render_json.schedule_rows(p, sched)
             write_table(out, render_json.SCHEDULE_COLUMNS, rows, sheet_name="schedule",
                         date_columns=render_json.DATE_COLUMNS)
-        _emit(as_json, lambda: render_json.schedule_json(p, sched),
-              lambda: render.schedule_text(p, sched, wide=wide), notes)
+        if as_json:  # the JSON text written whole, as _emit would dump schedule_json's dict
+            _echo(render_json.schedule_json_text(p, sched, notes))
+            return
+        _emit(False, None, lambda: render.schedule_text(p, sched, wide=wide), notes)
 
 
 

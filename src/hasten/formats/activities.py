@@ -59,7 +59,7 @@ from hasten.formats.instances import instance, plain_defaults
 from hasten.formats.quick import quick_activities
 from hasten.formats.risk import range_cells
 from hasten.formats.settings import CALENDARS
-from hasten.formats.tables import Row, Table
+from hasten.formats.tables import ColumnRows, Row, Table
 from hasten.labour import CrewData
 from hasten.project import Activity
 
@@ -344,14 +344,16 @@ def activity_rows(table: Table) -> list[ActivityRow]:
     source = table.source
     quick = None if with_progress else quick_activities(table)
     if quick is not None:
-        rows = list(map(ActivityRow, quick, repeat(source), map(attrgetter("line"), table.rows)))
+        lines = (table.rows.lines if isinstance(table.rows, ColumnRows)
+                 else map(attrgetter("line"), table.rows))
+        rows = list(map(ActivityRow, quick, repeat(source), lines))
     else:
         rows = [ActivityRow(_activity(r, table, with_progress), source, r.line)
                 for r in table.rows]
     if any(column in table.columns for column in LABOUR_COLUMNS):
         rows = [ActivityRow(_labour(r, table, row.activity), source, row.line)
                 for r, row in zip(table.rows, rows)]
-    if len({row.activity.id for row in rows}) == len(rows):
+    if len(set(map(attrgetter("activity.id"), rows))) == len(rows):
         return rows
     first: dict[str, ActivityRow] = {}
     for row in rows:
@@ -376,6 +378,8 @@ def _define_calendar(source: str, name: str) -> str:
 def check_calendars(rows: Sequence[ActivityRow], defined: Sequence[str],
                     settings_source: str) -> None:
     """Every calendar an activity names must be defined in the settings."""
+    if not any(map(attrgetter("activity.calendar"), rows)):
+        return
     known = set(defined)
     for row in rows:
         name = row.activity.calendar

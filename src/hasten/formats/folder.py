@@ -40,7 +40,7 @@ from hasten.formats.document import Document
 from hasten.formats.files import write_folder
 from hasten.formats.columns import LINK_COLUMNS, OPTION_COLUMNS, STEP_COLUMNS
 from hasten.formats.settings import flatten, nest
-from hasten.formats.tables import Row, Settings, Table, Tables, column_names, table_from_grid
+from hasten.formats.tables import ColumnRows, Settings, Table, Tables, column_names, table_from_grid
 from hasten.formats.tomlwrite import toml_text
 
 __all__ = ["FILES", "labels", "read", "write"]
@@ -119,7 +119,7 @@ def _to_clean(text: str) -> bool:
     text, many times quicker than the pattern."""
     if not text.isascii():
         return _TO_CLEAN.search(text) is not None
-    if text[:1] == "'" or ",'" in text or "\n'" in text:
+    if "'" in text and (text[:1] == "'" or ",'" in text or "\n'" in text):
         return True
     edges = (",", "\n")
     return any(text[:1] == space or text[-1:] == space
@@ -133,26 +133,28 @@ def _plain_table(source: str, text: str) -> Table | None:
     restore, no blank row after the header, every row one cell under each named column.
 
     Such a text is one record per line, its cells separated by commas, so the table is
-    made without a Python-level loop per row; it is the table :func:`table_from_grid`
-    makes of the csv module's records."""
+    made without a Python-level loop per row, and kept by column (:class:`ColumnRows`);
+    it is the table :func:`table_from_grid` makes of the csv module's records."""
     if ('"' in text or "\r" in text or "\0" in text or _to_clean(text)
             or len(text) > csv.field_size_limit()
             and max(map(len, text.split("\n"))) > csv.field_size_limit()):
         return None
-    grid = list(map(str.split, text.split("\n"), repeat(",")))
-    head = next((i for i, cells in enumerate(grid) if "".join(cells)), None)
+    lines = text.split("\n")
+    head = next((i for i, line in enumerate(lines) if line.strip(",")), None)
     if head is None:
         return None
-    names = column_names(source, head + 1, grid[head])
-    body = grid[head + 1:]
-    if body and body[-1] == [""]:  # the line break that ends the last line
+    names = column_names(source, head + 1, lines[head].split(","))
+    body = lines[head + 1:]
+    if body and body[-1] == "":  # the line break that ends the last line
         body.pop()
-    if (not body or not all(names) or set(map(len, body)) != {len(names)}
-            or "" in map("".join, body)):
+    width = len(names)
+    # one cell under each name on every line, and no line of empty cells only
+    if (not body or not all(names) or set(map(str.count, body, repeat(","))) != {width - 1}
+            or "," * (width - 1) in body):
         return None
-    cells = list(map(dict, map(zip, repeat(names), body)))
-    rows = tuple(map(Row, range(head + 2, head + 2 + len(body)), cells))
-    return Table(source, names, rows, head + 1)
+    cells = ",".join(body).split(",")
+    columns = {name: cells[i::width] for i, name in enumerate(names)}
+    return Table(source, names, ColumnRows(head + 2, names, columns), head + 1)
 
 
 def read_csv(path: Path) -> Table:

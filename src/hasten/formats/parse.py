@@ -13,6 +13,9 @@ links (:mod:`hasten.formats.links`), and the crash steps and options
 
 from __future__ import annotations
 
+from itertools import compress, repeat
+from operator import attrgetter, is_, itemgetter
+
 from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
                                        percent_notes)
 from hasten.formats.cells import one_line_errors
@@ -44,8 +47,9 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     check_progress(rows, tables.activities, settings.start, settings.data_date,
                    tables.settings.source)
     check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
-    check_risk_trades([r.activity.trade for r in rows], settings.risk, tables.settings)
-    by_id = {r.activity.id: r for r in rows}
+    check_risk_trades(list(map(attrgetter("activity.trade"), rows)), settings.risk,
+                      tables.settings)
+    by_id = dict(zip(map(attrgetter("activity.id"), rows), rows))
     ids = list(by_id)
     quick = (quick_links(tables.activities, ids)
              if tables.links is None or not tables.links.rows else None)
@@ -58,10 +62,10 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
             with_options(with_steps(r, steps.get(r.activity.id, [])), options.get(r.activity.id))
             for r in rows)
     else:  # the same, quicker: only an activity without a crash cost has anything to check
-        activities = tuple(r.activity for r in rows)
-        for r in rows:
-            if r.activity.crash_cost is None:
-                with_steps(r, [])
+        activities = tuple(map(itemgetter(0), rows))
+        for r in compress(rows, map(is_, map(attrgetter("crash_cost"), activities),
+                                    repeat(None))):
+            with_steps(r, [])
     if quick is None:
         positions = check_acyclic(links, ids)
         project_links = tuple(spec.link for spec in links.values())

@@ -6,7 +6,7 @@ Each function here either gives exactly what the full path (:mod:`hasten.formats
 in its plainest form; the full path then reads the table and says what, if anything, is
 wrong. Whole columns are checked at once (one pattern over a column's cells joined by line
 breaks), numbers converted with ``map`` and the objects made by
-:func:`hasten.formats.instances.instances`, so that no Python-level code runs per cell.
+:func:`hasten.formats.instances.instances_by_column`, so that no Python-level code runs per cell.
 Reading a project of 50,000 activities and 100,000 links spends most of its time here.
 """
 
@@ -18,9 +18,9 @@ from itertools import repeat
 from operator import add, attrgetter, gt, itemgetter, lt, mul
 
 from hasten.formats.columns import PLAN_COLUMNS
-from hasten.formats.instances import instances, plain_defaults
+from hasten.formats.instances import instances, instances_by_column, plain_defaults
 from hasten.formats.predecessors import COLUMN as PREDECESSORS, known_type_and_lag
-from hasten.formats.tables import Table
+from hasten.formats.tables import ColumnRows, Table
 from hasten.project import Activity, Link, LinkType
 
 __all__ = ["quick_activities", "quick_links"]
@@ -42,6 +42,9 @@ _LINK = plain_defaults(Link, ("pred", "succ"))
 def _columns(table: Table, names: Sequence[str]) -> list[Sequence[str]]:
     """The cells of each column in ``names``, top to bottom ("" for a column the table
     lacks; every row holds every column of its table)."""
+    if isinstance(table.rows, ColumnRows):  # kept by column already
+        empty = [""] * len(table.rows)
+        return [table.rows.columns.get(name, empty) for name in names]
     given = [name for name in names if name in table.columns]
     if not given:
         return [[""] * len(table.rows) for _ in names]
@@ -60,15 +63,21 @@ def _every(pattern: re.Pattern, column: list[str]) -> bool:
 
 
 def _plain_text(column: list[str]) -> bool:
-    """Every cell printable text without white space around it."""
-    return "".join(column).isprintable() and all(map(str.__eq__, column, map(str.strip, column)))
+    """Every cell printable text without white space around it (in printable text a space
+    is the only white space :meth:`str.strip` takes away)."""
+    if not "".join(column).isprintable():
+        return False
+    text = "\n".join(column)
+    return not (text[:1] == " " or text[-1:] == " " or " \n" in text or "\n " in text)
 
 
 def _numbers(column: list[str], kind: type, empty: object) -> list:
-    """The cells as numbers of ``kind``; ``empty`` for an empty cell."""
-    if all(column):
-        return list(map(kind, column))
-    return [kind(text) if text else empty for text in column]
+    """The cells as numbers of ``kind``; ``empty`` for an empty cell. Each distinct text is
+    converted once (a column of durations or costs repeats a few values)."""
+    texts = set(column)
+    value = dict(zip(texts, map(kind, texts))) if "" not in texts else {
+        text: kind(text) if text else empty for text in texts}
+    return list(map(value.__getitem__, column))
 
 
 def quick_activities(table: Table) -> list[Activity] | None:
@@ -97,26 +106,20 @@ def quick_activities(table: Table) -> list[Activity] | None:
         cheaper = any(map(lt, crash_costs, costs))
     if longer or cheaper:
         return None
-    made = [dict(_ACTIVITY, id=i, duration=d, name=n, trade=t, crash_duration=c, cost=m,
-                 crash_cost=k)
-            for i, d, n, t, c, m, k in zip(ids, durations, names, trades, crash_durations,
-                                           costs, crash_costs)]
-    return instances(Activity, made)
+    given = {"id": ids, "duration": durations, "name": names, "trade": trades,
+             "crash_duration": crash_durations, "cost": costs, "crash_cost": crash_costs}
+    # a column the table lacks holds the field's default in every row: left to the class
+    return instances_by_column(Activity, len(ids), {
+        name: values for name, values in given.items()
+        if name in table.columns or name in ("id", "duration")})
 
 
-def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int], list[int]] | None:
-    """The links of the predecessors column of a table whose ids (``ids``, the activities'
-    ids in table order) and predecessors are plain ASCII, every link known, pointing down
-    the table (so there is no loop and no self-link) and given once; with the positions in
-    ``ids`` of each link's predecessor and successor. ``None`` otherwise."""
-    if _LINK is None:  # pragma: no cover - Link as it is today takes the dictionary
-        return None
-    if PREDECESSORS not in table.columns:
-        return [], [], []
-    (texts,) = _columns(table, (PREDECESSORS,))
-    joined = "".join(texts)
-    if len(ids) != len(texts) or not (joined.isascii() and joined.isprintable()):
-        return None
+def _items(texts: list[str]) -> tuple[list[str], list[int], list[LinkType], list[int]] | None:
+    """Each link of a predecessors column: its predecessor's id, its successor's row, its
+    type and its lag (empty items skipped, as the full path skips them); ``None`` when an
+    item has no id or a type and lag that do not read. (This loop takes fewer instructions
+    than one pattern over the whole column, or split, strip and partition mapped over all
+    items, with their results taken apart again.)"""
     preds: list[str] = []
     succ_at: list[int] = []  # the successor is the row's activity: its position is the row's
     kinds: list[LinkType] = []
@@ -144,7 +147,27 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int]
                 return None
             preds.append(ident)
             succ_at.append(row)
-    position = {ident: i for i, ident in enumerate(ids)}
+    return preds, succ_at, kinds, lags
+
+
+def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int], list[int]] | None:
+    """The links of the predecessors column of a table whose ids (``ids``, the activities'
+    ids in table order) and predecessors are plain ASCII, every link known, pointing down
+    the table (so there is no loop and no self-link) and given once; with the positions in
+    ``ids`` of each link's predecessor and successor. ``None`` otherwise."""
+    if _LINK is None:  # pragma: no cover - Link as it is today takes the dictionary
+        return None
+    if PREDECESSORS not in table.columns:
+        return [], [], []
+    (texts,) = _columns(table, (PREDECESSORS,))
+    joined = "".join(texts)
+    if len(ids) != len(texts) or not (joined.isascii() and joined.isprintable()):
+        return None
+    items = _items(texts)
+    if items is None:
+        return None
+    preds, succ_at, kinds, lags = items
+    position = dict(zip(ids, range(len(ids))))
     pred_at = list(map(position.get, preds))
     if None in pred_at or not all(map(lt, pred_at, succ_at)):
         return None
@@ -153,6 +176,7 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int]
         # two links join the same activities: refused only when of the same type too
         if len(set(zip(pred_at, succ_at, kinds))) != len(kinds):
             return None
+    # (four fields: a dictionary each, given whole, is quicker here than field by field)
     made = [{"pred": pred, "succ": ids[row], "type": kind, "lag": lag}
             for pred, row, kind, lag in zip(preds, succ_at, kinds, lags)]
     return instances(Link, made), pred_at, succ_at

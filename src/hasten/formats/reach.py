@@ -19,7 +19,7 @@ year 9999 are ever near the bound.
 from __future__ import annotations
 
 import math
-from operator import add, le, lt
+from operator import add, attrgetter, le, lt
 from collections.abc import Callable, Mapping, Sequence
 from datetime import date
 
@@ -110,27 +110,42 @@ def _latest_finish(project: Project, calendars: Mapping[str, Calendar], floor: d
     preds, succs = positions
     if not all(map(lt, preds, succs)):
         return None
-    work = [0 if a.actual_finish is not None
-            else a.remaining if a.actual_start is not None and a.remaining is not None
-            else a.longest if a.options else a.duration
-            for a in activities]
-    if any(a.calendar for a in activities):
+    if any(map(attrgetter("actual_start"), activities)) or any(
+            map(attrgetter("actual_finish"), activities)) or any(
+            map(attrgetter("options"), activities)):
+        work = [0 if a.actual_finish is not None
+                else a.remaining if a.actual_start is not None and a.remaining is not None
+                else a.longest if a.options else a.duration
+                for a in activities]
+    else:  # the usual case: every activity's work is its duration
+        work = list(map(attrgetter("duration"), activities))
+    first = floor.toordinal()
+    if any(map(attrgetter("not_before"), activities)):
+        start = [max(floor, a.not_before).toordinal() if a.not_before else first
+                 for a in activities]
+    else:
+        start = [first] * len(activities)
+    if any(map(attrgetter("calendar"), activities)):
         days = [max(len(calendars.get(a.calendar, project.calendar).workdays), 1)
                 for a in activities]
+        spans = [-(-w // k) * 7 + 7 if w > 0 else 0 for w, k in zip(work, days)]
+        lags = [-(-link.lag // days[s]) * 7 + 14 if link.lag > 0 else 7
+                for link, s in zip(links, succs)]
+    else:  # one calendar: each distinct number of days converted once
+        k = max(len(project.calendar.workdays), 1)
+        span_of = {w: -(-w // k) * 7 + 7 if w > 0 else 0 for w in set(work)}
+        spans = list(map(span_of.__getitem__, work))
+        link_lags = list(map(attrgetter("lag"), links))
+        lag_of = {lag: -(-lag // k) * 7 + 14 if lag > 0 else 7 for lag in set(link_lags)}
+        lags = list(map(lag_of.__getitem__, link_lags))
+    if all(map(le, succs, succs[1:])):
+        ordered = zip(preds, succs, lags)
     else:
-        days = [max(len(project.calendar.workdays), 1)] * len(activities)
-    spans = [-(-w // k) * 7 + 7 if w > 0 else 0 for w, k in zip(work, days)]
-    first = floor.toordinal()
-    start = [max(floor, a.not_before).toordinal() if a.not_before else first
-             for a in activities]
-    lags = [-(-link.lag // days[s]) * 7 + 14 if link.lag > 0 else 7
-            for link, s in zip(links, succs)]
-    order = range(len(links))
-    if not all(map(le, succs, succs[1:])):
-        order = sorted(order, key=succs.__getitem__)
-    for e in order:
-        p, s = preds[e], succs[e]
-        reach = start[p] + spans[p] + lags[e]
+        order = sorted(range(len(links)), key=succs.__getitem__)
+        ordered = zip(map(preds.__getitem__, order), map(succs.__getitem__, order),
+                      map(lags.__getitem__, order))
+    for p, s, lag in ordered:
+        reach = start[p] + spans[p] + lag
         if reach > start[s]:
             start[s] = reach
     return max(map(add, start, spans), default=first)
