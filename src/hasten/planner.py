@@ -331,12 +331,16 @@ class Planner:
 
         ids = self.network.ids
         normal = self.network.durations
+        normal_days = np.asarray(normal)
+        days = {t: np.asarray(sol.durations) for t, (sol, _, _) in solved.items()}  # (once each)
         points: list[CurvePoint] = []
         for target in range(hi, lo - 1, -1):
             sol, cost, damages = solved[target]
+            changed = days[target] != normal_days
+            if sol.choices:
+                changed |= np.asarray(sol.choices) >= 0
             choices = sol.choices or (-1,) * len(sol.durations)
-            changed = np.flatnonzero((np.asarray(sol.durations) != np.asarray(normal))
-                                     | (np.asarray(choices) >= 0)).tolist()  # few of them
+            changed = np.flatnonzero(changed).tolist()  # few of them
             plan = tuple((ids[i], normal[i] - sol.durations[i], self._way(i, choices[i]))
                          for i in changed)
             date_ = self.network.finish_date(target)
@@ -346,7 +350,7 @@ class Planner:
                 continue
             prev, prev_cost, prev_damages = before
             changes = tuple((ids[i], sol.durations[i] - prev.durations[i]) for i in
-                            np.flatnonzero(np.asarray(sol.durations) != np.asarray(prev.durations)).tolist())
+                            np.flatnonzero(days[target] != days[target + 1]).tolist())
             switches = tuple((ids[i], self._way(i, c)) for i, (c, p) in
                              enumerate(zip(sol.choices, prev.choices or (-1,) * len(sol.choices))) if c != p)
             points.append(CurvePoint(target, date_, cost, cost + damages - prev_cost - prev_damages, plan,
