@@ -118,9 +118,8 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
     t_passes, _ = best_of(args.repeat, lambda: net.backward(net.durations, max(
         e + d for e, d in zip(net.forward(net.durations), net.durations))))
 
-    def to_json(p, s):
-        return json.dumps(render_json.schedule_json(p, s),
-                          ensure_ascii=False)
+    def to_json(p, s):  # what the command writes (render_json.schedule_json_text)
+        return render_json.schedule_json_text(p, s, [])
 
     t_json, text = best_of(args.repeat, lambda: to_json(read, sched))
 
@@ -149,7 +148,7 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
         ("  read_project (read + validate)", t_read, "", ""),
         ("  schedule(): Network, passes, floats, paths", t_cpm, "", ""),
         ("    of which the forward + backward passes", t_passes, "", ""),
-        ("  JSON rendering (schedule_json + dumps)", t_json, "", ""),
+        ("  JSON rendering (schedule_json_text)", t_json, "", ""),
         ("in-process read + schedule + JSON, gc on", t_gc_on, "", ""),
         ("in-process read + schedule + JSON, gc off", t_gc_off, "", ""),
     ]
@@ -166,7 +165,7 @@ def measure(args, project: Project, workdir: Path, t_gen: float) -> int:
         prof.enable()
         p = read_project(folder)
         s = schedule(p)
-        json.dumps(render_json.schedule_json(p, s), ensure_ascii=False)
+        render_json.schedule_json_text(p, s, [])
         prof.disable()
         out = io.StringIO()
         pstats.Stats(prof, stream=out).sort_stats("cumulative").print_stats(30)
