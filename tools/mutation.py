@@ -18,8 +18,10 @@ mutant whose original text is not found exactly once in its file is an *error*: 
 be kept up to date with the code. Equivalent mutants (no behaviour anyone can observe
 changes) carry their reason in the list and are not run unless ``--equivalent`` is given.
 
-Hypothesis runs with a fixed seed (``--hypothesis-seed``) so that a score is repeatable, and
-its example database stays in the temporary copy.
+Hypothesis runs with a fixed seed (``--hypothesis-seed``) so that a score is repeatable, its
+example database stays in the temporary copy, and it does not shrink a failing example
+(``HASTEN_NO_SHRINK``, read by ``tests/conftest.py``): that a test fails is all the runner
+needs, and shrinking took minutes for some mutants (they ran into the time limit).
 
 Score: detected (killed + timeout) / non-equivalent mutants run. The exit code is 0 when the
 score is at least ``--minimum`` (default 95 %) and no mutant is an error, 1 otherwise.
@@ -141,7 +143,8 @@ class Copy:
         self.dir = Path(tempfile.mkdtemp(prefix="hasten-mutants-"))
         _copy_tree(self.dir)
         self.seed = seed
-        self.env = dict(os.environ, PYTHONPATH=str(self.dir / "src"))
+        # HASTEN_NO_SHRINK (tests/conftest.py): hypothesis does not shrink a failing example
+        self.env = dict(os.environ, PYTHONPATH=str(self.dir / "src"), HASTEN_NO_SHRINK="1")
         self.env.pop("PYTHONDONTWRITEBYTECODE", None)
 
     def close(self) -> None:
