@@ -301,6 +301,17 @@ def test_a_cost_misstated_by_one_day_is_refused():
             check_plan(four_links(), d, claimed_finish=8, claimed_cost=wrong)
 
 
+def test_crash_steps_are_priced_in_order_and_a_step_used_in_part_by_its_days():
+    # hand-worked: W 10 days, crash steps 2 days at 100 then 3 days at 250 (the cheaper days
+    # first, as a piecewise-linear crash cost is used). Cut 3 days: 2 x 100 + 1 x 250 = 450;
+    # cut 5: 2 x 100 + 3 x 250 = 950; cut 1: 1 x 100 = 100.
+    project = make_project([Activity("W", 10, steps=(CrashStep(2, 100.0), CrashStep(3, 250.0)))], [])
+    for days, cost in ((9, 100.0), (7, 450.0), (5, 950.0)):
+        assert close(check_plan(project, [days], claimed_finish=days, claimed_cost=cost).cost, cost)
+    with refused("the added cost sums to 450.00, not 950.00 as claimed"):
+        check_plan(project, [7], claimed_finish=7, claimed_cost=950.0)
+
+
 def test_a_finish_claimed_by_ignoring_an_ff_link_is_refused():
     # four_links without the B -FF+1-> D link would finish at 8 (B 5-8, C 2-7, D 0-2); the
     # link holds D to finish at 9 (hand-worked above)
