@@ -684,6 +684,23 @@ def test_each_link_type_between_calendars(kind, x, not_before, y, starts, finish
         check_plan(project, [x, y], starts=(starts[0], starts[1] - 1), claimed_finish=finish, claimed_cost=0.0)
 
 
+def test_an_sf_link_into_every_day_work_leaves_the_evening_before_the_start():
+    # Hand-worked of our own, from Mon 3 Mar 2025: X (Mon-Fri) 1 day, not before Mon 10 (its
+    # day 5); Y (every day, Fri 7 = its day 4) 1 day; X -SF-> Y. The boundary before X's first
+    # day is Fri 7's evening (README "Method": an SF link leaves the evening before), so Y
+    # must finish by the end of a day not before it: Fri 7's end (5); Y runs Fri 7 (day 4).
+    # Taken at Mon 10's morning instead, Y would have to end Sun 9 (start day 6).
+    # Finish: X ends Mon 10 = Mon-Fri day 6; Y's Friday ends day 5: finish 6.
+    project = Project("sf across", date(2025, 3, 3), (Activity("X", 1, not_before=date(2025, 3, 10)),
+                                                     Activity("Y", 1, calendar="crane")),
+                      (Link("X", "Y", SF),), calendars=(CRANE,))
+    got = check_plan(project, [1, 1], claimed_finish=6, claimed_cost=0.0)
+    assert got.starts == (5, 4) and got.finish == 6
+    with refused("link X -> Y (SF) is broken: Y finishes at day 4, the link needs day 5 or later"):
+        check_plan(project, [1, 1], starts=(5, 3), claimed_finish=6, claimed_cost=0.0)
+    assert Network(project).forward(Network(project).durations) == [5, 4]  # the optimiser side agrees
+
+
 def test_weekend_work_finishes_the_project_on_the_next_working_day():
     p = own_calendars()
     project = dataclasses.replace(p, activities=p.activities[:2], links=p.links[:1])
