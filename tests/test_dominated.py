@@ -132,6 +132,20 @@ def test_reverse_critical_activity_keeps_slower_options():
     assert names(drop_dominated(project(a, x, b, links=fs))[0].activities[1]) == []
 
 
+def test_an_sf_link_in_makes_an_activity_reverse_critical_too():
+    """The same by hand with an SF link in: A (10 days) -SF+10-> X -SS-> B (10 days); X must
+    finish by A's start 0 + 10 = day 10. X normal, 2 days: X 8-10, B 8-18, finish 18 at 0.
+    X 'long', 6 days, +1: X 4-10, B 4-14, finish 14 at cost 1: the slower, dearer option is
+    the only way to finish by 14 and must be kept."""
+    a, b = Activity("A", 10), Activity("B", 10)
+    x = Activity("X", 2, options=(Option("long", 6, 1.0),))
+    links = (Link("A", "X", LinkType.SF, 10), Link("X", "B", LinkType.SS))
+    reduced, notes = drop_dominated(project(a, x, b, links=links))
+    assert names(reduced.activities[1]) == ["long"] and notes == []
+    inf = float("inf")  # by hand above: nothing by day 13, cost 1 from day 14, 0 from day 18
+    assert least_cost_curve(reduced, range(13, 19)) == [inf, 1, 1, 1, 1, 0]
+
+
 def test_input_is_left_alone_and_rest_unchanged():
     a = Activity("G", 5, name="Formwork", trade="Carpentry", cost=10.0,
                  options=(Option("x", 6, 1.0), Option("y", 4, 1.0)))
