@@ -60,6 +60,18 @@ def test_note_wording_and_what_is_kept():
     ]
 
 
+def test_a_note_never_names_a_way_that_is_dropped_too():
+    # a chain (by hand): 'dear' (12 days, 9,000) is beaten by 'less dear' (12, 8,000) and by
+    # 'cheap' (12, 7,000); 'less dear' is itself beaten by 'cheap'. Both go, and both notes
+    # name 'cheap', the way that stays (the rule in dominated_options' docstring).
+    a = Activity("C7", 14, options=(Option("dear", 12, 9000.0), Option("less dear", 12, 8000.0),
+                                    Option("cheap", 12, 7000.0)))
+    reduced, notes = drop_dominated(project(a))
+    assert names(reduced.activities[0]) == ["cheap"]
+    assert notes == ["C7: option 'dear' (12 days, 9,000) dropped: 'cheap' is as fast and cheaper",
+                     "C7: option 'less dear' (12 days, 8,000) dropped: 'cheap' is as fast and cheaper"]
+
+
 def test_example_of_the_brief():
     a = Activity("A120", 14, options=(Option("night shift", 12, 9000.0),
                                       Option("second crew", 12, 7000.0)))

@@ -33,6 +33,7 @@ Usage (from the repository root, in the project's environment)::
     python tools/mutation.py --only cpm-critical-zero --only passes-ff-loop
     python tools/mutation.py --module progress.py --markdown
     python tools/mutation.py --jobs 2          # two copies in parallel (a quiet machine only)
+    python tools/mutation.py --module planner.py --whole-seconds 230   # suite timed before
     python tools/mutation.py --only progress-allowance-up --tests tests/test_progress.py
 """
 
@@ -229,6 +230,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--seed", type=int, default=0, help="hypothesis seed (default 0)")
     parser.add_argument("--minimum", type=float, default=95.0, help="least score in %% (default 95)")
     parser.add_argument("--markdown", action="store_true", help="print the table as Markdown")
+    parser.add_argument("--whole-seconds", type=float, default=None,
+                        help="the whole suite's time without a mutant, measured before: not "
+                             "measured again (it sets the whole suite's time limit)")
     parser.add_argument("--tests", action="append", default=[],
                         help="run only these test files (repeatable), never the whole suite: to "
                              "see whether a new test catches a mutant (no score is kept)")
@@ -264,6 +268,8 @@ def main(argv: list[str] | None = None) -> int:
         free = list(copies)
         lock = threading.Lock()
         whole: list[float] = []  # the whole suite's limit, measured when first needed
+        if args.whole_seconds is not None:
+            whole.append(3 * args.whole_seconds + 60)
         whole_lock = threading.Lock()
 
         def whole_limit() -> float:
