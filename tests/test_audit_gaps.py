@@ -52,6 +52,22 @@ def test_next_day_cost_is_measured_from_the_plans_own_finish():
         assert plan.finish == 23 and plan.next_day_cost == pytest.approx(40.0), target
 
 
+def test_next_day_cost_counts_the_milestone_damages_it_saves():
+    # Hand-worked: A (5 days, 2 crash days at 100) -> M (milestone, due Thu 7 Jan 2027, 50 a
+    # calendar day late) -> B (5 days, 1 crash day at 30); from Mon 4 Jan, normal finish 10.
+    # M is dated the day A ends: Fri 8 (1 day late, 50); A a day shorter: Thu 7 (0).
+    # By 9 days: B's day (30 + damages 50 = 80) beats A's (100 + 0). By 8 days: B and A a day
+    # each (130 + 0) beats A two days (200). One more day from 9 therefore costs
+    # (130 + 0) - (30 + 50) = 50: the added cost rises 100 and the damages fall 50.
+    acts = [Activity("A", 5, crash_duration=3, cost=0, crash_cost=200),
+            Activity("M", 0, deadline=date(2027, 1, 7), damages_per_day=50),
+            Activity("B", 5, crash_duration=4, cost=0, crash_cost=30)]
+    planner = Planner(Project("damages", START, tuple(acts), (Link("A", "M"), Link("M", "B"))))
+    plan = planner.plan(9)
+    assert (plan.finish, plan.added_cost, plan.milestone_damages) == (9, pytest.approx(30), pytest.approx(50))
+    assert plan.next_day_cost == pytest.approx(50.0)
+
+
 def test_a_milestone_forecast_early_is_zero_days_late():
     # Hand-worked: M (a milestone after A, 5 days from Mon 4 Jan 2027) is dated Fri 8 Jan;
     # its deadline Fri 15 Jan is a week later, so it is 0 days late and owes 0, never -7 and
