@@ -68,6 +68,21 @@ def test_next_day_cost_counts_the_milestone_damages_it_saves():
     assert plan.next_day_cost == pytest.approx(50.0)
 
 
+def test_each_day_of_the_curve_counts_the_milestone_damages_it_saves():
+    # The same hand-worked project: least added cost + damages by finish (working days):
+    # 10: nothing, M 1 day late: 0 + 50; 9: B's day, 30 + 50; 8: B and A a day, 130 + 0;
+    # 7: B and A two days, 230 + 0. Each day costs the total less the total a day later:
+    # 9: 30, 8: 50 (100 more added, 50 less damages), 7: 100.
+    acts = [Activity("A", 5, crash_duration=3, cost=0, crash_cost=200),
+            Activity("M", 0, deadline=date(2027, 1, 7), damages_per_day=50),
+            Activity("B", 5, crash_duration=4, cost=0, crash_cost=30)]
+    curve = Planner(Project("damages", START, tuple(acts), (Link("A", "M"), Link("M", "B")))).curve()
+    got = {p.finish: (p.added_cost, p.milestone_damages, p.day_cost) for p in curve.points}
+    assert got[9] == (pytest.approx(30), pytest.approx(50), pytest.approx(30))
+    assert got[8] == (pytest.approx(130), pytest.approx(0), pytest.approx(50))
+    assert got[7] == (pytest.approx(230), pytest.approx(0), pytest.approx(100))
+
+
 def test_a_milestone_forecast_early_is_zero_days_late():
     # Hand-worked: M (a milestone after A, 5 days from Mon 4 Jan 2027) is dated Fri 8 Jan;
     # its deadline Fri 15 Jan is a week later, so it is 0 days late and owes 0, never -7 and
