@@ -13,7 +13,7 @@ from hypothesis import strategies as st
 from conftest import PROPERTY, TOL, linprog_least_cost, load_json, make_project, project_from_example
 from hasten.cpm import schedule
 from hasten.planner import Planner
-from hasten.project import Activity, Contract, Link, Project
+from hasten.project import Activity, Contract, CrashStep, Link, Project
 
 START = date(2027, 1, 4)  # a Monday
 
@@ -172,3 +172,24 @@ def test_a_part_whose_plan_fails_on_the_whole_network_is_widened(monkeypatch_par
     for point in planner.curve(planner.normal_finish, target):
         expected = linprog_least_cost(project, point.finish)
         assert abs(point.added_cost - expected) <= TOL * max(1.0, expected), point.finish
+
+
+def test_a_physical_minimum_keeps_the_linear_cost_per_day():
+    # The linear crash cost per day is (crash cost - normal cost) / (normal - crash
+    # duration) (# common practice: the cost slope): A 10 days, crash 4 days for 600 more:
+    # 100 a day. A physical minimum of 6 days stops crashing at 4 days off but keeps the
+    # slope: 4 days at 100 (not 600 / 4 = 150). Three days off cost 300.
+    a = Activity("A", 10, crash_duration=4, cost=0.0, crash_cost=600.0, min_duration=6)
+    assert a.segments() == (CrashStep(4, 100.0),)
+    plan = Planner(Project("slope", START, (a,), ())).plan(7)
+    assert plan.added_cost == pytest.approx(300.0)
+
+
+def test_a_physical_minimum_cuts_the_last_crash_step_short():
+    # S 10 days, steps 2 days at 100 then 3 at 250; a physical minimum of 7 days leaves 3
+    # days: 2 at 100, then 1 (not 3) at 250. The shortest plan is 7 days at 450.
+    s = Activity("S", 10, steps=(CrashStep(2, 100.0), CrashStep(3, 250.0)), min_duration=7)
+    assert s.segments() == (CrashStep(2, 100.0), CrashStep(1, 250.0))
+    planner = Planner(Project("minimum", START, (s,), ()))
+    assert planner.shortest_finish == 7
+    assert planner.plan(7).added_cost == pytest.approx(450.0)

@@ -52,7 +52,7 @@ TESTS: dict[str, tuple[str, ...]] = {
     "recovery.py": ("tests/test_mutants_plans.py", "tests/test_milestones.py", "tests/test_audit_gaps.py", "tests/test_messages.py"),
     "cautions.py": ("tests/test_cautions.py",),
     "quality.py": ("tests/test_quality.py",),
-    "project.py": ("tests/test_crashing_references.py", "tests/test_formats.py"),
+    "project.py": ("tests/test_crashing_references.py", "tests/test_formats.py", "tests/test_audit_gaps.py"),
     "formats/predecessors.py": ("tests/test_formats.py", "tests/test_formats_reliability.py"),
     "formats/document.py": ("tests/test_formats.py", "tests/test_formats_output.py"),
 }
