@@ -19,7 +19,7 @@ from typing import Sequence
 
 import networkx as nx
 import numpy as np
-from hypothesis import HealthCheck, settings
+from hypothesis import HealthCheck, Phase, settings
 from hypothesis import strategies as st
 from scipy.optimize import linprog
 
@@ -28,6 +28,11 @@ from hasten.project import Activity, Costs, CrashStep, Link, LinkType, Project
 DATA = Path(__file__).parent / "data"
 START = date(2024, 1, 1)  # a Monday; any start date would do for working-day offsets
 TOL = 1e-6  # the one float tolerance for money
+
+if os.environ.get("HASTEN_NO_SHRINK"):  # set by tools/mutation.py: that a test fails is enough,
+    # its smallest failing example is not needed (shrinking can take minutes per mutant)
+    settings.register_profile("no-shrink", phases=[Phase.explicit, Phase.reuse, Phase.generate])
+    settings.load_profile("no-shrink")
 
 #: moderate hypothesis settings: the whole reference suite stays well under two minutes
 #: (HASTEN_EXAMPLES=500 pytest ... for a longer search)

@@ -13,7 +13,7 @@ from hypothesis import strategies as st
 from conftest import PROPERTY, TOL, linprog_least_cost, load_json, make_project, project_from_example
 from hasten.cpm import schedule
 from hasten.planner import Planner
-from hasten.project import Activity, Contract, Link, Project
+from hasten.project import Activity, Contract, CrashStep, Link, Project
 
 START = date(2027, 1, 4)  # a Monday
 
@@ -50,6 +50,37 @@ def test_next_day_cost_is_measured_from_the_plans_own_finish():
     for target in (23, 24, 30):
         plan = planner.plan(target)
         assert plan.finish == 23 and plan.next_day_cost == pytest.approx(40.0), target
+
+
+def test_next_day_cost_counts_the_milestone_damages_it_saves():
+    # Hand-worked: A (5 days, 2 crash days at 100) -> M (milestone, due Thu 7 Jan 2027, 50 a
+    # calendar day late) -> B (5 days, 1 crash day at 30); from Mon 4 Jan, normal finish 10.
+    # M is dated the day A ends: Fri 8 (1 day late, 50); A a day shorter: Thu 7 (0).
+    # By 9 days: B's day (30 + damages 50 = 80) beats A's (100 + 0). By 8 days: B and A a day
+    # each (130 + 0) beats A two days (200). One more day from 9 therefore costs
+    # (130 + 0) - (30 + 50) = 50: the added cost rises 100 and the damages fall 50.
+    acts = [Activity("A", 5, crash_duration=3, cost=0, crash_cost=200),
+            Activity("M", 0, deadline=date(2027, 1, 7), damages_per_day=50),
+            Activity("B", 5, crash_duration=4, cost=0, crash_cost=30)]
+    planner = Planner(Project("damages", START, tuple(acts), (Link("A", "M"), Link("M", "B"))))
+    plan = planner.plan(9)
+    assert (plan.finish, plan.added_cost, plan.milestone_damages) == (9, pytest.approx(30), pytest.approx(50))
+    assert plan.next_day_cost == pytest.approx(50.0)
+
+
+def test_each_day_of_the_curve_counts_the_milestone_damages_it_saves():
+    # The same hand-worked project: least added cost + damages by finish (working days):
+    # 10: nothing, M 1 day late: 0 + 50; 9: B's day, 30 + 50; 8: B and A a day, 130 + 0;
+    # 7: B and A two days, 230 + 0. Each day costs the total less the total a day later:
+    # 9: 30, 8: 50 (100 more added, 50 less damages), 7: 100.
+    acts = [Activity("A", 5, crash_duration=3, cost=0, crash_cost=200),
+            Activity("M", 0, deadline=date(2027, 1, 7), damages_per_day=50),
+            Activity("B", 5, crash_duration=4, cost=0, crash_cost=30)]
+    curve = Planner(Project("damages", START, tuple(acts), (Link("A", "M"), Link("M", "B")))).curve()
+    got = {p.finish: (p.added_cost, p.milestone_damages, p.day_cost) for p in curve.points}
+    assert got[9] == (pytest.approx(30), pytest.approx(50), pytest.approx(30))
+    assert got[8] == (pytest.approx(130), pytest.approx(0), pytest.approx(50))
+    assert got[7] == (pytest.approx(230), pytest.approx(0), pytest.approx(100))
 
 
 def test_a_milestone_forecast_early_is_zero_days_late():
@@ -145,3 +176,24 @@ def test_a_part_whose_plan_fails_on_the_whole_network_is_widened(monkeypatch_par
     for point in planner.curve(planner.normal_finish, target):
         expected = linprog_least_cost(project, point.finish)
         assert abs(point.added_cost - expected) <= TOL * max(1.0, expected), point.finish
+
+
+def test_a_physical_minimum_keeps_the_linear_cost_per_day():
+    # The linear crash cost per day is (crash cost - normal cost) / (normal - crash
+    # duration) (# common practice: the cost slope): A 10 days, crash 4 days for 600 more:
+    # 100 a day. A physical minimum of 6 days stops crashing at 4 days off but keeps the
+    # slope: 4 days at 100 (not 600 / 4 = 150). Three days off cost 300.
+    a = Activity("A", 10, crash_duration=4, cost=0.0, crash_cost=600.0, min_duration=6)
+    assert a.segments() == (CrashStep(4, 100.0),)
+    plan = Planner(Project("slope", START, (a,), ())).plan(7)
+    assert plan.added_cost == pytest.approx(300.0)
+
+
+def test_a_physical_minimum_cuts_the_last_crash_step_short():
+    # S 10 days, steps 2 days at 100 then 3 at 250; a physical minimum of 7 days leaves 3
+    # days: 2 at 100, then 1 (not 3) at 250. The shortest plan is 7 days at 450.
+    s = Activity("S", 10, steps=(CrashStep(2, 100.0), CrashStep(3, 250.0)), min_duration=7)
+    assert s.segments() == (CrashStep(2, 100.0), CrashStep(1, 250.0))
+    planner = Planner(Project("minimum", START, (s,), ()))
+    assert planner.shortest_finish == 7
+    assert planner.plan(7).added_cost == pytest.approx(450.0)

@@ -9,11 +9,14 @@ is hand-worked of our own (arithmetic in the comments); calendar mon-fri from Mo
 
 from __future__ import annotations
 
+import dataclasses
+from datetime import date
 from pathlib import Path
 
 from conftest import make_project
+from hasten.cautions import stacking
 from hasten.planner import Planner
-from hasten.project import Activity, Link, Option
+from hasten.project import Activity, Calendar, Link, Option
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -107,3 +110,45 @@ def test_physical_waits_labour_cannot_shorten():
     assert "'Coat steelwork'" not in height
     # no invented figures: the only numbers are in the general caution and the concrete one
     assert "Curing" not in text
+
+
+def test_work_of_two_trades_sharing_one_day_overlaps():
+    # A's last day is B's first day, Fri 2027-06-04: they overlap on that one day (a day
+    # worked by both is a day both crews are on site).
+    rows = [("'A' (A1)", "electrical", date(2027, 6, 1), date(2027, 6, 4)),
+            ("'B' (B1)", "drylining", date(2027, 6, 4), date(2027, 6, 8))]
+    assert stacking(rows) == ["'A' (A1, electrical) and 'B' (B1, drylining) from 2027-06-04 to 2027-06-04"]
+    # B a day later (Sat 06-05): no day in common, no overlap
+    assert stacking(rows[:1] + [("'B' (B1)", "drylining", date(2027, 6, 5), date(2027, 6, 8))]) == []
+
+
+def test_one_trade_written_in_two_cases_does_not_stack_with_itself():
+    rows = [("'A' (A1)", "electrical", date(2027, 6, 1), date(2027, 6, 9)),
+            ("'B' (B1)", "Electrical", date(2027, 6, 7), date(2027, 6, 20))]
+    assert stacking(rows) == []
+
+
+def test_trade_words_are_whole_words():
+    # "plasterboard" (drylining) is not plaster: no drying caution; "plaster" is.
+    board = make_project([crashable("P1", "plasterboard", "Level 2 partitions")], [])
+    assert not any(c.startswith("Screed or plaster") for c in cautions(board, 2))
+    wet = make_project([crashable("P2", "plaster", "Level 2 skim")], [])
+    assert any(c.startswith("Screed or plaster") and "'Level 2 skim' (P2)" in c for c in cautions(wet, 2))
+
+
+def test_a_concrete_method_change_is_not_called_shortened_curing():
+    # S2 (concrete, 10 days) finishes in 6 only by the option "precast planks" (6 days,
+    # +100): a change of method, no crash days, so no curing caution names it (the curing
+    # caution is about work "shortened with crash days").
+    p = make_project([Activity("S2", 10, name="Level 3 slab", trade="concrete",
+                               options=(Option("precast planks", 6, 100.0),))], [])
+    assert not any("Curing" in c for c in cautions(p, 4))
+
+
+def test_a_six_day_calendar_has_its_weekly_rest_day():
+    # W shortened on a six-day calendar (Mon-Sat): Sunday is its rest day, no caution; on an
+    # every-day calendar the caution names it.
+    for days, named in ((6, False), (7, True)):
+        cal = Calendar(tuple(range(days)), (), "site")
+        p = make_project([dataclasses.replace(crashable("W", "joinery"), calendar="site")], [], calendars=(cal,))
+        assert any("no weekly rest day" in c and "'W' (W)" in c for c in cautions(p, 2)) is named, days

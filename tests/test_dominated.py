@@ -60,6 +60,18 @@ def test_note_wording_and_what_is_kept():
     ]
 
 
+def test_a_note_never_names_a_way_that_is_dropped_too():
+    # a chain (by hand): 'dear' (12 days, 9,000) is beaten by 'less dear' (12, 8,000) and by
+    # 'cheap' (12, 7,000); 'less dear' is itself beaten by 'cheap'. Both go, and both notes
+    # name 'cheap', the way that stays (the rule in dominated_options' docstring).
+    a = Activity("C7", 14, options=(Option("dear", 12, 9000.0), Option("less dear", 12, 8000.0),
+                                    Option("cheap", 12, 7000.0)))
+    reduced, notes = drop_dominated(project(a))
+    assert names(reduced.activities[0]) == ["cheap"]
+    assert notes == ["C7: option 'dear' (12 days, 9,000) dropped: 'cheap' is as fast and cheaper",
+                     "C7: option 'less dear' (12 days, 8,000) dropped: 'cheap' is as fast and cheaper"]
+
+
 def test_example_of_the_brief():
     a = Activity("A120", 14, options=(Option("night shift", 12, 9000.0),
                                       Option("second crew", 12, 7000.0)))
@@ -130,6 +142,20 @@ def test_reverse_critical_activity_keeps_slower_options():
     # with a finish-to-start link the slower option is useless and goes
     fs = (Link("A", "X"), Link("X", "B", LinkType.SS))
     assert names(drop_dominated(project(a, x, b, links=fs))[0].activities[1]) == []
+
+
+def test_an_sf_link_in_makes_an_activity_reverse_critical_too():
+    """The same by hand with an SF link in: A (10 days) -SF+10-> X -SS-> B (10 days); X must
+    finish by A's start 0 + 10 = day 10. X normal, 2 days: X 8-10, B 8-18, finish 18 at 0.
+    X 'long', 6 days, +1: X 4-10, B 4-14, finish 14 at cost 1: the slower, dearer option is
+    the only way to finish by 14 and must be kept."""
+    a, b = Activity("A", 10), Activity("B", 10)
+    x = Activity("X", 2, options=(Option("long", 6, 1.0),))
+    links = (Link("A", "X", LinkType.SF, 10), Link("X", "B", LinkType.SS))
+    reduced, notes = drop_dominated(project(a, x, b, links=links))
+    assert names(reduced.activities[1]) == ["long"] and notes == []
+    inf = float("inf")  # by hand above: nothing by day 13, cost 1 from day 14, 0 from day 18
+    assert least_cost_curve(reduced, range(13, 19)) == [inf, 1, 1, 1, 1, 0]
 
 
 def test_input_is_left_alone_and_rest_unchanged():

@@ -49,6 +49,21 @@ def test_the_earliest_finish_within_a_budget_buys_only_whole_days_it_can_pay_for
     assert (plan.finish, plan.added_cost) == (14, 100.0)
 
 
+def test_a_budget_spent_to_the_cent_buys_its_days():
+    # mutant planner-budget-strict. The same A (10 days, crash to 6 at 100 a day) -> B (5
+    # days), normal finish 15: a budget of exactly 200 buys two days (finish 13) and 100 one
+    # (14), on the bisection path (linear costs, one calendar) and, with the far milestone
+    # M, on the one-solve path; 199.99 buys only one.
+    acts = [Activity("A", 10, crash_duration=6, cost=0.0, crash_cost=400.0), Activity("B", 5)]
+    linear = Planner(make_project(acts, [Link("A", "B")]))
+    capped = Planner(make_project(acts + [Activity("M", 0, deadline=date(2024, 12, 31))],
+                                  [Link("A", "B"), Link("B", "M")]))
+    for planner in (linear, capped):
+        for budget, finish, cost in ((200.0, 13, 200.0), (100.0, 14, 100.0), (199.99, 14, 100.0)):
+            plan = planner.earliest_within(budget)
+            assert (plan.finish, plan.added_cost) == (finish, cost), budget
+
+
 def test_the_tie_break_of_options_never_spends_more():
     # mutant ties-mip-slack. A (4 days) -> B (4 days) -> C (4 days), finish 12, target 10.
     # B and C can each lose a day at 500; A has an option "second crew", 2 days at 1,005.

@@ -301,6 +301,17 @@ def test_a_cost_misstated_by_one_day_is_refused():
             check_plan(four_links(), d, claimed_finish=8, claimed_cost=wrong)
 
 
+def test_crash_steps_are_priced_in_order_and_a_step_used_in_part_by_its_days():
+    # hand-worked: W 10 days, crash steps 2 days at 100 then 3 days at 250 (the cheaper days
+    # first, as a piecewise-linear crash cost is used). Cut 3 days: 2 x 100 + 1 x 250 = 450;
+    # cut 5: 2 x 100 + 3 x 250 = 950; cut 1: 1 x 100 = 100.
+    project = make_project([Activity("W", 10, steps=(CrashStep(2, 100.0), CrashStep(3, 250.0)))], [])
+    for days, cost in ((9, 100.0), (7, 450.0), (5, 950.0)):
+        assert close(check_plan(project, [days], claimed_finish=days, claimed_cost=cost).cost, cost)
+    with refused("the added cost sums to 450.00, not 950.00 as claimed"):
+        check_plan(project, [7], claimed_finish=7, claimed_cost=950.0)
+
+
 def test_a_finish_claimed_by_ignoring_an_ff_link_is_refused():
     # four_links without the B -FF+1-> D link would finish at 8 (B 5-8, C 2-7, D 0-2); the
     # link holds D to finish at 9 (hand-worked above)
@@ -671,6 +682,23 @@ def test_each_link_type_between_calendars(kind, x, not_before, y, starts, finish
     assert got.starts == starts and got.finish == finish
     with refused(f"link X -> Y ({kind.value}{'+1' if kind is SS else ''}) is broken"):
         check_plan(project, [x, y], starts=(starts[0], starts[1] - 1), claimed_finish=finish, claimed_cost=0.0)
+
+
+def test_an_sf_link_into_every_day_work_leaves_the_evening_before_the_start():
+    # Hand-worked of our own, from Mon 3 Mar 2025: X (Mon-Fri) 1 day, not before Mon 10 (its
+    # day 5); Y (every day, Fri 7 = its day 4) 1 day; X -SF-> Y. The boundary before X's first
+    # day is Fri 7's evening (README "Method": an SF link leaves the evening before), so Y
+    # must finish by the end of a day not before it: Fri 7's end (5); Y runs Fri 7 (day 4).
+    # Taken at Mon 10's morning instead, Y would have to end Sun 9 (start day 6).
+    # Finish: X ends Mon 10 = Mon-Fri day 6; Y's Friday ends day 5: finish 6.
+    project = Project("sf across", date(2025, 3, 3), (Activity("X", 1, not_before=date(2025, 3, 10)),
+                                                     Activity("Y", 1, calendar="crane")),
+                      (Link("X", "Y", SF),), calendars=(CRANE,))
+    got = check_plan(project, [1, 1], claimed_finish=6, claimed_cost=0.0)
+    assert got.starts == (5, 4) and got.finish == 6
+    with refused("link X -> Y (SF) is broken: Y finishes at day 4, the link needs day 5 or later"):
+        check_plan(project, [1, 1], starts=(5, 3), claimed_finish=6, claimed_cost=0.0)
+    assert Network(project).forward(Network(project).durations) == [5, 4]  # the optimiser side agrees
 
 
 def test_weekend_work_finishes_the_project_on_the_next_working_day():

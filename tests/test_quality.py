@@ -193,3 +193,24 @@ def test_plan_best_and_recover_print_one_line_when_a_measure_fails(tmp_path):
     write_project(make_project([Activity("A", 5), Activity("B", 3)], [Link("A", "B")]), tmp_path / "q")
     out = runner.invoke(app, ["plan", str(tmp_path / "q"), "--finish", "8"])
     assert out.exit_code == 0 and "Schedule check" not in out.output
+
+
+def test_an_ff_successor_drives_a_finish():
+    # A (5 d) -FF-> B (10 d): A's finish drives B's finish, so A's finish is not open; B's
+    # start has only an FF link in: not driven. A is the first activity (day 0), B the last
+    # (B 0-10 ends the job): B's start is the one open end.
+    report = assess(make_project([Activity("A", 5), Activity("B", 10)], [Link("A", "B", LinkType.FF)]))
+    assert measure(report, "open_ends").items == ("B (start not driven (only FF/SF in))",)
+
+
+def test_links_into_finished_work_are_history_not_counted():
+    # data date Wed 01-10: A (2 d) ran Mon 01-01 - Tue 01-02, B (2 d) Fri 01-05 - Mon 01-08,
+    # both finished; C (3 d) not started. Of the links, A -FS+2-> B ends in finished work
+    # (history); only B -> C is counted: 0 lags of 1 link (not 1 of 2).
+    p = make_project([
+        Activity("A", 2, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 2)),
+        Activity("B", 2, actual_start=date(2024, 1, 5), actual_finish=date(2024, 1, 8)),
+        Activity("C", 3),
+    ], [Link("A", "B", FS, 2), Link("B", "C")], data_date=date(2024, 1, 10))
+    m = measure(assess(p), "lags")
+    assert (m.count, m.base, m.items) == (0, 1, ())

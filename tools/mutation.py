@@ -18,8 +18,10 @@ mutant whose original text is not found exactly once in its file is an *error*: 
 be kept up to date with the code. Equivalent mutants (no behaviour anyone can observe
 changes) carry their reason in the list and are not run unless ``--equivalent`` is given.
 
-Hypothesis runs with a fixed seed (``--hypothesis-seed``) so that a score is repeatable, and
-its example database stays in the temporary copy.
+Hypothesis runs with a fixed seed (``--hypothesis-seed``) so that a score is repeatable, its
+example database stays in the temporary copy, and it does not shrink a failing example
+(``HASTEN_NO_SHRINK``, read by ``tests/conftest.py``): that a test fails is all the runner
+needs, and shrinking took minutes for some mutants (they ran into the time limit).
 
 Score: detected (killed + timeout) / non-equivalent mutants run. The exit code is 0 when the
 score is at least ``--minimum`` (default 95 %) and no mutant is an error, 1 otherwise.
@@ -31,6 +33,7 @@ Usage (from the repository root, in the project's environment)::
     python tools/mutation.py --only cpm-critical-zero --only passes-ff-loop
     python tools/mutation.py --module progress.py --markdown
     python tools/mutation.py --jobs 2          # two copies in parallel (a quiet machine only)
+    python tools/mutation.py --module planner.py --whole-seconds 230   # suite timed before
     python tools/mutation.py --only progress-allowance-up --tests tests/test_progress.py
 """
 
@@ -141,7 +144,8 @@ class Copy:
         self.dir = Path(tempfile.mkdtemp(prefix="hasten-mutants-"))
         _copy_tree(self.dir)
         self.seed = seed
-        self.env = dict(os.environ, PYTHONPATH=str(self.dir / "src"))
+        # HASTEN_NO_SHRINK (tests/conftest.py): hypothesis does not shrink a failing example
+        self.env = dict(os.environ, PYTHONPATH=str(self.dir / "src"), HASTEN_NO_SHRINK="1")
         self.env.pop("PYTHONDONTWRITEBYTECODE", None)
 
     def close(self) -> None:
@@ -226,6 +230,9 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--seed", type=int, default=0, help="hypothesis seed (default 0)")
     parser.add_argument("--minimum", type=float, default=95.0, help="least score in %% (default 95)")
     parser.add_argument("--markdown", action="store_true", help="print the table as Markdown")
+    parser.add_argument("--whole-seconds", type=float, default=None,
+                        help="the whole suite's time without a mutant, measured before: not "
+                             "measured again (it sets the whole suite's time limit)")
     parser.add_argument("--tests", action="append", default=[],
                         help="run only these test files (repeatable), never the whole suite: to "
                              "see whether a new test catches a mutant (no score is kept)")
@@ -261,6 +268,8 @@ def main(argv: list[str] | None = None) -> int:
         free = list(copies)
         lock = threading.Lock()
         whole: list[float] = []  # the whole suite's limit, measured when first needed
+        if args.whole_seconds is not None:
+            whole.append(3 * args.whole_seconds + 60)
         whole_lock = threading.Lock()
 
         def whole_limit() -> float:
