@@ -13,7 +13,7 @@ from datetime import date
 
 from conftest import make_project
 from hasten.planner import Planner
-from hasten.project import Activity, Contract, Link, Option
+from hasten.project import Activity, Contract, Link, LinkType, Option
 from hasten.recovery import recovery
 
 
@@ -110,3 +110,36 @@ def test_an_option_of_the_normal_duration_counts_as_a_change():
     assert changes(model, Solution((4, 3), 0.0, -50.0, choices=(0, -1))) == (1, 0)
     assert changes(model, Solution((4, 2), 0.0, 0.0, choices=(-1, -1))) == (1, 1)
     assert changes(model, Solution((4, 3), 0.0, 0.0, choices=(-1, -1))) == (0, 0)
+
+
+def test_a_link_from_finished_work_bounds_a_shortened_end():
+    # mutant slim-end-floor-dropped. A is finished (Mon 01-01 to Wed 01-03: it ends with day
+    # 2, offset 3); the data date is Thu 01-04 (day 3), so B (5 days, down to 2 at 100 a day)
+    # starts on day 3 at the earliest and ends by 8. FF A -> B lag 4: B cannot end before
+    # 3 + 4 = 7. B at 4 days ends at 3 + 4 = 7; shorter, it still ends at 7 (it starts later).
+    # So the shortest finish is 7 for 100, and no plan finishes by 6.
+    acts = [Activity("A", 3, actual_start=date(2024, 1, 1), actual_finish=date(2024, 1, 3)),
+            Activity("B", 5, crash_duration=2, cost=500.0, crash_cost=800.0)]
+    p = make_project(acts, [Link("A", "B", LinkType.FF, 4)], data_date=date(2024, 1, 4))
+    planner = Planner(p)
+    assert planner.normal_finish == 8
+    assert planner.shortest_finish == 7
+    points = {pt.finish: pt.added_cost for pt in Planner(p).curve()}
+    assert points == {8: 0.0, 7: 100.0}
+
+
+def test_best_settles_a_straight_curve_from_one_line():
+    # mutant planner-best-line (the line through two priced days drawn from the wrong end:
+    # a weaker bound, so days are priced that need not be). A chain of six activities of
+    # 10 days, each down to 4 at 100 a day: the least added cost falls 100 a day from 60
+    # down to 24, one straight line. Indirect cost 100 a day: every finish costs the same in
+    # total (6,000 + 100 x 60), ties go to the later finish, so the current finish is best;
+    # the line through the current finish and the day before bounds every earlier day at
+    # exactly that total, so nothing else needs a solve (issue 12: breakpoints and the
+    # days the time costs change slope, not every day).
+    acts = [Activity(f"A{i}", 10, crash_duration=4, cost=1000.0, crash_cost=1600.0) for i in range(6)]
+    p = make_project(acts, [Link(f"A{i}", f"A{i + 1}") for i in range(5)], indirect=100.0)
+    best = Planner(p).best_finish()
+    assert best.point.finish == 60
+    assert best.point.total_cost == 6000.0 + 100.0 * 60
+    assert len(best.table) <= 4, [r.finish for r in best.table]
