@@ -143,3 +143,16 @@ def test_best_settles_a_straight_curve_from_one_line():
     assert best.point.finish == 60
     assert best.point.total_cost == 6000.0 + 100.0 * 60
     assert len(best.table) <= 4, [r.finish for r in best.table]
+
+
+def test_a_lead_counts_in_a_plan_with_options():
+    # mutant lp-leads-dropped (leads, i.e. negative lags, taken as zero in the MILP's rows;
+    # the slim LP of linear costs is another code path). A takes 10 days; B may start 3 days
+    # before A ends (FS lag -3) and takes 5 days, or 3 with "two crews" for 100. Normal: B
+    # from day 7 to 12. Finishing by day 10 takes the option: B from 7 to 10, for 100.
+    acts = [Activity("A", 10), Activity("B", 5, options=(Option("two crews", 3, 100.0),))]
+    p = make_project(acts, [Link("A", "B", LinkType.FS, -3)])
+    planner = Planner(p)
+    assert planner.normal_finish == 12
+    plan = planner.plan(10)
+    assert plan.finish == 10 and plan.added_cost == 100.0
