@@ -10,8 +10,8 @@ SRC = Path(__file__).resolve().parents[1] / "src" / "hasten"
 # Every module of the package is listed here, as core or as an edge (DEVELOPERS.md,
 # "Architecture"); a new module must be placed before the tests pass.
 CORE = ["project", "errors", "calendar", "graph", "progress", "network", "passes", "cpm",
-        "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_ties",
-        "partial", "plan_costs", "plan_check", "plan_check_progress", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
+        "solver_model", "solver_highs", "solver_cbc", "crash_model", "crash_calendars", "crash_slim", "crash_ties",
+        "partial", "finish_search", "plan_costs", "plan_check", "plan_check_progress", "time_costs", "dominated", "cautions", "results", "planner", "recovery",
         "questions", "labour", "productivity", "premium", "crew_options", "quality",
         "uncertainty", "simulation", "cluster", "accelerated", "price", "crew_project", "plan_days", "risk",
         "scenario_model", "scenario_paths", "robust"]

@@ -22,7 +22,7 @@ one ever come out fractional, the shortening columns are made integer and the mo
 is solved again.
 
 On one calendar without discrete options or milestone deadlines the model is built slim
-(:meth:`CrashModel._slim_rows`): each end is written as ``s_i + D_i - sum_k y_ik`` in the
+(:func:`hasten.crash_slim.slim_rows`): each end is written as ``s_i + D_i - sum_k y_ik`` in the
 rows that use it, so there are no end columns and no duration rows. That is an affine
 one-to-one map of the feasible set above, so its vertices are the same whole-day plans;
 each warm re-solve has a third fewer rows and columns.
@@ -45,7 +45,7 @@ from enum import Enum
 
 import numpy as np
 
-from . import crash_calendars, crash_ties
+from . import crash_calendars, crash_slim, crash_ties
 from .crash_calendars import INT_TOL as _INT_TOL
 from .errors import HastenError, SolverError, TimeLimitError
 from .network import Network
@@ -126,7 +126,7 @@ class CrashModel:
         release = np.asarray(network.release, dtype=float)
         self.start = lm.add_columns(release, np.where(network.fixed, release, INF))
         # Linear costs on one calendar without milestone deadlines (the common case, and
-        # every curve and plan solved on a part): no end columns, see _slim_rows
+        # every curve and plan solved on a part): no end columns, see crash_slim
         self.slim = not network.several and not any(network.options) and \
             not any(a.deadline is not None for a in network.project.activities)
         self.end = None if self.slim else lm.add_columns(np.asarray(network.finish_release, dtype=float), INF)
@@ -234,7 +234,7 @@ class CrashModel:
 
     def _rows(self, net: Network) -> None:
         if self.slim:
-            self._slim_rows(net)
+            crash_slim.slim_rows(self, net)
             return
         n, lm = len(net), self.lp
         # duration rows: f_i - s_i + sum_k y_ik + sum_o (D_i - d_o) x_io + sum_o w_io = D_i
@@ -282,65 +282,6 @@ class CrashModel:
         index[0::2], index[1::2] = self.end[free], self.finish
         lm.add_rows(np.arange(0, 2 * len(free), 2), index, np.tile([1.0, -1.0], len(free)),
                     -INF, 0.0)
-
-    def _slim_rows(self, net: Network) -> None:
-        """The rows of :meth:`_rows` with each end ``f_i`` replaced by ``s_i + D_i - sum_k
-        y_ik`` (the duration row solved for it): no end columns and no duration rows, a
-        third fewer of each, and each warm re-solve that much quicker. The substitution is
-        an affine one-to-one map between the two feasible sets, so vertices stay whole-day
-        and the least cost is the same. Links ``later - earlier >= lag``, ends ``f_i <= T``
-        (unless implied by a successor, as in :meth:`_rows`) and ``f_i >= `` its earliest
-        finish where that can bind."""
-        n, lm = len(net), self.lp
-        D = np.asarray(net.durations, dtype=float)
-        per = np.bincount(self.cut_owner, minlength=n)
-        ptr = np.concatenate([[0], np.cumsum(per)])
-        by_owner = self.cuts[np.argsort(self.cut_owner, kind="stable")]
-        room = np.bincount(self.cut_owner, weights=np.asarray(lm.col_upper, dtype=float)[self.cuts], minlength=n)
-
-        def cuts_of(acts: np.ndarray, rows: np.ndarray, sign: float):
-            """(row, column, value) of every shortening column of ``acts``, one row each."""
-            lengths = per[acts]
-            total = int(lengths.sum())
-            first = np.cumsum(lengths) - lengths
-            pos = np.repeat(ptr[acts] - first, lengths) + np.arange(total)
-            return np.repeat(rows, lengths), by_owner[pos], np.full(total, sign)
-
-        def add(parts, count: int, lower, upper) -> None:
-            row = np.concatenate([p[0] for p in parts])
-            col = np.concatenate([p[1] for p in parts]).astype(np.int64)
-            val = np.concatenate([p[2] for p in parts]).astype(float)
-            order = np.argsort(row, kind="stable")
-            counts = np.bincount(row, minlength=count)
-            lm.add_rows(np.concatenate([[0], np.cumsum(counts)[:-1]]), col[order], val[order], lower, upper)
-
-        pred = np.asarray(net.pred, dtype=np.int64)
-        succ = np.asarray(net.succ, dtype=np.int64)
-        kind = np.asarray(net.kind, dtype=np.int64)
-        lag = np.asarray(net.lag, dtype=float)
-        m = len(pred)
-        if m:  # later - earlier >= lag, an end written as s + D - sum y
-            rows = np.arange(m)
-            later_end = (kind == _FF) | (kind == _SF)
-            earlier_end = (kind == _FS) | (kind == _FF)
-            le, ee = np.flatnonzero(later_end), np.flatnonzero(earlier_end)
-            add([(rows, self.start[succ], np.ones(m)), (rows, self.start[pred], -np.ones(m)),
-                 cuts_of(succ[le], le, -1.0), cuts_of(pred[ee], ee, 1.0)], m,
-                lag + np.where(earlier_end, D[pred], 0.0) - np.where(later_end, D[succ], 0.0), INF)
-        implied = np.zeros(n, dtype=bool)
-        if m:
-            implied[pred[((kind == _FS) | (kind == _FF)) & (lag >= 0)]] = True
-        free = np.flatnonzero(~implied)
-        rows = np.arange(len(free))
-        add([(rows, self.start[free], np.ones(len(free))), cuts_of(free, rows, -1.0),
-             (rows, np.full(len(free), self.finish), -np.ones(len(free)))], len(free), -INF, -D[free])
-        # an end's earliest finish (links to finished work), where start and shortening
-        # bounds do not imply it
-        floor = np.asarray(net.finish_release, dtype=float) - D
-        bind = np.flatnonzero(floor > np.asarray(net.release, dtype=float) - room)
-        if len(bind):
-            rows = np.arange(len(bind))
-            add([(rows, self.start[bind], np.ones(len(bind))), cuts_of(bind, rows, -1.0)], len(bind), floor[bind], INF)
 
     def _duration_rows_with_options(self, net: Network, durations: np.ndarray) -> None:
         n, lm = len(net), self.lp
