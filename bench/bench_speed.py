@@ -90,45 +90,43 @@ def _timed(fn):
     return out, time.perf_counter() - wall, time.process_time() - cpu
 
 
-def bench_curve(name: str, project: Project, acts: list[dict], repeat: int) -> bool:
-    normal = Planner(project).normal_finish
-    lo = normal - COMPRESS
+def _against_warm_trace(project: Project, acts: list[dict], repeat: int, longest=None, shortest=None):
+    """Planner(project).curve(longest, shortest) and floors.warm_trace over the same days,
+    ``repeat`` times interleaved: (curve, medians ours / floor, ratio, cpu/wall, floor's
+    cost at the last day, whether the two agree there)."""
     ours, floor, load = [], [], []
     for _ in range(repeat):
-        curve, wall, cpu = _timed(lambda: Planner(project).curve(normal, lo))
+        curve, wall, cpu = _timed(lambda: Planner(project).curve(longest, shortest))
         ours.append(wall)
         load.append(cpu / wall)
-        (cost, t), _, _ = _timed(lambda: floors.warm_trace(acts, normal, lo))
+        normal, last_day = curve.normal_finish, curve.points[-1].finish
+        (cost, t), _, _ = _timed(lambda: floors.warm_trace(acts, normal, last_day))
         floor.append(t)
-    ratio = statistics.median(ours) / statistics.median(floor)
+    mine, theirs = statistics.median(ours), statistics.median(floor)
     last = curve.points[-1].added_cost
     agree = abs(last - cost) <= 1e-6 * max(1.0, abs(cost))
+    return curve, mine, theirs, mine / theirs, statistics.median(load), cost, agree
+
+
+def bench_curve(name: str, project: Project, acts: list[dict], repeat: int) -> bool:
+    normal = Planner(project).normal_finish
+    curve, mine, theirs, ratio, load, cost, agree = _against_warm_trace(
+        project, acts, repeat, normal, normal - COMPRESS)
     ok = ratio <= CURVE_TARGET and agree
-    print(f"{name:<22} curve {COMPRESS} days  {statistics.median(ours):7.3f} s "
-          f"({1000 * statistics.median(ours) / COMPRESS:6.1f} ms/day)  warm_trace "
-          f"{statistics.median(floor):7.3f} s  ratio {ratio:5.2f}x (<= {CURVE_TARGET}x)  "
-          f"cpu/wall {statistics.median(load):.2f}  cost {last:,.0f}/{cost:,.0f}  "
-          f"{'PASS' if ok else 'FAIL'}", flush=True)
+    print(f"{name:<22} curve {COMPRESS} days  {mine:7.3f} s ({1000 * mine / COMPRESS:6.1f} ms/day)  warm_trace "
+          f"{theirs:7.3f} s  ratio {ratio:5.2f}x (<= {CURVE_TARGET}x)  cpu/wall {load:.2f}  "
+          f"cost {curve.points[-1].added_cost:,.0f}/{cost:,.0f}  {'PASS' if ok else 'FAIL'}", flush=True)
     return ok
 
 
 def bench_fullcurve(name: str, project: Project, acts: list[dict], repeat: int) -> bool:
     """The whole curve, normal finish to the shortest, against floors.warm_trace over the
     same days (its build and first solve included, as ours includes Planner())."""
-    ours, floor = [], []
-    for _ in range(repeat):
-        curve, wall, _ = _timed(lambda: Planner(project).curve())
-        ours.append(wall)
-        normal, shortest = curve.normal_finish, curve.points[-1].finish
-        (cost, t), _, _ = _timed(lambda: floors.warm_trace(acts, normal, shortest))
-        floor.append(t)
-    ratio = statistics.median(ours) / statistics.median(floor)
-    last = curve.points[-1].added_cost
-    agree = abs(last - cost) <= 1e-6 * max(1.0, abs(cost))
+    curve, mine, theirs, ratio, load, cost, agree = _against_warm_trace(project, acts, repeat)
     ok = ratio <= FULL_CURVE_TARGET and agree
-    print(f"{name:<22} whole curve {len(curve.points)} points  {statistics.median(ours):7.3f} s  "
-          f"warm_trace {statistics.median(floor):7.3f} s  ratio {ratio:5.2f}x (<= {FULL_CURVE_TARGET}x)  "
-          f"cost {last:,.0f}/{cost:,.0f}  {'PASS' if ok else 'FAIL'}", flush=True)
+    print(f"{name:<22} whole curve {len(curve.points)} points  {mine:7.3f} s  warm_trace {theirs:7.3f} s  "
+          f"ratio {ratio:5.2f}x (<= {FULL_CURVE_TARGET}x)  cpu/wall {load:.2f}  "
+          f"cost {curve.points[-1].added_cost:,.0f}/{cost:,.0f}  {'PASS' if ok else 'FAIL'}", flush=True)
     return ok
 
 

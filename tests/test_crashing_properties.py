@@ -145,13 +145,7 @@ def test_best_is_least_total_over_the_curve(project, indirect, contract_shift, d
     project = dataclasses.replace(project, contract=Contract(
         finish=contract_day, damages_per_day=damages, bonus_per_day=bonus, bonus_cap_days=cap))
     study = Planner(project)
-    curve = study.curve()
-    totals = {p.finish: project.normal_direct_cost + p.added_cost
-              + time_costs(project, study.clock, p.finish).net for p in curve}
-    least = min(totals.values())
-    best = study.best_finish()
-    assert close(best.point.total_cost, least)
-    assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
+    best, totals = _best_is_least_total(project, study, Planner(project).curve())
     # the table: the finishes priced (a branch and bound over the convex added cost prices
     # only days that could still be the least), the current finish and the best among them
     finishes = [r.finish for r in best.table]
@@ -161,6 +155,18 @@ def test_best_is_least_total_over_the_curve(project, indirect, contract_shift, d
         assert close(row.total_cost, totals[row.finish])
     assert close(best.plan.added_cost, best.point.added_cost)
     assert best.plan.finish <= best.point.finish
+
+
+def _best_is_least_total(project, study, curve):
+    """best_finish against the definition: the least of normal direct + added + time costs
+    over every day of the curve, ties to the later finish. Returns it and the totals."""
+    totals = {p.finish: project.normal_direct_cost + p.added_cost
+              + time_costs(project, study.clock, p.finish).net for p in curve}
+    least = min(totals.values())
+    best = study.best_finish()
+    assert close(best.point.total_cost, least)
+    assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
+    return best, totals
 
 
 @PROPERTY
@@ -185,13 +191,7 @@ def test_best_by_bounds_is_the_least_total_of_every_day(project, data):
         bonus_per_day=data.draw(st.integers(0, 40)), bonus_cap_days=data.draw(st.one_of(st.none(), st.integers(0, 9)))))
     study = Planner(project)
     assert study._partial_ok  # the branch and bound, not the day-by-day trace
-    curve = Planner(project).curve()
-    totals = {p.finish: project.normal_direct_cost + p.added_cost
-              + time_costs(project, study.clock, p.finish).net for p in curve}
-    least = min(totals.values())
-    best = study.best_finish()
-    assert close(best.point.total_cost, least)
-    assert best.point.finish == max(t for t, v in totals.items() if close(v, least))
+    best, totals = _best_is_least_total(project, study, Planner(project).curve())
     for row in best.table:
         assert close(row.total_cost, totals[row.finish])
         assert row.time == time_costs(project, study.clock, row.finish)

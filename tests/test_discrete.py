@@ -209,11 +209,7 @@ def test_ties_with_a_free_option_and_continuous_shortening_in_the_tie_break():
     # brute force): the tie-break MILP's plan had 1.999985 and 1.000015 shortening days,
     # was read as fractional and dropped, so a free option stayed in the plan (3 activities
     # changed where 2 suffice: A0 and A3 one day each, 150)
-    acts = [Activity("A0", 3, crash_duration=1, cost=100.0, crash_cost=260.0),
-            Activity("A1", 2, crash_duration=2, cost=100.0, crash_cost=100.0, options=(Option("o0", 1, 0.0),)),
-            Activity("A2", 1, crash_duration=1, cost=100.0, crash_cost=100.0),
-            Activity("A3", 3, crash_duration=2, cost=100.0, crash_cost=170.0)]
-    ties_match_brute_force(make_project(acts, [Link("A0", "A1"), Link("A0", "A2"), Link("A0", "A3")]))
+    ties_match_brute_force(_free_option_fan(a0_crash_cost=260.0, a3=(3, 2, 170.0)))
 
 
 def test_the_tie_break_is_not_fooled_by_a_start():
@@ -221,11 +217,18 @@ def test_the_tie_break_is_not_fooled_by_a_start():
     # brute force) when the tie-break MILP was given the least-cost plan as a start: HiGHS
     # 1.16 called that start optimal at 5 days (a free option and two days off A3: 2
     # activities changed) where one activity changed suffices (two days off A3 or off A0)
-    acts = [Activity("A0", 3, crash_duration=1, cost=100.0, crash_cost=120.0),
+    ties_match_brute_force(_free_option_fan(a0_crash_cost=120.0, a3=(4, 2, 120.0)))
+
+
+def _free_option_fan(a0_crash_cost: float, a3: tuple[int, int, float]):
+    # A0 (3 days, down to 1) before A1 (2 days, a free option of 1 day), A2 (1 day) and A3
+    # (a3: duration, crash duration, crash cost); normal cost 100 each
+    duration, crash, crash_cost = a3
+    acts = [Activity("A0", 3, crash_duration=1, cost=100.0, crash_cost=a0_crash_cost),
             Activity("A1", 2, crash_duration=2, cost=100.0, crash_cost=100.0, options=(Option("o0", 1, 0.0),)),
             Activity("A2", 1, crash_duration=1, cost=100.0, crash_cost=100.0),
-            Activity("A3", 4, crash_duration=2, cost=100.0, crash_cost=120.0)]
-    ties_match_brute_force(make_project(acts, [Link("A0", "A1"), Link("A0", "A2"), Link("A0", "A3")]))
+            Activity("A3", duration, crash_duration=crash, cost=100.0, crash_cost=crash_cost)]
+    return make_project(acts, [Link("A0", "A1"), Link("A0", "A2"), Link("A0", "A3")])
 
 
 def ties_match_brute_force(project):
