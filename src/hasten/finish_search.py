@@ -52,7 +52,7 @@ def total_costs_by_bounds(planner: Planner, progress: Progress | None = None) ->
         except InfeasibleTargetError as e:
             lo = max(lo, e.shortest)
             return False
-        rows[target] = planner.total_cost_point(target, planner._checked(sol, target).cost)
+        rows[target] = planner.total_cost_point(target, planner._checked(sol, target, finish=False).cost)
         return True
 
     price(n)  # the current finish: nothing added

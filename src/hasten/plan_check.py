@@ -214,10 +214,11 @@ class PlanChecker:
     # -- one plan --------------------------------------------------------------------------
     def check(self, durations: Sequence[int], *, choices: Sequence[int] | None = None,
               starts: Sequence[int] | None = None, early: bool = False, target: int | None = None,
-              claimed_finish: int, claimed_cost: float, claimed_costs: Sequence[float] | None = None,
+              claimed_finish: int | None, claimed_cost: float, claimed_costs: Sequence[float] | None = None,
               claimed_damages: float = 0.0, claimed_finish_date: date | None = None,
               strict: bool = False) -> CheckedPlan:
-        """Check one plan; see :func:`check_plan`."""
+        """Check one plan; see :func:`check_plan`. ``claimed_finish`` ``None``: no finish
+        is claimed, only that the plan finishes by ``target`` (a day of a curve)."""
         d = self._whole(durations, "duration")
         c = np.full(len(d), -1, dtype=np.int64) if choices is None else self._whole(choices, "option index")
         lo, hi = self._bounds(c)
@@ -238,10 +239,10 @@ class PlanChecker:
                                          f"early start is day {early_starts[k]}")
             self._check_starts(s, d)
             given = self._project_finish(s + d)
-            if given > claimed_finish:
+            if claimed_finish is not None and given > claimed_finish:
                 raise PlanCheckError(f"plan check: the given starts finish on day {given}, "
                                      f"after the claimed finish, day {claimed_finish}")
-        if finish != claimed_finish:
+        if claimed_finish is not None and finish != claimed_finish:
             raise PlanCheckError(f"plan check: the plan finishes on day {finish} by its forward pass, "
                                  f"not on day {claimed_finish} as claimed")
         finish_date = self._reading.clocks[0].date_of(max(finish - 1, self._reading.finish_floor, 0))

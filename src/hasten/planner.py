@@ -39,7 +39,7 @@ Progress = Callable[[int, int], None]
 class _Figures(NamedTuple):
     """What is shown with a plan, as the optimiser side has it (and the check agreed)."""
 
-    finish: int  # project working days, by the network's own CPM pass of the plan
+    finish: int  # project working days, by the network's own CPM pass (a curve day: its target)
     cost: float  # added direct cost, the solver's
     damages: float  # of own deadlines missed at the early dates (hasten.plan_costs)
     costs: list[float] | None  # added direct cost of each activity, for a plan shown (hasten.plan_costs)
@@ -187,7 +187,7 @@ class Planner:
         return sol
 
     def _checked(self, sol: Solution, target: int | None, shown: list[int] | None = None, *,
-                 strict: bool = False, solved: bool = True) -> _Figures:
+                 strict: bool = False, solved: bool = True, finish: bool = True) -> _Figures:
         """The figures of a solution, from the optimiser side: its finish (and the finish
         date) by the network's CPM pass, the solver's added cost, the milestone damages at
         the early dates and, for a plan shown (``shown``: the early starts its schedule
@@ -196,6 +196,12 @@ class Planner:
         agree (with ``strict``: no own deadline missed), else :class:`PlanCheckError`.
         ``solved``: the damages the solver counted must cover those of the dates too."""
         net, d, choices = self.network, sol.durations, sol.choices or None
+        if not finish and shown is None and not sol.early and not self.costs.owes_damages:
+            # a day of a curve (``finish`` False): only its cost is shown, and the check
+            # that it finishes by the target; no forward pass of our own for a finish
+            self.checker.check(d, choices=choices, target=target, claimed_finish=None,
+                               claimed_cost=sol.added_cost, strict=strict)
+            return _Figures(target, sol.added_cost, 0.0, None)
         early = shown if shown is not None else sol.starts if sol.early else net.forward(d)
         finish = net.finish_of(early, d)
         costs = None if shown is None else self.costs.added_costs(d, choices)
@@ -318,7 +324,7 @@ class Planner:
             if sol is None:  # the day before was the shortest finish
                 self._shortest = lo = min(target + 1, self.normal_finish)
                 break
-            figures = self._checked(sol, target)
+            figures = self._checked(sol, target, finish=False)
             solved[target] = (sol, figures.cost, figures.damages)
             if progress:
                 progress(k + 1, k + 2 if to_the_end else len(targets))
