@@ -26,7 +26,6 @@ import argparse
 import cProfile
 import gc
 import io
-import json
 import os
 import pstats
 import resource

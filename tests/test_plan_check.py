@@ -890,3 +890,14 @@ def test_a_plan_stopped_by_a_time_limit_is_checked_the_same_way(monkeypatch):
     monkeypatch.setattr(planner, "_solve", unproven_and_wrong)
     with refused("the added cost sums to 40.00, not 80.00 as claimed"):
         planner.plan(22)
+
+
+def test_a_day_of_a_curve_claims_no_finish_but_must_meet_its_day():
+    # a curve day claims no finish (claimed_finish None), only that it finishes by its day.
+    # Hand-worked: A (5 days, down to 3 for 20) then B (4 days). A at 4 days: A 0-4, B 4-8,
+    # finish 8, added 10. By day 8 it passes; by day 7 it is refused.
+    job = make_project([Activity("A", 5, crash_duration=3, crash_cost=20.0), Activity("B", 4)], [Link("A", "B")])
+    checker = PlanChecker(job)
+    assert checker.check([4, 4], target=8, claimed_finish=None, claimed_cost=10.0).finish == 8
+    with pytest.raises(PlanCheckError, match="after the target, day 7"):
+        checker.check([4, 4], target=7, claimed_finish=None, claimed_cost=10.0)

@@ -25,7 +25,7 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import replace
-from datetime import date, timedelta
+from datetime import timedelta
 
 import numpy as np
 import pytest
