@@ -127,8 +127,7 @@ class CrashModel:
         self.start = lm.add_columns(release, np.where(network.fixed, release, INF))
         # Linear costs on one calendar without milestone deadlines (the common case, and
         # every curve and plan solved on a part): no end columns, see crash_slim
-        self.slim = not network.several and not any(network.options) and \
-            not any(a.deadline is not None for a in network.project.activities)
+        self.slim = crash_slim.linear_on_one_calendar(network)
         self.end = None if self.slim else lm.add_columns(np.asarray(network.finish_release, dtype=float), INF)
         self.finish = int(lm.add_columns([0.0], INF)[0])
         self.horizon_finish: int | None = None  # latest finish modelled (several calendars)

@@ -14,9 +14,17 @@ if TYPE_CHECKING:
     from .crash_model import CrashModel
     from .network import Network
 
-__all__ = ["slim_rows"]
+__all__ = ["slim_rows", "linear_on_one_calendar"]
 
 _FS, _FF, _SF = 0, 2, 3  # (link kinds, as in crash_model)
+
+
+def linear_on_one_calendar(network: Network) -> bool:
+    """Linear costs only (no discrete options), one calendar, and no activity with a
+    deadline of its own: the model is built slim, and plans may be solved on a part
+    (:func:`hasten.partial.solvable_on_part`)."""
+    return (not network.several and not any(network.options)
+            and not any(a.deadline is not None for a in network.project.activities))
 
 
 def slim_rows(model: CrashModel, net: Network) -> None:

@@ -90,7 +90,6 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool) -> Solu
     lm.node_limit = TIE_BREAK_NODES
     if lm.time_limit is None:
         lm.time_limit = 30.0
-    spare = lm.copy()  # (no solver attached yet)
     out = lm.solve()
     if out.values is None or out.status != "optimal":
         return None
@@ -101,6 +100,7 @@ def fewest_changed_mip(model, best: Solution, target: int, strict: bool) -> Solu
         # of a day between activities (1.000015 and 0.999985 days, hypothesis found it):
         # read as fractional, the better plan was lost. Solve again, on a fresh copy, with
         # whole shortening days (slower, so only when needed).
+        spare = lm.copy()  # (a copy has no solver attached)
         spare.set_integer(np.concatenate([model.cuts, model.opt_w]), True)
         out = spare.solve()
         if out.values is None or out.status != "optimal":

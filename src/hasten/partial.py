@@ -32,6 +32,7 @@ import numpy as np
 
 from .network import Network
 from .crash_model import CrashModel, Solution
+from .crash_slim import linear_on_one_calendar
 
 __all__ = ["PartialSolver", "solvable_on_part"]
 
@@ -41,9 +42,7 @@ WHOLE_SHARE = 0.6  # a part this large (share of activities) is solved as the wh
 def solvable_on_part(network: Network) -> bool:
     """True when plans of ``network`` may be solved on a part of it: linear costs only
     (no discrete options), one calendar, and no activity with a deadline of its own."""
-    project = network.project
-    return (not network.several and not any(network.options)
-            and not any(a.deadline is not None for a in project.activities))
+    return linear_on_one_calendar(network)
 
 
 class PartialSolver:

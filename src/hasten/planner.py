@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
+from functools import cached_property
 from datetime import date
 from typing import Callable, NamedTuple
 
@@ -43,6 +44,11 @@ class _Figures(NamedTuple):
     cost: float  # added direct cost, the solver's
     damages: float  # of own deadlines missed at the early dates (hasten.plan_costs)
     costs: list[float] | None  # added direct cost of each activity, for a plan shown (hasten.plan_costs)
+
+
+def _empty_range(lo: int, hi: int) -> HastenError:
+    return HastenError(f"the curve range is empty: the shortest finish asked ({lo} working "
+                       f"days) is after the longest ({hi})")
 
 
 class Planner:
@@ -101,7 +107,6 @@ class Planner:
         self._shortest: int | None = None
         self._partial: PartialSolver | None = None
         self._partial_ok = solvable_on_part(self.network)  # plans may be solved on a part (hasten.partial)
-        self._direct: float | None = None
         self._reach = 0  # least reach of the focused part (the curve widens it once)
 
     # -- basics ------------------------------------------------------------------------
@@ -313,8 +318,7 @@ class Planner:
         to_the_end = shortest is None and self._shortest is None and self._partial_ok
         lo = 0 if to_the_end else self.shortest_finish if shortest is None else shortest
         if lo > hi:
-            raise HastenError(f"the curve range is empty: the shortest finish asked ({lo} working "
-                              f"days) is after the longest ({hi})")
+            raise _empty_range(lo, hi)
         top = hi + 1 if hi < self.normal_finish else hi  # one day more, for the first day's cost
         self._reach = max(self._reach, self.normal_finish - lo)
         targets = list(range(top, lo - 1, -1))
@@ -330,9 +334,8 @@ class Planner:
                 progress(k + 1, k + 2 if to_the_end else len(targets))
         if to_the_end and self._shortest is None:
             self._shortest = lo  # (day 0: nothing takes time)
-        if lo > hi:
-            raise HastenError(f"the curve range is empty: the shortest finish ({lo} working "
-                              f"days) is after the longest asked ({hi})")
+        if lo > hi:  # (traced: the shortest finish found is after the longest asked)
+            raise _empty_range(lo, hi)
         import numpy as np  # (loaded with the network already)
 
         ids = self.network.ids
@@ -368,12 +371,10 @@ class Planner:
         return "" if choice < 0 else self.network.options[i][choice].name
 
     # -- total cost --------------------------------------------------------------------
-    @property
+    @cached_property
     def normal_direct_cost(self) -> float:
         """The project's direct cost at normal durations (summed once)."""
-        if self._direct is None:
-            self._direct = self.project.normal_direct_cost
-        return self._direct
+        return self.project.normal_direct_cost
 
     def total_cost_point(self, finish: int, added_cost: float, milestone_damages: float = 0.0) -> TotalCostPoint:
         """Direct, indirect, damages and bonus of finishing at ``finish`` with ``added_cost``."""

@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from .calendar import CalendarClock, Timeline
-from .cpm import ActivityDates, Schedule
+from .cpm import Schedule
 from .progress import shown_days
 from .project import Project
 
@@ -117,10 +117,9 @@ def _schedule_columns(project: Project, sched: Schedule) -> tuple:
     ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
     if not rs:
         return ((),) * len(SCHEDULE_COLUMNS)
-    # the named tuples' fields as columns at once
+    # the fields of every row as columns at once
     (ids, duration, es_, ef_, ls_, lf_, total, free, critical, driving,
-     state) = zip(*rs) if ActivityDates._fields == _DATES_FIELDS else zip(*(
-         map(attrgetter(name), rs) for name in _DATES_FIELDS))
+     state) = zip(*map(attrgetter(*_DATES_FIELDS), rs))
     own = list(map(acts.__getitem__, ids))
     default = project.calendar.name
     calendars = map(attrgetter("calendar"), own)

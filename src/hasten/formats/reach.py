@@ -18,7 +18,6 @@ year 9999 are ever near the bound.
 
 from __future__ import annotations
 
-import math
 from operator import add, attrgetter, le, lt
 from collections.abc import Callable, Mapping, Sequence
 from datetime import date
@@ -35,9 +34,12 @@ _EPOCH = date(2000, 1, 1)  # a late start counts as its distance from here, to b
 
 def _span(days: int, calendar: Calendar) -> int:
     """Most calendar days ``days`` working days of ``calendar`` can take, from any instant."""
-    if days <= 0:
-        return 0
-    return math.ceil(days / max(len(calendar.workdays), 1)) * 7 + 7
+    return _weeks_span(days, max(len(calendar.workdays), 1))
+
+
+def _weeks_span(days: int, per_week: int) -> int:
+    """Most calendar days ``days`` working days take at ``per_week`` working days a week."""
+    return -(-days // per_week) * 7 + 7 if days > 0 else 0
 
 
 def _work(activity: Activity) -> tuple[int, str]:
@@ -128,15 +130,14 @@ def _latest_finish(project: Project, calendars: Mapping[str, Calendar], floor: d
     if any(map(attrgetter("calendar"), activities)):
         days = [max(len(calendars.get(a.calendar, project.calendar).workdays), 1)
                 for a in activities]
-        spans = [-(-w // k) * 7 + 7 if w > 0 else 0 for w, k in zip(work, days)]
-        lags = [-(-link.lag // days[s]) * 7 + 14 if link.lag > 0 else 7
-                for link, s in zip(links, succs)]
+        spans = list(map(_weeks_span, work, days))
+        lags = [_weeks_span(link.lag, days[s]) + 7 for link, s in zip(links, succs)]
     else:  # one calendar: each distinct number of days converted once
         k = max(len(project.calendar.workdays), 1)
-        span_of = {w: -(-w // k) * 7 + 7 if w > 0 else 0 for w in set(work)}
+        span_of = {w: _weeks_span(w, k) for w in set(work)}
         spans = list(map(span_of.__getitem__, work))
         link_lags = list(map(attrgetter("lag"), links))
-        lag_of = {lag: -(-lag // k) * 7 + 14 if lag > 0 else 7 for lag in set(link_lags)}
+        lag_of = {lag: _weeks_span(lag, k) + 7 for lag in set(link_lags)}
         lags = list(map(lag_of.__getitem__, link_lags))
     if all(map(le, succs, succs[1:])):
         ordered = zip(preds, succs, lags)
