@@ -86,6 +86,9 @@ def columns_table(columns: Sequence[Sequence[object]], headers: Sequence[str], *
     cells, top to bottom, all of one length), as ``table(list(zip(*columns)), headers, ...)``."""
     # the table column by column: each column turned into text, measured, cut and put
     # into the lines in one pass
+    columns = [column if isinstance(column, list) else list(column) for column in columns]
+    # columns of whole numbers are numbers (aligned right) without reading their texts
+    whole = [bool(column) and set(map(type, column)) <= {int} for column in columns]
     columns = [["" if c is None else str(c) for c in column] if None in column else list(map(str, column))
                for column in columns]
     headers = [str(h) for h in headers]
@@ -106,6 +109,7 @@ def columns_table(columns: Sequence[Sequence[object]], headers: Sequence[str], *
             del headers[gone]
             del measured[gone]
             del columns[gone]
+            del whole[gone]
             shorten = [j - (j > gone) for j in shorten if j != gone]
             wrap = [j - (j > gone) for j in wrap if j != gone]
         widths = list(measured)
@@ -124,19 +128,23 @@ def columns_table(columns: Sequence[Sequence[object]], headers: Sequence[str], *
             if cap is None:
                 continue
             columns[k] = [wrap_lines(x, cap) if k in wrap else cut(x, cap) for x in columns[k]]
+            whole[k] = False
             measured[k] = max(_longest_line(headers[k]), _widest(columns[k]))
     note = f"\n({', '.join(dropped)} left out to fit {width} columns; --wide shows every column)" if dropped else ""
-    return _render(columns, headers, measured) + note
+    return _render(columns, headers, measured, whole) + note
 
 
-def _render(columns: list[list[str]], headers: list[str], widths: list[int] | None = None) -> str:
+def _render(columns: list[list[str]], headers: list[str], widths: list[int] | None = None,
+            whole: Sequence[bool] = ()) -> str:
     """Columns two spaces apart, titles over a dashed rule (titles of several lines sit on
     the rule), numbers aligned right, other texts left; cells may hold several lines.
-    ``widths``: the columns' widths when the caller has measured them."""
+    ``widths``: the columns' widths when the caller has measured them; ``whole``: the
+    columns known to hold whole numbers (the texts of the others are read)."""
     if widths is None:
         widths = _widths(columns, headers)
     rows = bool(columns) and bool(columns[0])
-    right = [rows and _numbers(columns[k]) for k in range(len(headers))]
+    known = list(whole) + [False] * (len(headers) - len(whole))
+    right = [rows and (known[k] or _numbers(columns[k])) for k in range(len(headers))]
 
     def block(cells: list[str], top: bool) -> list[str]:
         parts = [c.split("\n") for c in cells]
