@@ -88,9 +88,9 @@ def columns_table(columns: Sequence[Sequence[object]], headers: Sequence[str], *
     # into the lines in one pass
     columns = [column if isinstance(column, list) else list(column) for column in columns]
     # columns of whole numbers are numbers (aligned right) without reading their texts
-    whole = [bool(column) and set(map(type, column)) <= {int} for column in columns]
-    columns = [["" if c is None else str(c) for c in column] if None in column else list(map(str, column))
-               for column in columns]
+    whole = [bool(column) and type(column[0]) is int and set(map(type, column)) <= {int} for column in columns]
+    columns = [list(map(str, column)) if known or None not in column else
+               ["" if c is None else str(c) for c in column] for column, known in zip(columns, whole)]
     headers = [str(h) for h in headers]
     dropped: list[str] = []
     measured = None  # the widths of the columns, measured once (a column left out or cut
@@ -175,6 +175,8 @@ def _numbers(column: list[str]) -> bool:
     one-line cells is matched whole."""
     given = list(filter(None, column))
     if not given:
+        return False
+    if not _NUMBER.match(given[0]):  # (a column of texts: known by its first)
         return False
     if "\n" in "".join(given):
         return all(_NUMBER.match(text) for text in given)

@@ -76,17 +76,20 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int],
 def _iso_dates(clock: CalendarClock, offsets: np.ndarray) -> list[str]:
     """``clock.iso_dates(offsets)``, each distinct day formatted once (a schedule's
     200,000 dates fall on a few thousand days)."""
+    if not len(offsets):
+        return []
+    low, high = int(offsets.min()), int(offsets.max())
+    if high - low <= len(offsets):  # every day from the first to the last, looked up by offset
+        return list(map(clock.iso_dates(np.arange(low, high + 1)).__getitem__, (offsets - low).tolist()))
     days, where = np.unique(offsets, return_inverse=True)
     return list(map(clock.iso_dates(days).__getitem__, where.tolist()))
 
 
-def _row_dates(project: Project, timeline: Timeline, ids: Sequence[str], durations: Sequence[int],
+def _row_dates(project: Project, timeline: Timeline, ids: Sequence[str], milestones: list[bool] | None,
                starts: Sequence[int], finishes: Sequence[int], states=None, late: bool = False):
     """Dates of one (start, finish) pair of every row (``ids``, in the project's order, as
-    a schedule has them), each in its activity's own calendar."""
-    milestones = (np.equal(durations, 0)
-                  & np.equal(list(map(attrgetter("duration"), project.activities)), 0)).tolist() \
-        if states and ids else [] if states else None
+    a schedule has them), each in its activity's own calendar; ``milestones``: the rows
+    dated as milestones when ``states`` are given."""
     if not timeline.several:
         return _dates(timeline.project_clock, starts, finishes, milestones, states, late)
     pos = {a.id: k for k, a in enumerate(project.activities)}
@@ -114,8 +117,10 @@ def schedule_columns(project: Project, sched: Schedule) -> tuple:
     own = acts if ids == tuple(map(attrgetter("id"), acts)) else list(map({a.id: a for a in acts}.__getitem__, ids))
     timeline = Timeline(project)
     states = sched.states or None
-    es, ef = _row_dates(project, timeline, ids, duration, es_, ef_, states)
-    ls, lf = _row_dates(project, timeline, ids, duration, ls_, lf_, states, late=True)
+    milestones = (np.equal(duration, 0) & np.equal(list(map(attrgetter("duration"), acts)), 0)).tolist() \
+        if states else None
+    es, ef = _row_dates(project, timeline, ids, milestones, es_, ef_, states)
+    ls, lf = _row_dates(project, timeline, ids, milestones, ls_, lf_, states, late=True)
     default = project.calendar.name
     calendars = map(attrgetter("calendar"), own)
     return (
