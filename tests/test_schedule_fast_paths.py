@@ -156,3 +156,23 @@ _CELL = st.one_of(st.integers(-10**6, 10**6), st.none(), st.sampled_from(["", "1
 def test_a_table_of_one_line_cells_is_the_plain_table(case):
     headers, rows = case
     assert table(rows, headers, wide=True) == _plain_table(rows, headers)
+
+
+def test_a_long_text_is_printed_as_echo_prints_it(tmp_path, monkeypatch):
+    """The command's JSON and text, printed by the path for long texts, are what
+    ``typer.echo`` prints (the threshold lowered so that a small project takes that path)."""
+    from typer.testing import CliRunner
+
+    from hasten import cli
+    from hasten.formats import write_project
+
+    project = _project([3, 0, 2, 5], [(0, 1, LinkType.FS, 0), (1, 2, LinkType.SS, 1), (0, 3, LinkType.FF, 2)])
+    folder = tmp_path / "p"
+    write_project(project, folder)
+    before = {args: CliRunner().invoke(cli.app, ["schedule", str(folder), *args]).output
+              for args in (("--json",), ())}
+    monkeypatch.setattr(cli, "_LONG", 0)
+    for args, output in before.items():
+        result = CliRunner().invoke(cli.app, ["schedule", str(folder), *args])
+        assert result.exit_code == 0, result.output
+        assert result.output == output and output.endswith("\n") and len(output) > 200

@@ -81,8 +81,21 @@ ScenariosOpt = Annotated[Optional[int], typer.Option("--scenarios", help="Scenar
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", help="Seed of the random draws (the same seed gives the same figures).")]
 
 
+#: a text at least this long is written by :func:`_echo` without ``typer.echo``'s copies
+_LONG = 1 << 20
+
+
 def _echo(text: str) -> None:
-    typer.echo(text)
+    """``typer.echo(text)``. A long text (a schedule's JSON at 200,000 activities is 73 MB)
+    without an escape character goes to the same stream without the copies echo makes of
+    it (the line end added, the search for terminal colour codes it cannot hold)."""
+    if len(text) < _LONG or "\x1b" in text:
+        typer.echo(text)
+        return
+    stream = typer.get_text_stream("stdout", errors=None)  # (the stream echo writes to)
+    stream.write(text)
+    stream.write("\n")
+    stream.flush()
 
 
 #: big results of the command of a console-script run, kept until the process ends (see
