@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import textwrap
 from datetime import date
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 from .cpm import Schedule
@@ -66,7 +67,7 @@ _STATE = {"finished": "done", "not started": "to do"}  # progress states, short 
 def schedule_text(project: Project, sched: Schedule, *, wide: bool = False) -> str:
     columns = dict(zip(SCHEDULE_COLUMNS, schedule_columns(project, sched)))
     progress = project.data_date is not None
-    own = any(a.calendar for a in project.activities)  # some activities have their own calendar
+    own = any(map(attrgetter("calendar"), project.activities))  # some have a calendar of their own
     head = ["id", "name", "trade"] + (["calendar"] if own else []) + (["status"] if progress else [])
     first = ["id", "name", "trade"] + (["calendar"] if own else [])
     states = list(columns["state"])
