@@ -111,15 +111,19 @@ def option_projects(draw):
     return make_project(acts, links)
 
 
+def _every_plan(project):
+    """Every combination of ways (brute force): (early-start finish by the test helpers'
+    forward pass, added cost, the way each activity takes)."""
+    for combo in itertools.product(*[_ways(a) for a in project.activities]):
+        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+        yield own_finish(project, durations), sum(w[1] for w in combo), combo
+
+
 def _brute_force(project) -> dict[int, float]:
     """Least added cost at every reachable finish, by enumerating every combination of ways
     and taking the early-start finish of each (a forward pass of the test helpers)."""
     best: dict[int, float] = {}
-    choices = [_ways(a) for a in project.activities]
-    for combo in itertools.product(*choices):
-        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
-        finish = own_finish(project, durations)
-        cost = sum(w[1] for w in combo)
+    for finish, cost, _ in _every_plan(project):
         best[finish] = min(best.get(finish, float("inf")), cost)
     # the least cost to finish BY each day
     out, running = {}, float("inf")
@@ -236,13 +240,11 @@ def ties_match_brute_force(project):
     # reference: every combination of ways (brute force); among those finishing by the
     # target at the least cost, the fewest activities changed (shortened or by an option),
     # then the fewest working days taken off
-    choices = [_ways(a) for a in project.activities]
     combos = []
-    for combo in itertools.product(*choices):
-        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+    for finish, cost, combo in _every_plan(project):
         changed = sum(1 for a, w in zip(project.activities, combo) if w[0] != a.duration or w[2] >= 0)
         days = sum(a.duration - w[0] for a, w in zip(project.activities, combo))
-        combos.append((own_finish(project, durations), sum(w[1] for w in combo), changed, days))
+        combos.append((finish, cost, changed, days))
     study = Planner(project)
     for target in range(study.shortest_finish, study.normal_finish + 1):
         least = min(c for f, c, _, _ in combos if f <= target)
@@ -270,12 +272,8 @@ def test_reduced_cost_fixing_keeps_every_least_cost_plan(project):
     # uses it otherwise. Reference: every combination of ways (brute force).
     net = Network(project)
     model = CrashModel(net)
-    choices = [_ways(a) for a in project.activities]
-    combos = []
-    for combo in itertools.product(*choices):
-        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
-        combos.append((own_finish(project, durations), sum(w[1] for w in combo),
-                       {a.id: w[2] for a, w in zip(project.activities, combo)}))
+    combos = [(finish, cost, {a.id: w[2] for a, w in zip(project.activities, combo)})
+              for finish, cost, combo in _every_plan(project)]
     column = {(net.ids[i], k): c for c, i, k in zip(model.opt_x.tolist(), model.opt_owner.tolist(),
                                                     model.opt_index.tolist())}
     study = Planner(project)
