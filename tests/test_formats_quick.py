@@ -25,9 +25,9 @@ from hasten.formats.activities import _activity
 from hasten.formats.instances import instance, instances, plain_defaults
 from hasten.formats.links import check_acyclic, column_links, resolve_links
 from hasten.formats.quick import quick_activities, quick_links
-from hasten.formats.reach import _latest_finish, _longest, _span, _work
+from hasten.formats.reach import _in_a_row, _latest_finish, _longest, _span, _work
 from hasten.formats.tables import Row, Table, table_from_grid
-from hasten.project import Activity, Calendar, Link, LinkType, Project
+from hasten.project import Activity, Calendar, Link, LinkType, Option, Project
 
 # cells: mostly plain, sometimes what the full path refuses or reads another way
 _ID = st.one_of(st.sampled_from(["A", "B", "C", "D", "E", "F"]),
@@ -204,6 +204,46 @@ def test_the_latest_finish_bound_is_the_longest_path(data, six_days):
     for k, lag in zip(project.links, lags):
         graph.add_edge(("f", k.pred), ("s", k.succ), weight=lag)
     assert bound == nx.dag_longest_path_length(graph, weight="weight")
+
+
+_KIND = st.sampled_from(["plain", "started", "remaining", "finished", "option", "six", "three"])
+
+
+@settings(max_examples=300, deadline=None)
+@given(_PROJECT, st.lists(_KIND, min_size=8, max_size=8), st.booleans())
+def test_all_in_a_row_is_never_below_the_longest_path(data, kinds, data_date):
+    """The bound taken first (every activity and link one after another) is never below
+    the longest path that check_reach otherwise finds (its topological pass), with
+    progress, slower options, calendars of their own, not_before dates and lags of any
+    sign; networkx's longest path checks that pass above."""
+    spec, edges = data
+    start = date(2027, 1, 4)
+    cals = (Calendar((0, 1, 2, 3, 4, 5), name="six"), Calendar((0, 2, 4), name="three"))
+    acts = []
+    for i, ((d, nb, late), kind) in enumerate(zip(spec, kinds)):
+        fields = {"not_before": date(2027, 1, 4 + late * 7) if nb else None}
+        if kind in ("started", "remaining", "finished"):
+            fields["actual_start"] = date(2027, 1, 4)
+            fields["remaining"] = d + 3 if kind == "remaining" else None
+            fields["actual_finish"] = date(2027, 1, 5) if kind == "finished" else None
+        elif kind == "option":
+            fields["options"] = (Option("slow", d + 9, 0.0),)
+        elif kind in ("six", "three"):
+            fields["calendar"] = kind
+        acts.append(Activity(f"A{i}", d, **fields))
+    links = {(min(p, s), max(p, s)): Link(f"A{min(p, s)}", f"A{max(p, s)}", LinkType.FS, lag)
+             for p, s, lag in edges if p != s}
+    project = Project("p", start, tuple(acts), tuple(links.values()), calendars=cals,
+                      data_date=date(2027, 1, 6) if data_date else None)
+    calendars = {"": project.calendar} | {c.name: c for c in cals}
+    floor = max(start, project.data_date or start)
+    calendar_of = {a.id: calendars.get(a.calendar, project.calendar) for a in acts}
+    base = {a.id: max(floor, a.not_before or floor).toordinal() for a in acts}
+    work = {a.id: _span(_work(a)[0], calendar_of[a.id]) for a in acts}
+    lags = [_span(k.lag, calendar_of[k.succ]) + 7 for k in project.links]
+    finish, _ = _longest(project, base, work, lags)
+    assert _in_a_row(project, calendars, floor) >= max(finish.values())
+    assert _latest_finish(project, calendars, floor) == max(finish.values())
 
 
 _CSV_CELL = st.one_of(st.sampled_from(["", "A", "12", "Pour slab", "x y", "'=1", "it's", " a",

@@ -68,19 +68,11 @@ def check_reach(project: Project, places: Callable[[], Places],
     slack = 7 + 7 * sum(len(c.holidays) for c in calendars.values())
     limit = LAST_DATE.toordinal() - slack
     floor = max(project.start, project.data_date or project.start)
+    if _in_a_row(project, calendars, floor) <= limit:
+        return
     bound = _latest_finish(project, calendars, floor, positions)
     if bound is not None and bound <= limit:
         return
-    if bound is None:
-        latest = max([floor] + [a.not_before for a in project.activities if a.not_before])
-        # the usual case at once: every activity and link one after another stays in reach
-        # (span(n) <= 7 n / k + 14 for the calendar with the fewest working days k)
-        slowest = max(min(len(c.workdays) for c in calendars.values()), 1)
-        days = (sum(_work(a)[0] for a in project.activities)
-                + sum(max(k.lag, 0) for k in project.links))
-        if (latest.toordinal() + 7 * days // slowest + 7 + 14 * len(project.activities)
-                + 21 * len(project.links)) <= limit:
-            return
     calendar_of = {a.id: calendars.get(a.calendar, project.calendar) for a in project.activities}
     work = {a.id: _span(_work(a)[0], calendar_of[a.id]) for a in project.activities}
     base = {a.id: max(floor, a.not_before or floor).toordinal() for a in project.activities}
@@ -93,6 +85,30 @@ def check_reach(project: Project, places: Callable[[], Places],
     activity_where, link_where = places()
     raise _error(project, worst, came_from, work, lags, finish[worst] + slack,
                  activity_where, link_where, setting_where)
+
+
+def _in_a_row(project: Project, calendars: Mapping[str, Calendar], floor: date) -> int:
+    """A bound (a date ordinal) on every finish that needs no order: every activity and
+    every link one after another from the latest earliest start, each activity's work and
+    each positive lag at the calendar with the fewest working days a week. ``_weeks_span(n,
+    k)`` is at most ``7 n / k + 14`` and a link adds ``_weeks_span(lag) + 7``, so this is
+    never below :func:`_latest_finish` or :func:`_longest`; it is taken first, as most
+    projects are far enough from the year 9999 for it and its sums take no Python step
+    per activity."""
+    activities, links = project.activities, project.links
+    latest = floor
+    if any(map(attrgetter("not_before"), activities)):
+        latest = max([floor] + [a.not_before for a in activities if a.not_before])
+    slowest = max(min(len(c.workdays) for c in calendars.values()), 1)
+    if any(map(attrgetter("actual_start"), activities)) or any(
+            map(attrgetter("actual_finish"), activities)) or any(
+            map(attrgetter("options"), activities)):
+        work = sum(_work(a)[0] for a in activities)
+    else:  # the usual case: every activity's work is its duration
+        work = sum(map(attrgetter("duration"), activities))
+    days = work + sum(filter((0).__lt__, map(attrgetter("lag"), links)))
+    return (latest.toordinal() + 7 * days // slowest + 7 + 14 * len(activities)
+            + 21 * len(links))
 
 
 def _latest_finish(project: Project, calendars: Mapping[str, Calendar], floor: date,
