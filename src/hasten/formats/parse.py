@@ -19,6 +19,7 @@ from operator import attrgetter, is_, itemgetter
 from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
                                        percent_notes)
 from hasten.formats.cells import one_line_errors
+from hasten.formats.columns import PLAN_COLUMNS
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.quick import quick_links
 from hasten.formats.reach import check_reach
@@ -92,7 +93,10 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
         return ({r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in specs.values()])
 
-    check_reach(project, places, tables.settings.where, positions)
+    # a table of the plan columns only, and no options: no progress, not_before date,
+    # calendar or option to look for
+    plain = set(tables.activities.columns) <= set(PLAN_COLUMNS) and not options
+    check_reach(project, places, tables.settings.where, positions, plain)
     notes = []
     if "percent_complete" in tables.activities.columns:
         notes += percent_notes(tables.activities)

@@ -189,15 +189,15 @@ def _items(texts: list[str]) -> tuple[list[str], list[int], list[LinkType], list
     return preds, succ_at, kinds, lags
 
 
-def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int], list[int]] | None:
+def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarray, np.ndarray] | None:
     """The links of the predecessors column of a table whose ids (``ids``, the activities'
     ids in table order) and predecessors are plain ASCII, every link known, pointing down
     the table (so there is no loop and no self-link) and given once; with the positions in
-    ``ids`` of each link's predecessor and successor. ``None`` otherwise."""
+    ``ids`` of each link's predecessor and successor (arrays). ``None`` otherwise."""
     if _LINK is None:  # pragma: no cover - Link as it is today takes the dictionary
         return None
     if PREDECESSORS not in table.columns:
-        return [], [], []
+        return [], np.zeros(0, np.intp), np.zeros(0, np.intp)
     (texts,) = _columns(table, (PREDECESSORS,))
     joined = "".join(texts)
     if len(ids) != len(texts) or not (joined.isascii() and joined.isprintable()):
@@ -205,19 +205,18 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], list[int]
     items = _items(texts)
     if items is None:
         return None
-    preds, succ_at, kinds, lags = items
+    preds, succ_list, kinds, lags = items
     position = dict(zip(ids, range(len(ids))))
     pred_at = np.fromiter(map(position.get, preds, repeat(-1)), np.intp, len(preds))
-    succ_at = np.asarray(succ_at, np.intp)
+    succ_at = np.array(succ_list, np.intp)
     if not ((pred_at >= 0).all() and (pred_at < succ_at).all()):
         return None
-    pred_list, succ_list = pred_at.tolist(), succ_at.tolist()
     pairs = np.sort(succ_at * len(ids) + pred_at)
     if (pairs[1:] == pairs[:-1]).any():
         # two links join the same activities: refused only when of the same type too
-        if len(set(zip(pred_list, succ_list, kinds))) != len(kinds):
+        if len(set(zip(pred_at.tolist(), succ_list, kinds))) != len(kinds):
             return None
     # (four fields: a dictionary each, given whole, is quicker here than field by field)
     made = [{"pred": pred, "succ": ids[row], "type": kind, "lag": lag}
             for pred, row, kind, lag in zip(preds, succ_list, kinds, lags)]
-    return instances(Link, made), pred_list, succ_list
+    return instances(Link, made), pred_at, succ_at
