@@ -19,7 +19,7 @@ from operator import attrgetter, is_, itemgetter
 from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
                                        percent_notes)
 from hasten.formats.cells import one_line_errors
-from hasten.formats.columns import PLAN_COLUMNS
+from hasten.formats.columns import CALENDAR_COLUMN, PLAN_COLUMNS
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.quick import quick_links
 from hasten.formats.reach import check_reach
@@ -47,9 +47,11 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     rows = activity_rows(tables.activities)
     check_progress(rows, tables.activities, settings.start, settings.data_date,
                    tables.settings.source)
-    check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
-    check_risk_trades(list(map(attrgetter("activity.trade"), rows)), settings.risk,
-                      tables.settings)
+    if CALENDAR_COLUMN in tables.activities.columns:  # where activities name calendars
+        check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
+    if settings.risk.trades or settings.risk.correlation:  # trades named in the settings
+        check_risk_trades(list(map(attrgetter("activity.trade"), rows)), settings.risk,
+                          tables.settings)
     by_id = dict(zip(map(attrgetter("activity.id"), rows), rows))
     ids = list(by_id)
     quick = (quick_links(tables.activities, ids)

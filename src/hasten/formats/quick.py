@@ -153,20 +153,21 @@ def quick_activities(table: Table) -> list[Activity] | None:
         in zip(ids, durations, names, trades, crash_durations, costs, crash_costs)])
 
 
-def _items(texts: list[str]) -> tuple[list[str], list[int], list[LinkType], list[int]] | None:
-    """Each link of a predecessors column: its predecessor's id, its successor's row, its
-    type and its lag (empty items skipped, as the full path skips them); ``None`` when an
-    item has no id or a type and lag that do not read. (This loop takes fewer instructions
-    than one pattern over the whole column, or split, strip and partition mapped over all
-    items, with their results taken apart again.)"""
+def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[str], list[int]] | None:
+    """Each link of a predecessors column (``ids``: the id of each row): the fields of its
+    :class:`~hasten.project.Link` (a dictionary), its predecessor's id and its successor's
+    row (empty items skipped, as the full path skips them); ``None`` when an item has no id
+    or a type and lag that do not read. (This loop takes fewer instructions than one pattern
+    over the whole column, or split, strip and partition mapped over all items, with their
+    results taken apart again.)"""
+    made: list[dict] = []
     preds: list[str] = []
     succ_at: list[int] = []  # the successor is the row's activity: its position is the row's
-    kinds: list[LinkType] = []
-    lags: list[int] = []
     fs = LinkType.FS
     for row, text in enumerate(texts):
         if not text:
             continue
+        succ = ids[row]
         for raw in text.split(";"):
             item = raw.strip()
             if not item:
@@ -175,18 +176,14 @@ def _items(texts: list[str]) -> tuple[list[str], list[int], list[LinkType], list
             if colon:
                 ident = ident.strip()
                 found = known_type_and_lag(rest)
-                if found is None:
+                if found is None or not ident:
                     return None
-                kinds.append(found[0])
-                lags.append(found[1])
-            else:
-                kinds.append(fs)
-                lags.append(0)
-            if not ident:
-                return None
+                made.append({"pred": ident, "succ": succ, "type": found[0], "lag": found[1]})
+            else:  # the whole item is the id
+                made.append({"pred": ident, "succ": succ, "type": fs, "lag": 0})
             preds.append(ident)
             succ_at.append(row)
-    return preds, succ_at, kinds, lags
+    return made, preds, succ_at
 
 
 def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarray, np.ndarray] | None:
@@ -202,10 +199,11 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarra
     joined = "".join(texts)
     if len(ids) != len(texts) or not (joined.isascii() and joined.isprintable()):
         return None
-    items = _items(texts)
+    items = _items(texts, ids)
     if items is None:
         return None
-    preds, succ_list, kinds, lags = items
+    # (four fields: a dictionary each, given whole, is quicker here than field by field)
+    made, preds, succ_list = items
     position = dict(zip(ids, range(len(ids))))
     pred_at = np.fromiter(map(position.get, preds, repeat(-1)), np.intp, len(preds))
     succ_at = np.array(succ_list, np.intp)
@@ -214,9 +212,7 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarra
     pairs = np.sort(succ_at * len(ids) + pred_at)
     if (pairs[1:] == pairs[:-1]).any():
         # two links join the same activities: refused only when of the same type too
+        kinds = list(map(itemgetter("type"), made))
         if len(set(zip(pred_at.tolist(), succ_list, kinds))) != len(kinds):
             return None
-    # (four fields: a dictionary each, given whole, is quicker here than field by field)
-    made = [{"pred": pred, "succ": ids[row], "type": kind, "lag": lag}
-            for pred, row, kind, lag in zip(preds, succ_list, kinds, lags)]
     return instances(Link, made), pred_at, succ_at
