@@ -90,6 +90,18 @@ def test_quick_activities_take_a_plain_table_and_leave_the_rest():
     assert quick_activities(broken) is None
 
 
+def test_whole_numbers_read_as_one_list_only_in_their_plainest_form():
+    """A column of whole numbers is read at once only where each cell is 1 to n ASCII
+    digits without a leading zero; anything else is left to the patterns of the full
+    path (which then read or refuse it cell by cell)."""
+    from hasten.formats.quick import _whole
+
+    assert _whole(["5", "0", "12", "999999"], 6) == [5, 0, 12, 999999]
+    for column in (["05"], [""], ["5", ""], ["1000000"], ["1,2"], ["\u0663"], ["true"],
+                   ["-1"], ["1e3"], ["5.0"], ["NaN"], [" 5"], ["9" * 5000]):
+        assert _whole(column, 6) is None, column
+
+
 @settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(st.lists(_PRED, min_size=1, max_size=6))
 def test_quick_links_are_the_full_paths_or_none(predecessors):

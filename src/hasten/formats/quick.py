@@ -36,6 +36,7 @@ _IDS = re.compile(rf"{_ID}(?:\n{_ID})*")
 _ALL_DAYS = re.compile(rf"{_DAYS}(?:\n{_DAYS})*")
 _SOME_DAYS = re.compile(rf"(?:{_DAYS})?(?:\n(?:{_DAYS})?)*")
 _SOME_MONEY = re.compile(rf"(?:{_MONEY})?(?:\n(?:{_MONEY})?)*")
+_DIGITS_AND_COMMAS = re.compile(r"[0-9,]*")
 
 _ACTIVITY = plain_defaults(Activity, ("id", "duration"))
 _GIVEN = ("id", "duration", "name", "trade", "crash_duration", "cost", "crash_cost")
@@ -88,7 +89,7 @@ def _whole(column: list[str], digits: int) -> list[int] | None:
     leading zero (``0`` itself is one), checked and read as one JSON list (which refuses
     an empty cell and a leading zero); ``None`` otherwise."""
     text = ",".join(column)
-    if not (text.isascii() and text.replace(",", "").isdigit()):
+    if _DIGITS_AND_COMMAS.fullmatch(text) is None or not text:
         return None
     try:
         values = json.loads(f"[{text}]")
