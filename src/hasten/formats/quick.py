@@ -22,7 +22,8 @@ import numpy as np
 
 from hasten.formats.columns import PLAN_COLUMNS
 from hasten.formats.instances import instances, plain_defaults
-from hasten.formats.predecessors import COLUMN as PREDECESSORS, known_type_and_lag
+from hasten.formats.predecessors import (COLUMN as PREDECESSORS, KNOWN_TYPES_AND_LAGS,
+                                         known_type_and_lag)
 from hasten.formats.tables import ColumnRows, Table
 from hasten.project import Activity, Link, LinkType
 
@@ -164,7 +165,7 @@ def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[str],
     made: list[dict] = []
     preds: list[str] = []
     succ_at: list[int] = []  # the successor is the row's activity: its position is the row's
-    fs = LinkType.FS
+    fs, known = LinkType.FS, KNOWN_TYPES_AND_LAGS.get
     for row, text in enumerate(texts):
         if not text:
             continue
@@ -176,7 +177,7 @@ def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[str],
             ident, colon, rest = item.partition(":")
             if colon:
                 ident = ident.strip()
-                found = known_type_and_lag(rest)
+                found = known(rest) or known_type_and_lag(rest)  # (a look-up mostly)
                 if found is None or not ident:
                     return None
                 made.append({"pred": ident, "succ": succ, "type": found[0], "lag": found[1]})
