@@ -15,7 +15,6 @@ from __future__ import annotations
 import json
 import re
 from collections.abc import Sequence
-from itertools import repeat
 from operator import attrgetter, gt, itemgetter, lt
 
 import numpy as np
@@ -155,17 +154,19 @@ def quick_activities(table: Table) -> list[Activity] | None:
         in zip(ids, durations, names, trades, crash_durations, costs, crash_costs)])
 
 
-def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[str], list[int]] | None:
+def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[int], list[int]] | None:
     """Each link of a predecessors column (``ids``: the id of each row): the fields of its
-    :class:`~hasten.project.Link` (a dictionary), its predecessor's id and its successor's
-    row (empty items skipped, as the full path skips them); ``None`` when an item has no id
-    or a type and lag that do not read. (This loop takes fewer instructions than one pattern
-    over the whole column, or split, strip and partition mapped over all items, with their
-    results taken apart again.)"""
+    :class:`~hasten.project.Link` (a dictionary, naming its predecessor by the very text of
+    that activity's id), and the rows of its predecessor and successor (empty items
+    skipped, as the full path skips them); ``None`` when an item has no id, an id no row
+    has, or a type and lag that do not read. (This loop takes fewer instructions than one
+    pattern over the whole column, or split, strip and partition mapped over all items,
+    with their results taken apart again.)"""
     made: list[dict] = []
-    preds: list[str] = []
+    pred_at: list[int] = []
     succ_at: list[int] = []  # the successor is the row's activity: its position is the row's
     fs, known = LinkType.FS, KNOWN_TYPES_AND_LAGS.get
+    at = dict(zip(ids, range(len(ids)))).get
     for row, text in enumerate(texts):
         if not text:
             continue
@@ -178,14 +179,18 @@ def _items(texts: list[str], ids: Sequence[str]) -> tuple[list[dict], list[str],
             if colon:
                 ident = ident.strip()
                 found = known(rest) or known_type_and_lag(rest)  # (a look-up mostly)
-                if found is None or not ident:
+                pred = at(ident)
+                if found is None or pred is None:
                     return None
-                made.append({"pred": ident, "succ": succ, "type": found[0], "lag": found[1]})
+                made.append({"pred": ids[pred], "succ": succ, "type": found[0], "lag": found[1]})
             else:  # the whole item is the id
-                made.append({"pred": ident, "succ": succ, "type": fs, "lag": 0})
-            preds.append(ident)
+                pred = at(ident)
+                if pred is None:
+                    return None
+                made.append({"pred": ids[pred], "succ": succ, "type": fs, "lag": 0})
+            pred_at.append(pred)
             succ_at.append(row)
-    return made, preds, succ_at
+    return made, pred_at, succ_at
 
 
 def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarray, np.ndarray] | None:
@@ -205,16 +210,14 @@ def quick_links(table: Table, ids: Sequence[str]) -> tuple[list[Link], np.ndarra
     if items is None:
         return None
     # (four fields: a dictionary each, given whole, is quicker here than field by field)
-    made, preds, succ_list = items
-    position = dict(zip(ids, range(len(ids))))
-    pred_at = np.fromiter(map(position.get, preds, repeat(-1)), np.intp, len(preds))
-    succ_at = np.array(succ_list, np.intp)
-    if not ((pred_at >= 0).all() and (pred_at < succ_at).all()):
+    made, pred_list, succ_list = items
+    pred_at, succ_at = np.array(pred_list, np.intp), np.array(succ_list, np.intp)
+    if not (pred_at < succ_at).all():
         return None
     pairs = np.sort(succ_at * len(ids) + pred_at)
     if (pairs[1:] == pairs[:-1]).any():
         # two links join the same activities: refused only when of the same type too
         kinds = list(map(itemgetter("type"), made))
-        if len(set(zip(pred_at.tolist(), succ_list, kinds))) != len(kinds):
+        if len(set(zip(pred_list, succ_list, kinds))) != len(kinds):
             return None
     return instances(Link, made), pred_at, succ_at
