@@ -5,9 +5,10 @@ Each function here either gives exactly what the full path (:mod:`hasten.formats
 :mod:`hasten.formats.links`) gives for the same table, or ``None`` when anything in it is not
 in its plainest form; the full path then reads the table and says what, if anything, is
 wrong. Whole columns are checked at once (one pattern over a column's cells joined by line
-breaks), numbers converted with ``map`` and the objects made by
-:func:`hasten.formats.instances.instances_by_column`, so that no Python-level code runs per cell.
-Reading a project of 50,000 activities and 100,000 links spends most of its time here.
+breaks, or for whole numbers one character class and one JSON list), and each activity and
+link is made from a dictionary of its fields, given whole
+(:func:`hasten.formats.instances.instances`). Reading a project of 50,000 activities and
+100,000 links spends most of its time here.
 """
 
 from __future__ import annotations
