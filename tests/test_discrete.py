@@ -26,6 +26,7 @@ from hasten.formats.research import read_research
 from hasten.project import Activity, Link, LinkType, Option
 from hasten.network import Network
 from hasten.crash_model import CrashModel
+from hasten.crash_ties import fix_by_reduced_costs
 
 DATA = Path(__file__).parent / "data" / "psplib_mm"
 J10 = ["j102_2.mm", "j1010_1.mm", "j1012_10.mm", "j1024_1.mm"]
@@ -110,15 +111,19 @@ def option_projects(draw):
     return make_project(acts, links)
 
 
+def _every_plan(project):
+    """Every combination of ways (brute force): (early-start finish by the test helpers'
+    forward pass, added cost, the way each activity takes)."""
+    for combo in itertools.product(*[_ways(a) for a in project.activities]):
+        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+        yield own_finish(project, durations), sum(w[1] for w in combo), combo
+
+
 def _brute_force(project) -> dict[int, float]:
     """Least added cost at every reachable finish, by enumerating every combination of ways
     and taking the early-start finish of each (a forward pass of the test helpers)."""
     best: dict[int, float] = {}
-    choices = [_ways(a) for a in project.activities]
-    for combo in itertools.product(*choices):
-        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
-        finish = own_finish(project, durations)
-        cost = sum(w[1] for w in combo)
+    for finish, cost, _ in _every_plan(project):
         best[finish] = min(best.get(finish, float("inf")), cost)
     # the least cost to finish BY each day
     out, running = {}, float("inf")
@@ -235,13 +240,11 @@ def ties_match_brute_force(project):
     # reference: every combination of ways (brute force); among those finishing by the
     # target at the least cost, the fewest activities changed (shortened or by an option),
     # then the fewest working days taken off
-    choices = [_ways(a) for a in project.activities]
     combos = []
-    for combo in itertools.product(*choices):
-        durations = {a.id: w[0] for a, w in zip(project.activities, combo)}
+    for finish, cost, combo in _every_plan(project):
         changed = sum(1 for a, w in zip(project.activities, combo) if w[0] != a.duration or w[2] >= 0)
         days = sum(a.duration - w[0] for a, w in zip(project.activities, combo))
-        combos.append((own_finish(project, durations), sum(w[1] for w in combo), changed, days))
+        combos.append((finish, cost, changed, days))
     study = Planner(project)
     for target in range(study.shortest_finish, study.normal_finish + 1):
         least = min(c for f, c, _, _ in combos if f <= target)
@@ -251,3 +254,51 @@ def ties_match_brute_force(project):
                sum(a.shortened_by for a in plan.activities))
         assert plan.added_cost == pytest.approx(least, abs=1e-6)
         assert got == expected, target
+
+
+def _cost_capped(model: CrashModel, target: int):
+    """A copy of the model as the tie-break sees it: finish by ``target``, spend free."""
+    lm = model.lp.copy()
+    lm.set_col_bounds(model.finish, 0.0, float(target))
+    lm.set_row_bounds(model.cost_cap, -float("inf"), float("inf"))
+    return lm
+
+
+@PROPERTY
+@given(option_projects())
+def test_reduced_cost_fixing_keeps_every_least_cost_plan(project):
+    # Reduced-cost fixing (Nemhauser & Wolsey, Integer and Combinatorial Optimization,
+    # 1988, section II.5.1) may fix an option only where no plan costing at most the cap
+    # uses it otherwise. Reference: every combination of ways (brute force).
+    net = Network(project)
+    model = CrashModel(net)
+    combos = [(finish, cost, {a.id: w[2] for a, w in zip(project.activities, combo)})
+              for finish, cost, combo in _every_plan(project)]
+    column = {(net.ids[i], k): c for c, i, k in zip(model.opt_x.tolist(), model.opt_owner.tolist(),
+                                                    model.opt_index.tolist())}
+    study = Planner(project)
+    for target in range(study.shortest_finish, study.normal_finish + 1):
+        least = min(c for f, c, _ in combos if f <= target)
+        lm = _cost_capped(model, target)
+        fix_by_reduced_costs(lm, least + 1e-6 * max(1.0, least))
+        for finish, cost, chosen in combos:
+            if finish > target or cost > least + 1e-6:
+                continue
+            for (act, k), col in column.items():
+                taken = 1.0 if chosen[act] == k else 0.0
+                assert lm.col_lower[col] <= taken <= lm.col_upper[col], (target, act, k)
+
+
+def test_reduced_cost_fixing_settles_a_dear_option():
+    # hand-worked: one day off A (4 days) is needed to finish by 5; the cheap way (3 days,
+    # 10) costs 10, the dear way (2 days, 1,000) is at least 990 above any plan costing
+    # 10, so it is fixed out; the cheap one stays free (it is the plan)
+    acts = [Activity("A", 4, options=(Option("cheap", 3, 10.0), Option("dear", 2, 1000.0))),
+            Activity("B", 2)]
+    net = Network(make_project(acts, [Link("A", "B")]))
+    model = CrashModel(net)
+    lm = _cost_capped(model, 5)
+    assert fix_by_reduced_costs(lm, 10.0) >= 1
+    cheap, dear = model.opt_x.tolist()
+    assert (lm.col_lower[dear], lm.col_upper[dear]) == (0.0, 0.0)
+    assert (lm.col_lower[cheap], lm.col_upper[cheap]) == (0.0, 1.0)

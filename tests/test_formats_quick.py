@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import copy
 import pickle
+import random
 from dataclasses import replace
 from datetime import date
 
@@ -25,9 +26,9 @@ from hasten.formats.activities import _activity
 from hasten.formats.instances import instance, instances, plain_defaults
 from hasten.formats.links import check_acyclic, column_links, resolve_links
 from hasten.formats.quick import quick_activities, quick_links
-from hasten.formats.reach import _latest_finish, _longest, _span, _work
+from hasten.formats.reach import _in_a_row, _latest_finish, _longest, _span, _work
 from hasten.formats.tables import Row, Table, table_from_grid
-from hasten.project import Activity, Calendar, Link, LinkType, Project
+from hasten.project import Activity, Calendar, Link, LinkType, Option, Project
 
 # cells: mostly plain, sometimes what the full path refuses or reads another way
 _ID = st.one_of(st.sampled_from(["A", "B", "C", "D", "E", "F"]),
@@ -89,6 +90,18 @@ def test_quick_activities_take_a_plain_table_and_leave_the_rest():
     assert quick_activities(broken) is None
 
 
+def test_whole_numbers_read_as_one_list_only_in_their_plainest_form():
+    """A column of whole numbers is read at once only where each cell is 1 to n ASCII
+    digits without a leading zero; anything else is left to the patterns of the full
+    path (which then read or refuse it cell by cell)."""
+    from hasten.formats.quick import _whole
+
+    assert _whole(["5", "0", "12", "999999"], 6) == [5, 0, 12, 999999]
+    for column in (["05"], [""], ["5", ""], ["1000000"], ["1,2"], ["\u0663"], ["true"],
+                   ["-1"], ["1e3"], ["5.0"], ["NaN"], [" 5"], ["9" * 5000]):
+        assert _whole(column, 6) is None, column
+
+
 @settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(st.lists(_PRED, min_size=1, max_size=6))
 def test_quick_links_are_the_full_paths_or_none(predecessors):
@@ -107,7 +120,7 @@ def test_quick_links_are_the_full_paths_or_none(predecessors):
     if quick is not None:
         links, pred_at, succ_at = quick
         assert links == [s.link for s in specs.values()]
-        assert (pred_at, succ_at) == positions
+        assert (pred_at.tolist(), succ_at.tolist()) == positions
 
 
 def test_quick_links_leave_links_up_the_table_to_the_full_path():
@@ -116,8 +129,9 @@ def test_quick_links_leave_links_up_the_table_to_the_full_path():
     assert quick_links(table, ["A", "B"]) is None
     ok = _table([{"id": "A", "predecessors": ""}, {"id": "B", "predecessors": "A:SS+2; A"}],
                 ("id", "predecessors"))
-    assert quick_links(ok, ["A", "B"]) == ([Link("A", "B", LinkType.SS, 2), Link("A", "B")],
-                                           [0, 0], [1, 1])
+    links, pred_at, succ_at = quick_links(ok, ["A", "B"])
+    assert (links, pred_at.tolist(), succ_at.tolist()) == (
+        [Link("A", "B", LinkType.SS, 2), Link("A", "B")], [0, 0], [1, 1])
 
 
 _CELL = st.one_of(st.sampled_from(["", " ", "A", " b ", "\t", "x\r\ny", "c\r"]),
@@ -204,6 +218,117 @@ def test_the_latest_finish_bound_is_the_longest_path(data, six_days):
     for k, lag in zip(project.links, lags):
         graph.add_edge(("f", k.pred), ("s", k.succ), weight=lag)
     assert bound == nx.dag_longest_path_length(graph, weight="weight")
+
+
+def _large(seed: int, chain: bool, shuffled: bool) -> tuple[Project, dict[str, Calendar]]:
+    """3,000 activities with 6,000-odd links pointing down the table: each activity's
+    predecessors drawn from all the activities above it, or (``chain``) mostly the one just
+    above; some not_before dates, lags of both signs, calendars of their own, progress."""
+    rng = random.Random(seed)
+    cals = (Calendar((0, 1, 2, 3, 4, 5), name="six"), Calendar((0, 2, 4), name="three"))
+    acts, links = [], {}
+    for i in range(3000):
+        acts.append(Activity(f"A{i}", rng.randint(0, 40),
+                             not_before=date(2027, 3, 1) if rng.random() < 0.02 else None,
+                             calendar=rng.choice(["", "", "six", "three"]),
+                             actual_start=date(2027, 1, 4) if i < 5 else None,
+                             remaining=3 if i < 3 else None))
+        for _ in range(rng.randint(0, 3) if i else 0):
+            p = i - 1 if chain and rng.random() < 0.9 else rng.randrange(i)
+            links[(p, i)] = Link(f"A{p}", f"A{i}", LinkType.FS, rng.randint(-3, 12))
+    order = list(links.values())
+    if shuffled:
+        rng.shuffle(order)
+    project = Project("p", date(2027, 1, 4), tuple(acts), tuple(order), calendars=cals)
+    return project, {"": project.calendar} | {c.name: c for c in cals}
+
+
+@settings(max_examples=12, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(st.integers(0, 10**6), st.booleans(), st.booleans(), st.sampled_from([16, 512]))
+def test_the_latest_finish_bound_of_thousands_of_links(monkeypatch, seed, chain, shuffled,
+                                                        block):
+    """With thousands of links, links across blocks of activities taken at once (or, for a
+    chain of activities, one by one), the bound is still networkx's longest path through
+    the same spans, and the topological pass of check_reach."""
+    import numpy as np
+
+    from hasten.formats import reach
+
+    monkeypatch.setattr(reach, "_BLOCK", block)
+    project, calendars = _large(seed, chain, shuffled)
+    position = {a.id: i for i, a in enumerate(project.activities)}
+    pred = np.array([position[k.pred] for k in project.links])
+    succ = np.array([position[k.succ] for k in project.links])
+    within = np.count_nonzero(pred >= succ - succ % block) / len(pred)
+    assert (within <= 0.1) == (block == 16 and not chain)  # blocks taken at once, or not
+    start = project.start
+    calendar_of = {a.id: calendars.get(a.calendar, project.calendar) for a in project.activities}
+    base = {a.id: max(start, a.not_before or start).toordinal() for a in project.activities}
+    work = {a.id: _span(_work(a)[0], calendar_of[a.id]) for a in project.activities}
+    lags = [_span(k.lag, calendar_of[k.succ]) + 7 for k in project.links]
+    finish, _ = _longest(project, base, work, lags)
+    assert _latest_finish(project, calendars, start) == max(finish.values())
+    graph = nx.DiGraph()
+    for a in project.activities:
+        graph.add_edge("origin", ("s", a.id), weight=base[a.id])
+        graph.add_edge(("s", a.id), ("f", a.id), weight=work[a.id])
+    for k, lag in zip(project.links, lags):
+        graph.add_edge(("f", k.pred), ("s", k.succ), weight=lag)
+    assert max(finish.values()) == nx.dag_longest_path_length(graph, weight="weight")
+
+
+def test_the_plain_bound_is_the_bound():
+    """Where the reader knows there is no progress, option, not_before or calendar to look
+    for (``plain``), the bound is the one found looking for them."""
+    rng = random.Random(5)
+    acts = tuple(Activity(f"A{i}", rng.randint(0, 40)) for i in range(3000))
+    links = tuple(Link(f"A{p}", f"A{i}", LinkType.SS, rng.randint(-2, 9))
+                  for i in range(1, 3000) for p in {rng.randrange(i), rng.randrange(i)})
+    project = Project("p", date(2027, 1, 4), acts, links)
+    calendars = {"": project.calendar}
+    assert _latest_finish(project, calendars, project.start, plain=True) == \
+        _latest_finish(project, calendars, project.start)
+
+
+_KIND = st.sampled_from(["plain", "started", "remaining", "finished", "option", "six", "three"])
+
+
+@settings(max_examples=300, deadline=None)
+@given(_PROJECT, st.lists(_KIND, min_size=8, max_size=8), st.booleans())
+def test_all_in_a_row_is_never_below_the_longest_path(data, kinds, data_date):
+    """The bound taken first (every activity and link one after another) is never below
+    the longest path that check_reach otherwise finds (its topological pass), with
+    progress, slower options, calendars of their own, not_before dates and lags of any
+    sign; networkx's longest path checks that pass above."""
+    spec, edges = data
+    start = date(2027, 1, 4)
+    cals = (Calendar((0, 1, 2, 3, 4, 5), name="six"), Calendar((0, 2, 4), name="three"))
+    acts = []
+    for i, ((d, nb, late), kind) in enumerate(zip(spec, kinds)):
+        fields = {"not_before": date(2027, 1, 4 + late * 7) if nb else None}
+        if kind in ("started", "remaining", "finished"):
+            fields["actual_start"] = date(2027, 1, 4)
+            fields["remaining"] = d + 3 if kind == "remaining" else None
+            fields["actual_finish"] = date(2027, 1, 5) if kind == "finished" else None
+        elif kind == "option":
+            fields["options"] = (Option("slow", d + 9, 0.0),)
+        elif kind in ("six", "three"):
+            fields["calendar"] = kind
+        acts.append(Activity(f"A{i}", d, **fields))
+    links = {(min(p, s), max(p, s)): Link(f"A{min(p, s)}", f"A{max(p, s)}", LinkType.FS, lag)
+             for p, s, lag in edges if p != s}
+    project = Project("p", start, tuple(acts), tuple(links.values()), calendars=cals,
+                      data_date=date(2027, 1, 6) if data_date else None)
+    calendars = {"": project.calendar} | {c.name: c for c in cals}
+    floor = max(start, project.data_date or start)
+    calendar_of = {a.id: calendars.get(a.calendar, project.calendar) for a in acts}
+    base = {a.id: max(floor, a.not_before or floor).toordinal() for a in acts}
+    work = {a.id: _span(_work(a)[0], calendar_of[a.id]) for a in acts}
+    lags = [_span(k.lag, calendar_of[k.succ]) + 7 for k in project.links]
+    finish, _ = _longest(project, base, work, lags)
+    assert _in_a_row(project, calendars, floor) >= max(finish.values())
+    assert _latest_finish(project, calendars, floor) == max(finish.values())
 
 
 _CSV_CELL = st.one_of(st.sampled_from(["", "A", "12", "Pour slab", "x y", "'=1", "it's", " a",

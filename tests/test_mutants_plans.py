@@ -156,3 +156,49 @@ def test_a_lead_counts_in_a_plan_with_options():
     assert planner.normal_finish == 12
     plan = planner.plan(10)
     assert plan.finish == 10 and plan.added_cost == 100.0
+
+
+def test_the_tie_break_of_options_finds_a_plan_one_day_better():
+    # mutant ties-mip-better-row. A (4 days, shortened at no extra cost down to 2) -> B (3
+    # days, option "extra crew": 1 day for 900). Normal finish 7, target 6: one day off A
+    # costs nothing, the least. Handed a least-cost plan that takes two free days off A
+    # (1 activity changed, 2 days), the tie-break must find one day off A (1 activity, 1
+    # day): the same count and one day fewer (README, Method, "Ties").
+    from dataclasses import replace
+
+    from hasten.crash_model import CrashModel, Objective
+    from hasten.crash_ties import fewest_changed_mip
+    from hasten.network import Network
+
+    acts = [Activity("A", 4, crash_duration=2, cost=100.0, crash_cost=100.0),
+            Activity("B", 3, options=(Option("extra crew", 1, 900.0),))]
+    model = CrashModel(Network(make_project(acts, [Link("A", "B")])))
+    best = model.solve(Objective.COST, target=6)
+    assert best.added_cost == 0.0
+    two_days = replace(best, durations=(2, 3), choices=(-1, -1))
+    better = fewest_changed_mip(model, two_days, 6, False)
+    assert better is not None and better.durations == (3, 3)
+
+
+def test_the_tie_break_counts_an_activity_changed_by_an_option():
+    # mutant ties-mip-option-uncounted. A (4 days) -> B (4 days), finish 8, target 6: two
+    # days off. A can lose two days at 500 a day, or take "extra crew" (3 days, 500); B can
+    # take "extra crew" (3 days, 500). Every way costs 1,000: two days off A (1 activity
+    # changed, 2 days), both options (2 activities, 2 days), a day off A and B's option (2
+    # activities). Handed the plan with both options, the tie-break must find two days off
+    # A alone (README, Method, "Ties": the fewest activities changed, options included).
+    from dataclasses import replace
+
+    from hasten.crash_model import CrashModel, Objective
+    from hasten.crash_ties import fewest_changed_mip
+    from hasten.network import Network
+
+    acts = [Activity("A", 4, crash_duration=2, cost=0.0, crash_cost=1000.0,
+                     options=(Option("extra crew", 3, 500.0),)),
+            Activity("B", 4, options=(Option("extra crew", 3, 500.0),))]
+    model = CrashModel(Network(make_project(acts, [Link("A", "B")])))
+    best = model.solve(Objective.COST, target=6)
+    assert best.added_cost == 1000.0
+    both_options = replace(best, durations=(3, 3), choices=(0, 0))
+    better = fewest_changed_mip(model, both_options, 6, False)
+    assert better is not None and better.durations == (2, 4) and better.choices == (-1, -1)

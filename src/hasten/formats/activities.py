@@ -346,7 +346,8 @@ def activity_rows(table: Table) -> list[ActivityRow]:
     if quick is not None:
         lines = (table.rows.lines if isinstance(table.rows, ColumnRows)
                  else map(attrgetter("line"), table.rows))
-        rows = list(map(ActivityRow, quick, repeat(source), lines))
+        # (tuple.__new__ makes each named tuple without a Python-level call)
+        rows = list(map(tuple.__new__, repeat(ActivityRow), zip(quick, repeat(source), lines)))
     else:
         rows = [ActivityRow(_activity(r, table, with_progress), source, r.line)
                 for r in table.rows]

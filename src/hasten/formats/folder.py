@@ -121,10 +121,12 @@ def _to_clean(text: str) -> bool:
         return _TO_CLEAN.search(text) is not None
     if "'" in text and (text[:1] == "'" or ",'" in text or "\n'" in text):
         return True
-    edges = (",", "\n")
-    return any(text[:1] == space or text[-1:] == space
-               or any(space + edge in text or edge + space in text for edge in edges)
-               for space in _ASCII_SPACES if space in text)
+    spaces = [space for space in _ASCII_SPACES if space in text]
+    if not spaces:
+        return False
+    flat = text.replace("\n", ",")  # a line break ends a cell as a comma does
+    return any(text[:1] == space or text[-1:] == space or space + "," in flat
+               or "," + space in flat for space in spaces)
 
 
 def _plain_table(source: str, text: str) -> Table | None:

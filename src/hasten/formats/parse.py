@@ -19,6 +19,7 @@ from operator import attrgetter, is_, itemgetter
 from hasten.formats.activities import (activity_rows, check_calendars, check_progress,
                                        percent_notes)
 from hasten.formats.cells import one_line_errors
+from hasten.formats.columns import CALENDAR_COLUMN, PLAN_COLUMNS
 from hasten.formats.links import check_acyclic, column_links, resolve_links, table_links
 from hasten.formats.quick import quick_links
 from hasten.formats.reach import check_reach
@@ -46,9 +47,11 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
     rows = activity_rows(tables.activities)
     check_progress(rows, tables.activities, settings.start, settings.data_date,
                    tables.settings.source)
-    check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
-    check_risk_trades(list(map(attrgetter("activity.trade"), rows)), settings.risk,
-                      tables.settings)
+    if CALENDAR_COLUMN in tables.activities.columns:  # where activities name calendars
+        check_calendars(rows, [c.name for c in settings.calendars], tables.settings.source)
+    if settings.risk.trades or settings.risk.correlation:  # trades named in the settings
+        check_risk_trades(list(map(attrgetter("activity.trade"), rows)), settings.risk,
+                          tables.settings)
     by_id = dict(zip(map(attrgetter("activity.id"), rows), rows))
     ids = list(by_id)
     quick = (quick_links(tables.activities, ids)
@@ -92,7 +95,10 @@ def parse_tables_with_notes(tables: Tables) -> tuple[Project, tuple[str, ...]]:
         return ({r.activity.id: r.where for r in rows},
                 [s.succ_where.at("lag") if s.succ_where else s.where for s in specs.values()])
 
-    check_reach(project, places, tables.settings.where, positions)
+    # a table of the plan columns only, and no options: no progress, not_before date,
+    # calendar or option to look for
+    plain = set(tables.activities.columns) <= set(PLAN_COLUMNS) and not options
+    check_reach(project, places, tables.settings.where, positions, plain)
     notes = []
     if "percent_complete" in tables.activities.columns:
         notes += percent_notes(tables.activities)

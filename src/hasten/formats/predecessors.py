@@ -14,7 +14,7 @@ from hasten.formats.cells import WHOLE_LIMIT, CellRef, id_value, one_line_errors
 from hasten.project import LinkType
 
 __all__ = ["parse_predecessors", "parse_predecessor_items", "known_type_and_lag", "link_type",
-           "LINK_TYPE_FIX"]
+           "LINK_TYPE_FIX", "KNOWN_TYPES_AND_LAGS"]
 
 _TYPE_AND_LAG = re.compile(r"\s*([A-Za-z]+)\s*(?:([+-])\s*(\S.*?))?\s*")
 _WHOLE = re.compile(r"\d+")
@@ -56,6 +56,7 @@ def _type_and_lag(text: str, item: str, where: CellRef) -> tuple[LinkType, int]:
 #: type-and-lag texts already read (``"SS+2"``), a few distinct ones in any project;
 #: only texts that read without error are kept
 _known: dict[str, tuple[LinkType, int]] = {}
+KNOWN_TYPES_AND_LAGS = _known  # to look up before calling known_type_and_lag (read only)
 
 
 def known_type_and_lag(text: str) -> tuple[LinkType, int] | None:
