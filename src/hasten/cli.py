@@ -81,8 +81,34 @@ ScenariosOpt = Annotated[Optional[int], typer.Option("--scenarios", help="Scenar
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", help="Seed of the random draws (the same seed gives the same figures).")]
 
 
+#: a text at least this long is written by :func:`_echo` without ``typer.echo``'s copies
+_LONG = 1 << 20
+
+
 def _echo(text: str) -> None:
-    typer.echo(text)
+    """``typer.echo(text)``. A long text (a schedule's JSON at 200,000 activities is 73 MB)
+    without an escape character goes to the same stream without the copies echo makes of
+    it (the line end added, the search for terminal colour codes it cannot hold)."""
+    if len(text) < _LONG or "\x1b" in text:
+        typer.echo(text)
+        return
+    stream = typer.get_text_stream("stdout", errors=None)  # (the stream echo writes to)
+    stream.write(text)
+    stream.write("\n")
+    stream.flush()
+
+
+#: big results of the command of a console-script run, kept until the process ends (see
+#: :func:`main`); None otherwise (tests, a program calling the app), where they are freed
+_KEPT: list | None = None
+
+
+def _keep(*results) -> None:
+    """Keep ``results`` alive to the end of a console-script run: :func:`main` ends the
+    process without freeing them (at 200,000 activities, freeing the project and its
+    schedule one object at a time when the command returns took a quarter of a second)."""
+    if _KEPT is not None:
+        _KEPT.append(results)
 
 
 def _json(obj) -> None:
@@ -267,7 +293,9 @@ def main() -> None:  # pragma: no cover - the console script
     # garbage collector only costs time here (about a third of a 50,000-activity run), and
     # so does tearing the objects down one by one at exit. Every file hasten writes is
     # closed by then; the streams are flushed before the process ends.
+    global _KEPT
     gc.disable()
+    _KEPT = []
     try:
         app()
         code = 0

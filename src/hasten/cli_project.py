@@ -11,7 +11,7 @@ from typing import Annotated, Optional
 import typer
 
 from .cli import (  # the shared options and helpers
-    app, ProjectArg, JsonOpt, ForceOpt, WideOpt, ProductivityOpt, _echo, _json, _errors,
+    app, ProjectArg, JsonOpt, ForceOpt, WideOpt, ProductivityOpt, _echo, _json, _errors, _keep,
     _emit, _outputs, _date, render, render_json, cpm, check_output_folder,
     check_output_target, import_research, read_project_with_notes, convert_project,
     read_project, write_table)
@@ -67,6 +67,7 @@ def schedule(
         _outputs(project, force, tables=(out,))
         p, notes = read_project_with_notes(project)
         sched = cpm(p, deadline=None if deadline is None else _date(deadline, "--deadline"))
+        _keep(p, sched)
         if out is not None:
             rows = render_json.schedule_rows(p, sched)
             write_table(out, render_json.SCHEDULE_COLUMNS, rows, sheet_name="schedule",

@@ -11,7 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from datetime import date
 from itertools import repeat
-from operator import add, attrgetter, sub
+from operator import add, attrgetter
 from typing import NamedTuple, Sequence
 
 import numpy as np
@@ -114,28 +114,29 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
     finish = net.finish_of(es, d)
     horizon = finish if deadline is None else deadline
     ls = net.backward(d, horizon)
-    tf = list(map(sub, ls, es))
-    live = [not f for f in net.fixed]  # finished work has no float and is never critical
-    least = min((t for t, a in zip(tf, live) if a), default=0)
+    es_a, ls_a, d_a = (np.asarray(x, dtype=np.int64) for x in (es, ls, d))
+    tf_a = ls_a - es_a
+    live = ~net._fixed  # finished work has no float and is never critical
+    least = int(tf_a[live].min()) if live.any() else 0
+    tf = tf_a.tolist()
+    critical = ((tf_a == least) & live).tolist()
 
     slack = net.link_slacks(es, d)
-    free_a = np.asarray(net.latest_finish(finish), dtype=np.int64) - np.asarray(es, dtype=np.int64) \
-        - np.asarray(d, dtype=np.int64)
+    free_a = np.asarray(net.latest_finish(finish), dtype=np.int64) - es_a - d_a
     if len(slack):
         np.minimum.at(free_a, net._p, slack)
     free = free_a.tolist()
-    driving: list[list[int]] = [[] for _ in range(n)]
+    # the driving links (no gap at the early dates), grouped by successor in link order
     tight = np.flatnonzero(slack == 0)
-    for i, j in zip(net._p[tight].tolist(), net._s[tight].tolist()):
-        driving[j].append(i)
-    critical = [t == least and a for t, a in zip(tf, live)]
-    paths, truncated = _critical_paths(net, critical, driving, es, d, finish)
-    longest = _longest_paths(net, driving, es, d, finish) if net.several else ()
+    by_succ = tight[np.argsort(net._s[tight], kind="stable")]
+    tp, ts = net._p[by_succ], net._s[by_succ]
+    drives = _driving_ids(net.ids, tp, ts)
+    paths, truncated = _critical_paths(net, critical, tp, ts)
+    longest = _longest_paths(net, tp, ts, es, d, finish) if net.several else ()
     states = net.progress.activities
     if not any(net.fixed) and list(net.shown_start).count(None) == n:
         # nothing started or finished: every row from the passes, made without a loop
         ids = net.ids
-        drives = [tuple(map(ids.__getitem__, p)) if p else () for p in driving]
         rows = tuple(map(tuple.__new__, repeat(ActivityDates), zip(
             ids, d, es, map(add, es, d), ls, map(add, ls, d), tf, free, critical, drives,
             map(attrgetter("state"), states))))
@@ -151,14 +152,35 @@ def schedule(project_or_network: Project | Network, durations: Sequence[int] | N
             continue
         late_start = ls[i] if shown is None else start
         rows.append(ActivityDates(net.ids[i], d[i], start, es[i] + d[i], late_start, ls[i] + d[i], tf[i],
-                                  free[i], critical[i], tuple(net.ids[p] for p in driving[i]),
+                                  free[i], critical[i], drives[i],
                                   states[i].state))
     return Schedule(finish, tuple(rows), paths, deadline, truncated, longest, net.progress.warnings,
                     net.clock.start_date(0), net.finish_date(finish), states, deadline_date)
 
 
-def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: list[int], finish: int):
+def _driving_ids(ids: list[str], tp: np.ndarray, ts: np.ndarray) -> list[tuple[str, ...]]:
+    """The ids of each activity's driving predecessors (a tuple, in link order), from the
+    driving links ``tp -> ts`` sorted by successor: the tuples of the activities with
+    ``c`` driving links made at once for each ``c``, then put in place by one look-up."""
+    made: list[tuple[str, ...]] = [()]
+    where = np.zeros(len(ids), dtype=np.int64)  # position in made of each activity's tuple
+    if not len(ts):
+        return made * len(ids)
+    first = np.flatnonzero(np.r_[True, ts[1:] != ts[:-1]])
+    counts = np.diff(np.r_[first, len(ts)])
+    names = list(map(ids.__getitem__, tp.tolist()))
+    for c in np.unique(counts).tolist():
+        at = first[counts == c]
+        where[ts[at]] = np.arange(len(made), len(made) + len(at))
+        made += zip(*(map(names.__getitem__, (at + k).tolist()) for k in range(c)))
+    return list(map(made.__getitem__, where.tolist()))
+
+
+def _longest_paths(net: Network, tp: np.ndarray, ts: np.ndarray, es: list[int], d: list[int], finish: int):
     """Chains of driving links from a start to the work that ends at the project finish."""
+    driving: list[list[int]] = [[] for _ in range(len(d))]
+    for i, j in zip(tp.tolist(), ts.tolist()):
+        driving[j].append(i)
     cap = net.latest_finish(finish)
     ends = [i for i in range(len(d)) if not net.fixed[i] and es[i] + d[i] >= cap[i]]
     on = [False] * len(d)
@@ -169,21 +191,19 @@ def _longest_paths(net: Network, driving: list[list[int]], es: list[int], d: lis
             continue
         on[j] = True
         stack.extend(i for i in driving[j] if not on[i] and not net.fixed[i])
-    return _critical_paths(net, on, driving, es, d, finish)[0]
+    return _critical_paths(net, on, tp, ts)[0]
 
 
-def _critical_paths(net: Network, critical: list[bool], driving: list[list[int]],
-                    es: list[int], d: list[int], finish: int):
-    """Chains of critical activities joined by driving links, from a start to the finish."""
+def _critical_paths(net: Network, critical: list[bool], tp: np.ndarray, ts: np.ndarray):
+    """Chains of critical activities joined by driving links (``tp -> ts``, sorted by
+    successor in link order), from a start to the finish."""
     nxt: dict[int, list[int]] = {}
     has_pred: set[int] = set()
-    for j, preds in enumerate(driving):
-        if not critical[j]:
-            continue
-        for i in preds:
-            if critical[i]:
-                nxt.setdefault(i, []).append(j)
-                has_pred.add(j)
+    on = np.asarray(critical, dtype=bool)
+    both = on[tp] & on[ts] if len(tp) else np.zeros(0, dtype=bool)
+    for i, j in zip(tp[both].tolist(), ts[both].tolist()):
+        nxt.setdefault(i, []).append(j)
+        has_pred.add(j)
     starts = [i for i in net.order if critical[i] and i not in has_pred]
     paths: list[tuple[str, ...]] = []
     truncated = False

@@ -39,9 +39,9 @@ def levels(n: int, pred: np.ndarray, succ: np.ndarray) -> np.ndarray | None:
         if not total:
             break
         offsets = np.arange(total) - np.repeat(np.cumsum(counts) - counts, counts)
-        targets = succ[order[np.repeat(starts, counts) + offsets]]
-        indeg -= np.bincount(targets, minlength=n)
-        frontier = np.unique(targets[indeg[targets] == 0])
+        targets, times = np.unique(succ[order[np.repeat(starts, counts) + offsets]], return_counts=True)
+        indeg[targets] -= times  # (per level: no pass over every node)
+        frontier = targets[indeg[targets] == 0]
         depth += 1
     return level if seen == n else None
 

@@ -81,17 +81,17 @@ class Network(CpmPasses):
         if self.progress.progressed:
             kept = [e for e, k in enumerate(links) if e not in self.progress.dropped
                     and self._compile_link(k, idx[k.pred], idx[k.succ], states)]
-            self.pred: list[int] = every_pred[kept].tolist()
-            self.succ: list[int] = every_succ[kept].tolist()
+            every_pred, every_succ = every_pred[kept], every_succ[kept]
             levels = None  # fewer links: the levels are counted again
         else:  # without progress every link joins two events still to schedule
             kept = range(len(links))
-            self.pred, self.succ = every_pred.tolist(), every_succ.tolist()
+        self.pred: list[int] = every_pred.tolist()
+        self.succ: list[int] = every_succ.tolist()
         self.link_index: list[int] = list(kept)  # position of each link in project.links
         kept_links = links if len(kept) == len(links) else [links[e] for e in kept]
         self.kind: list[int] = list(map(_KIND.__getitem__, map(attrgetter("type"), kept_links)))
         self.lag: list[int] = list(map(attrgetter("lag"), kept_links))
-        self._arrays(levels)
+        self._arrays(levels, every_pred, every_succ)
         self._in_links: list[list[int]] | None = None
         self._out_links: list[list[int]] | None = None
         # the project finish is dated no earlier than a milestone's first day (hasten.progress;
@@ -174,11 +174,11 @@ class Network(CpmPasses):
                               for d, st, opts in zip(self.durations, self.steps, self.options)]
         return self._shortest
 
-    def _arrays(self, level: np.ndarray | None) -> None:
-        """Links as numpy arrays grouped by level, for the vectorised passes."""
+    def _arrays(self, level: np.ndarray | None, pred: np.ndarray, succ: np.ndarray) -> None:
+        """Links as numpy arrays grouped by level, for the vectorised passes (``pred`` and
+        ``succ``: the arrays of :attr:`pred` and :attr:`succ`)."""
         n = len(self.ids)
-        self._p = np.asarray(self.pred, dtype=np.int64)
-        self._s = np.asarray(self.succ, dtype=np.int64)
+        self._p, self._s = pred, succ
         kind = np.asarray(self.kind, dtype=np.int64)
         self._lag = np.asarray(self.lag, dtype=np.int64)
         self._from_finish = (kind == _FS) | (kind == _FF)  # the link leaves the predecessor's finish

@@ -41,6 +41,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from operator import attrgetter
 
 from .calendar import CalendarClock, Timeline
 from .errors import InputError
@@ -173,16 +174,20 @@ def apply_progress(project: Project, clock: CalendarClock, timeline: Timeline | 
     ``clock`` is the project calendar's; ``timeline`` (when activities have calendars of
     their own) gives each activity's clock and converts links between calendars."""
     data = None if project.data_date is None else clock.offset_of(project.data_date, finish=False)
-    followers = {k.succ for k in project.links}  # activities with a predecessor
-    if data is None and not any(a.not_before for a in project.activities):
+    # the milestones with a predecessor (only milestones are asked about)
+    zero = {a.id for a in project.activities if not a.duration}
+    followers = zero.intersection(map(attrgetter("succ"), project.links)) if zero else zero
+    if data is None and not any(map(attrgetter("not_before"), project.activities)):
         # no progress, no dates: everything waits to start at day 0 at its normal pace (one
         # shared, immutable status per duration: large projects have few distinct ones)
-        shared: dict[tuple[int, bool], ActivityProgress] = {}
-        out = []
-        for a in project.activities:
-            key = (a.duration, a.duration == 0 and a.id not in followers)
-            out.append(shared.get(key) or shared.setdefault(
-                key, ActivityProgress(WAITING, a.duration, 0, None, None, opens=key[1])))
+        durations = list(map(attrgetter("duration"), project.activities))
+        shared = {d: ActivityProgress(WAITING, d, 0, None, None) for d in set(durations)}
+        out = list(map(shared.__getitem__, durations))
+        if zero - followers:  # start milestones (no predecessor)
+            opening = ActivityProgress(WAITING, 0, 0, None, None, opens=True)
+            for k, a in enumerate(project.activities):
+                if not a.duration and a.id not in followers:
+                    out[k] = opening
         return Progress(None, tuple(out), frozenset(), ())
     several = timeline is not None and timeline.several
     if several:  # the data date in each activity's own calendar

@@ -10,14 +10,14 @@ from __future__ import annotations
 
 import textwrap
 from datetime import date
-from operator import itemgetter
+from operator import attrgetter
 from typing import TYPE_CHECKING
 
 from .cpm import Schedule
 from .project import Project
-from .render_fit import WIDTH, table
-from .render_json import (days, instructions, money, option_note, point_changes, point_plan,
-                          revised_rows, schedule_rows)
+from .render_fit import WIDTH, columns_table, table
+from .render_json import (SCHEDULE_COLUMNS, days, instructions, money, option_note, point_changes, point_plan,
+                          revised_rows, schedule_columns)
 
 if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
     from .price import PricedProposal
@@ -65,16 +65,17 @@ _STATE = {"finished": "done", "not started": "to do"}  # progress states, short 
 
 
 def schedule_text(project: Project, sched: Schedule, *, wide: bool = False) -> str:
-    rows = schedule_rows(project, sched)
+    columns = dict(zip(SCHEDULE_COLUMNS, schedule_columns(project, sched)))
     progress = project.data_date is not None
-    own = any(a.calendar for a in project.activities)  # some activities have their own calendar
+    own = any(map(attrgetter("calendar"), project.activities))  # some have a calendar of their own
     head = ["id", "name", "trade"] + (["calendar"] if own else []) + (["status"] if progress else [])
-    first = itemgetter("id", "name", "trade", *(["calendar"] if own else []))
-    dates = itemgetter("duration", "early_start", "early_finish", "late_start", "late_finish",
-                       "total_float", "free_float")
-    body = table(
-        [[*first(r), *([_STATE.get(r["state"], r["state"])] if progress else []), *dates(r),
-          "yes" if r["critical"] else ""] for r in rows],
+    first = ["id", "name", "trade"] + (["calendar"] if own else [])
+    states = list(columns["state"])
+    body = columns_table(
+        [list(columns[k]) for k in first] + ([list(map(_STATE.get, states, states))] if progress else [])
+        + [list(columns[k]) for k in ("duration", "early_start", "early_finish", "late_start", "late_finish",
+                                      "total_float", "free_float")]
+        + [["yes" if c else "" for c in columns["critical"]]],
         head + [("days\nleft" if progress else "days"), "early\nstart", "early\nfinish", "late\nstart",
                 "late\nfinish", "total\nfloat", "free\nfloat", "crit-\nical"],
         shorten=list(range(1, len(head))), optional=[2], wide=wide)

@@ -17,10 +17,9 @@ from __future__ import annotations
 
 import re
 import textwrap
-from itertools import zip_longest
 from typing import Sequence
 
-__all__ = ["WIDTH", "table", "cut", "wrap_lines"]
+__all__ = ["WIDTH", "table", "columns_table", "cut", "wrap_lines"]
 
 #: the widest line a text table may have (``--wide`` lifts it)
 WIDTH = 100
@@ -42,13 +41,10 @@ def _longest_line(text: str) -> int:
     return max(map(len, text.split("\n")))
 
 
-def _widths(rows: list[list[str]], headers: Sequence[str]) -> list[int]:
-    """The widest line of each column, its title included (column by column: a column
-    without line breaks is measured in one call)."""
-    out = [_longest_line(str(h)) for h in headers]
-    for k, column in enumerate(zip_longest(*rows, fillvalue="")):
-        out[k] = max(out[k], _widest(column))
-    return out
+def _widths(columns: list[list[str]], headers: Sequence[str]) -> list[int]:
+    """The widest line of each column, its title included (a column without line breaks
+    is measured in one call)."""
+    return [max(_longest_line(str(h)), _widest(c)) for h, c in zip(headers, columns)]
 
 
 def _widest(column: Sequence[str]) -> int:
@@ -79,14 +75,28 @@ def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: 
         Columns left out, in this order, while the table is too wide with the texts cut to
         ``comfort`` characters (a line under the table names them).
     """
-    text_rows = [["" if c is None else str(c) for c in r] if None in r else list(map(str, r))
-                 for r in rows]
+    return columns_table(list(zip(*rows)) if rows else [[] for _ in headers], headers, shorten=shorten,
+                         wrap=wrap, wide=wide, width=width, least=least, optional=optional, comfort=comfort)
+
+
+def columns_table(columns: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: Sequence[int] = (),
+                  wrap: Sequence[int] = (), wide: bool = False, width: int = WIDTH, least: int = 8,
+                  optional: Sequence[int] = (), comfort: int = 24) -> str:
+    """:func:`table` of the cells given column by column (each column a sequence of
+    cells, top to bottom, all of one length), as ``table(list(zip(*columns)), headers, ...)``."""
+    # the table column by column: each column turned into text, measured, cut and put
+    # into the lines in one pass
+    columns = [column if isinstance(column, list) else list(column) for column in columns]
+    # columns of whole numbers are numbers (aligned right) without reading their texts
+    whole = [bool(column) and type(column[0]) is int and set(map(type, column)) <= {int} for column in columns]
+    columns = [list(map(str, column)) if known or None not in column else
+               ["" if c is None else str(c) for c in column] for column, known in zip(columns, whole)]
     headers = [str(h) for h in headers]
     dropped: list[str] = []
     measured = None  # the widths of the columns, measured once (a column left out or cut
     # changes no other column's width)
     if not wide:
-        measured = _widths(text_rows, headers)
+        measured = _widths(columns, headers)
         for k in optional:
             floor = [len(max(str(h).split("\n"), key=len)) if j not in (*shorten, *wrap) or j in optional
                      else max(comfort, len(max(str(h).split("\n"), key=len))) for j, h in enumerate(headers)]
@@ -98,8 +108,8 @@ def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: 
             dropped.append(headers[gone].replace("\n", " "))
             del headers[gone]
             del measured[gone]
-            for r in text_rows:
-                del r[gone]
+            del columns[gone]
+            del whole[gone]
             shorten = [j - (j > gone) for j in shorten if j != gone]
             wrap = [j - (j > gone) for j in wrap if j != gone]
         widths = list(measured)
@@ -117,21 +127,24 @@ def table(rows: Sequence[Sequence[object]], headers: Sequence[str], *, shorten: 
         for k, cap in limit.items():
             if cap is None:
                 continue
-            for r in text_rows:
-                r[k] = wrap_lines(r[k], cap) if k in wrap else cut(r[k], cap)
-            measured[k] = max(_longest_line(headers[k]), _widest([r[k] for r in text_rows]))
+            columns[k] = [wrap_lines(x, cap) if k in wrap else cut(x, cap) for x in columns[k]]
+            whole[k] = False
+            measured[k] = max(_longest_line(headers[k]), _widest(columns[k]))
     note = f"\n({', '.join(dropped)} left out to fit {width} columns; --wide shows every column)" if dropped else ""
-    return _render(text_rows, headers, measured) + note
+    return _render(columns, headers, measured, whole) + note
 
 
-def _render(rows: list[list[str]], headers: list[str], widths: list[int] | None = None) -> str:
+def _render(columns: list[list[str]], headers: list[str], widths: list[int] | None = None,
+            whole: Sequence[bool] = ()) -> str:
     """Columns two spaces apart, titles over a dashed rule (titles of several lines sit on
     the rule), numbers aligned right, other texts left; cells may hold several lines.
-    ``widths``: the columns' widths when the caller has measured them."""
+    ``widths``: the columns' widths when the caller has measured them; ``whole``: the
+    columns known to hold whole numbers (the texts of the others are read)."""
     if widths is None:
-        widths = _widths(rows, headers)
-    columns = list(zip(*rows)) if rows else []
-    right = [bool(rows) and _numbers(columns[k]) for k in range(len(headers))]
+        widths = _widths(columns, headers)
+    rows = bool(columns) and bool(columns[0])
+    known = list(whole) + [False] * (len(headers) - len(whole))
+    right = [rows and (known[k] or _numbers(columns[k])) for k in range(len(headers))]
 
     def block(cells: list[str], top: bool) -> list[str]:
         parts = [c.split("\n") for c in cells]
@@ -142,10 +155,14 @@ def _render(rows: list[list[str]], headers: list[str], widths: list[int] | None 
 
     out = block(headers, True) + [(" " * _GAP).join("-" * w for w in widths)]
     # a row of one line each: its cells put in place by one format string (what block
-    # does, without splitting each cell)
+    # does, without splitting each cell); without a line break in any cell, every row so
+    # by one call over the columns
     line = (" " * _GAP).join(f"{{:{'>' if r else '<'}{w}}}" if w else "{}"
                              for w, r in zip(widths, right))
-    for r in rows:
+    if columns and not any("\n" in "".join(c) for c in columns):
+        out += map(str.rstrip, map(line.format, *columns))
+        return "\n".join(out)
+    for r in zip(*columns):
         if "\n" in "".join(r):
             out += block(r, False)
         else:
@@ -158,6 +175,8 @@ def _numbers(column: list[str]) -> bool:
     one-line cells is matched whole."""
     given = list(filter(None, column))
     if not given:
+        return False
+    if not _NUMBER.match(given[0]):  # (a column of texts: known by its first)
         return False
     if "\n" in "".join(given):
         return all(_NUMBER.match(text) for text in given)

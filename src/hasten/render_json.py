@@ -26,7 +26,7 @@ if TYPE_CHECKING:  # the optimiser is imported only by the commands that use it
 
 __all__ = [
     "SCHEDULE_COLUMNS", "REVISED_COLUMNS", "DATE_COLUMNS", "money_value", "iso", "schedule_rows", "schedule_json",
-    "schedule_json_text",
+    "schedule_json_text", "schedule_columns",
     "revised_rows", "plan_json", "point_plan", "point_changes", "curve_rows", "curve_json", "total_cost_row",
     "best_json", "recovery_json", "revised_course_rows", "instructions", "money", "option_note", "days",
     "plan_activities", "price_json", "quality_json",
@@ -76,23 +76,25 @@ def _dates(clock: CalendarClock, starts: list[int], finishes: list[int],
 def _iso_dates(clock: CalendarClock, offsets: np.ndarray) -> list[str]:
     """``clock.iso_dates(offsets)``, each distinct day formatted once (a schedule's
     200,000 dates fall on a few thousand days)."""
+    if not len(offsets):
+        return []
+    low, high = int(offsets.min()), int(offsets.max())
+    if high - low <= len(offsets):  # every day from the first to the last, looked up by offset
+        return list(map(clock.iso_dates(np.arange(low, high + 1)).__getitem__, (offsets - low).tolist()))
     days, where = np.unique(offsets, return_inverse=True)
     return list(map(clock.iso_dates(days).__getitem__, where.tolist()))
 
 
-def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str, states=None,
-               late: bool = False):
-    """Dates of one (start, finish) pair of every row, each in its activity's own calendar."""
-    starts = list(map(attrgetter(field), rs))
-    finishes = list(map(attrgetter(other), rs))
-    milestones = (np.equal(list(map(attrgetter("duration"), rs)), 0)
-                  & np.equal(list(map(attrgetter("duration"), project.activities)), 0)).tolist() \
-        if states and rs else [] if states else None
+def _row_dates(project: Project, timeline: Timeline, ids: Sequence[str], milestones: list[bool] | None,
+               starts: Sequence[int], finishes: Sequence[int], states=None, late: bool = False):
+    """Dates of one (start, finish) pair of every row (``ids``, in the project's order, as
+    a schedule has them), each in its activity's own calendar; ``milestones``: the rows
+    dated as milestones when ``states`` are given."""
     if not timeline.several:
         return _dates(timeline.project_clock, starts, finishes, milestones, states, late)
     pos = {a.id: k for k, a in enumerate(project.activities)}
-    cal = [timeline.of[pos[r.id]] for r in rs]
-    first, last = [""] * len(rs), [""] * len(rs)
+    cal = [timeline.of[pos[i]] for i in ids]
+    first, last = [""] * len(ids), [""] * len(ids)
     for c in sorted(set(cal)):
         mine = [k for k, x in enumerate(cal) if x == c]
         f, g = _dates(timeline.clocks[c], [starts[k] for k in mine], [finishes[k] for k in mine],
@@ -103,38 +105,36 @@ def _row_dates(project: Project, timeline: Timeline, rs, field: str, other: str,
     return first, last
 
 
-_DATES_FIELDS = ("id", "duration", "es", "ef", "ls", "lf", "total_float", "free_float",
-                 "critical", "driving", "state")
-
-
-def _schedule_columns(project: Project, sched: Schedule) -> tuple:
-    """The values of each of :data:`SCHEDULE_COLUMNS`, top to bottom (iterables)."""
-    acts = {a.id: a for a in project.activities}
+def schedule_columns(project: Project, sched: Schedule) -> tuple:
+    """The values of each of :data:`SCHEDULE_COLUMNS`, top to bottom (iterables; the
+    driving activities of each row as a tuple)."""
     rs = sched.activities
-    timeline = Timeline(project)
-    states = sched.states or None
-    es, ef = _row_dates(project, timeline, rs, "es", "ef", states)
-    ls, lf = _row_dates(project, timeline, rs, "ls", "lf", states, late=True)
     if not rs:
         return ((),) * len(SCHEDULE_COLUMNS)
-    # the fields of every row as columns at once
-    (ids, duration, es_, ef_, ls_, lf_, total, free, critical, driving,
-     state) = zip(*map(attrgetter(*_DATES_FIELDS), rs))
-    own = list(map(acts.__getitem__, ids))
+    # the fields of every row as columns at once (a row is a tuple of ActivityDates' fields)
+    (ids, duration, es_, ef_, ls_, lf_, total, free, critical, driving, state) = zip(*rs)
+    acts = project.activities
+    own = acts if ids == tuple(map(attrgetter("id"), acts)) else list(map({a.id: a for a in acts}.__getitem__, ids))
+    timeline = Timeline(project)
+    states = sched.states or None
+    milestones = (np.equal(duration, 0) & np.equal(list(map(attrgetter("duration"), acts)), 0)).tolist() \
+        if states else None
+    es, ef = _row_dates(project, timeline, ids, milestones, es_, ef_, states)
+    ls, lf = _row_dates(project, timeline, ids, milestones, ls_, lf_, states, late=True)
     default = project.calendar.name
     calendars = map(attrgetter("calendar"), own)
     return (
         ids, map(attrgetter("name"), own), map(attrgetter("trade"), own),
         [c or default for c in calendars], duration, state, es_, ef_, ls_, lf_, es, ef, ls, lf,
-        total, free, critical, map(list, driving))
+        total, free, critical, driving)
 
 
 def schedule_rows(project: Project, sched: Schedule) -> list[dict]:
     """One row per activity with offsets and the dates a person reads (each activity's
     offsets and dates in its own calendar)."""
     # column by column, then one dictionary per row (keys in SCHEDULE_COLUMNS order)
-    columns = _schedule_columns(project, sched)
-    return list(map(dict, map(zip, repeat(SCHEDULE_COLUMNS), zip(*columns))))
+    *columns, driving = schedule_columns(project, sched)
+    return list(map(dict, map(zip, repeat(SCHEDULE_COLUMNS), zip(*columns, map(list, driving)))))
 
 
 def _schedule_head(project: Project, sched: Schedule) -> dict:
@@ -179,7 +179,7 @@ def _json_texts(values: Iterable) -> Iterable[str]:
         return map(int.__repr__, values)
     if kinds <= {bool}:
         return map(_JSON_BOOL.__getitem__, values)
-    if kinds <= {list} and set(map(type, chain.from_iterable(values))) <= {str}:
+    if kinds <= {list, tuple} and set(map(type, chain.from_iterable(values))) <= {str}:
         return map("[{}]".format, map(", ".join, map(map, repeat(_json_str), values)))
     return map(_JSON_ONE.encode, values)
 
@@ -199,10 +199,12 @@ def _json_column(values: Iterable) -> tuple[str, Iterable]:
         return '"%s"', values
     if kinds <= {int}:  # (not bool: its %d is 1, JSON's is true)
         return "%d", values
-    if kinds <= {list} and set(map(type, chain.from_iterable(values))) <= {str} and \
+    if kinds <= {list, tuple} and set(map(type, chain.from_iterable(values))) <= {str} and \
             _plain_json_text(list(chain.from_iterable(values))):
-        texts = list(map('["%s"]'.__mod__, map('", "'.join, values)))
-        return "%s", list(map({'[""]': "[]"}.get, texts, texts))  # (no id is empty)
+        # the lists of the whole column in one text, then split into rows ("\0" is in no
+        # plain text; an empty text in none of the lists: no id is empty)
+        text = '["' + '"]\0["'.join(map('", "'.join, values)) + '"]'
+        return "%s", text.replace('[""]', "[]").split("\0")
     return "%s", _json_texts(values)
 
 
@@ -213,7 +215,7 @@ def schedule_json_text(project: Project, sched: Schedule, notes: Sequence[str] =
     as their JSON text (no dictionary per row: at 200,000 activities the dictionaries and
     their dump took 2.3 s of the command's 5.8)."""
     before = json.dumps(_schedule_head(project, sched), ensure_ascii=False)
-    kinds, columns = zip(*map(_json_column, _schedule_columns(project, sched)))
+    kinds, columns = zip(*map(_json_column, schedule_columns(project, sched)))
     row = "{" + ", ".join(f"{_json_str(name)}: {kind}"
                           for name, kind in zip(SCHEDULE_COLUMNS, kinds)) + "}"
     rows = ", ".join(map(row.__mod__, zip(*columns)))
