@@ -155,6 +155,16 @@ class PlanChecker:
         at = np.asarray(level, dtype=np.int64)[self._hs]
         by = np.argsort(at, kind="stable")
         self._by_level = [g for g in np.split(by, np.searchsorted(at[by], np.arange(1, top + 1))) if len(g)]
+        # each level's arrays taken out once (a curve checks a plan every day): predecessor,
+        # successor, from its finish (0/1), lag, onto the successor's finish (0/1), and
+        # where an actual start stands instead of the early one (None: nowhere on the level)
+        self._level_arrays = []
+        for g in self._by_level:
+            i, from_finish = self._hp[g], self._h_from_finish[g]
+            actual = ~from_finish & self._started[i]
+            self._level_arrays.append((i, self._hs[g], from_finish.astype(np.int64), self._h_lag[g],
+                                       (~self._h_on_start[g]).astype(np.int64),
+                                       (actual, self._actual[i]) if actual.any() else None))
 
     def _links_into(self) -> list[list[tuple]]:
         """Per activity, the links in force into it: (predecessor, from its finish, onto
@@ -185,11 +195,11 @@ class PlanChecker:
     def _forward(self, d: np.ndarray) -> np.ndarray:
         if self._vector:
             es = self._earliest.copy()
-            for links in self._by_level:  # predecessors are on earlier levels: already final
-                i, j = self._hp[links], self._hs[links]
-                at = np.where(self._h_from_finish[links], es[i] + d[i],
-                              np.where(self._started[i], self._actual[i], es[i]))  # an actual start stands
-                np.maximum.at(es, j, at + self._h_lag[links] - np.where(self._h_on_start[links], 0, d[j]))
+            for i, j, from_finish, lag, to_finish, stands in self._level_arrays:
+                at = es[i] + d[i] * from_finish  # predecessors are on earlier levels: already final
+                if stands is not None:  # an actual start stands
+                    at = np.where(stands[0], stands[1], at)
+                np.maximum.at(es, j, at + lag - d[j] * to_finish)
             return es
         dl = d.tolist()
         es, start_at = self._earliest.tolist(), [0] * len(dl)  # start_at: an actual start stands
