@@ -154,12 +154,12 @@ class PlanChecker:
         self._vector = not self._h_cross.any() and n >= 20 * (top + 1)
         at = np.asarray(level, dtype=np.int64)[self._hs]
         by = np.argsort(at, kind="stable")
-        self._by_level = [g for g in np.split(by, np.searchsorted(at[by], np.arange(1, top + 1))) if len(g)]
+        by_level = [g for g in np.split(by, np.searchsorted(at[by], np.arange(1, top + 1))) if len(g)]
         # each level's arrays taken out once (a curve checks a plan every day): predecessor,
         # successor, from its finish (0/1), lag, onto the successor's finish (0/1), and
         # where an actual start stands instead of the early one (None: nowhere on the level)
         self._level_arrays = []
-        for g in self._by_level:
+        for g in by_level:
             i, from_finish = self._hp[g], self._h_from_finish[g]
             actual = ~from_finish & self._started[i]
             self._level_arrays.append((i, self._hs[g], from_finish.astype(np.int64), self._h_lag[g],

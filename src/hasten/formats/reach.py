@@ -53,6 +53,12 @@ def _work(activity: Activity) -> tuple[int, str]:
     return activity.longest, "duration"
 
 
+def _durations_only(activities: Sequence[Activity]) -> bool:
+    """No activity has progress or options: each one's work (:func:`_work`) is its duration."""
+    return not (any(map(attrgetter("actual_start"), activities)) or any(
+        map(attrgetter("actual_finish"), activities)) or any(map(attrgetter("options"), activities)))
+
+
 Places = tuple[Mapping[str, CellRef], Sequence[CellRef]]
 
 
@@ -107,12 +113,10 @@ def _in_a_row(project: Project, calendars: Mapping[str, Calendar], floor: date) 
     if any(map(attrgetter("not_before"), activities)):
         latest = max([floor] + [a.not_before for a in activities if a.not_before])
     slowest = max(min(len(c.workdays) for c in calendars.values()), 1)
-    if any(map(attrgetter("actual_start"), activities)) or any(
-            map(attrgetter("actual_finish"), activities)) or any(
-            map(attrgetter("options"), activities)):
-        work = sum(_work(a)[0] for a in activities)
-    else:  # the usual case: every activity's work is its duration
+    if _durations_only(activities):  # the usual case
         work = sum(map(attrgetter("duration"), activities))
+    else:
+        work = sum(_work(a)[0] for a in activities)
     days = work + sum(filter((0).__lt__, map(attrgetter("lag"), links)))
     return (latest.toordinal() + 7 * days // slowest + 7 + 14 * len(activities)
             + 21 * len(links))
@@ -140,15 +144,10 @@ def _latest_finish(project: Project, calendars: Mapping[str, Calendar], floor: d
     if not (pred < succ).all():
         return None
     count = len(activities)
-    if plain or not (any(map(attrgetter("actual_start"), activities)) or any(
-            map(attrgetter("actual_finish"), activities)) or any(
-            map(attrgetter("options"), activities))):  # every activity's work: its duration
+    if plain or _durations_only(activities):  # every activity's work: its duration
         work = np.fromiter(map(attrgetter("duration"), activities), np.int64, count)
     else:
-        work = np.array([0 if a.actual_finish is not None
-                         else a.remaining if a.actual_start is not None and a.remaining is not None
-                         else a.longest if a.options else a.duration
-                         for a in activities], np.int64)
+        work = np.array([_work(a)[0] for a in activities], np.int64)
     first = floor.toordinal()
     if not plain and any(map(attrgetter("not_before"), activities)):
         start = np.array([max(floor, a.not_before).toordinal() if a.not_before else first
